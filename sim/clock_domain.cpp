@@ -241,23 +241,25 @@ void clock_domain::append(const clock_segment& s) {
 }
 
 clock_edge clock_domain::change_frequency(time_ps t, const frequency& f) {
+    if (t == max_time_ps) throw time_limit_error("clock change at the last representable instant");
     const clock_segment& l = segments_.back();
     clock_edge origin;
     if (l.is_running()) {
-        origin.tick = l.tick_at(t);
+        origin.tick = l.tick_at(t + 1);
         origin.at = l.time_of(origin.tick);
     } else {
         origin.tick = l.first_tick();
-        origin.at = std::max(t, l.start());
+        origin.at = std::max(t + 1, l.start());
     }
     append(clock_segment::running(origin.tick, origin.at, f));
     return origin;
 }
 
 void clock_domain::stop(time_ps t) {
+    if (t == max_time_ps) return;
     const clock_segment& l = segments_.back();
     if (!l.is_running()) return;
-    append(clock_segment::stopped(l.tick_at(t), std::max(t, l.start())));
+    append(clock_segment::stopped(l.tick_at(t + 1), std::max(t + 1, l.start())));
 }
 
 void clock_domain::forget_before(time_ps t) {

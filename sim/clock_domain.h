@@ -122,10 +122,11 @@ public:
     frequency freq_at(time_ps t) const;
     bool running_at(time_ps t) const { return !freq_at(t).is_zero(); }
 
-    // From the first edge at or after t (exactly t when stopped), run at f. Returns the edge at
-    // which the new frequency starts: that edge keeps its old time, the next is one new period on.
+    // A change at time t comes after any edge at t (as every event at t does). From the first edge
+    // after t (from t + 1 ps when stopped), run at f. Returns the edge at which the new frequency
+    // starts: that edge keeps its old time, the next is one new period on.
     clock_edge change_frequency(time_ps t, const frequency& f);
-    // Stop from time t: edges at or after t do not happen.
+    // Stop at time t: the edge at t, if any, has happened; edges after t do not.
     void stop(time_ps t);
     // Append a segment that starts at or after the last one's start (for clock-tree nodes).
     void append(const clock_segment& s);

@@ -379,16 +379,44 @@ void clock_tree::start() {
     for (std::size_t id : topo_) rebuild(id, 0);
 }
 
+namespace {
+// Segments of a timeline that start at or after t.
+std::vector<clock_segment>::const_iterator first_from(const std::vector<clock_segment>& segs, time_ps t) {
+    return std::lower_bound(segs.begin(), segs.end(), t,
+                            [](const clock_segment& s, time_ps v) { return s.start() < v; });
+}
+}  // namespace
+
+time_ps clock_tree::last_disturbance(std::size_t id, time_ps at) const {
+    // A PLL is disturbed by a change of its own settings or a new segment of its input.
+    const node& n = *nodes_[id];
+    auto h = std::upper_bound(n.history.begin(), n.history.end(), at,
+                              [](time_ps v, const auto& e) { return v < e.first; });
+    time_ps d = h == n.history.begin() ? 0 : (h - 1)->first;
+    const auto& segs = nodes_[n.inputs[0]]->out.segments();
+    auto s = std::upper_bound(segs.begin(), segs.end(), at,
+                              [](time_ps v, const clock_segment& x) { return v < x.start(); });
+    if (s != segs.begin()) d = std::max(d, (s - 1)->start());
+    return d;
+}
+
 std::vector<time_ps> clock_tree::event_times(std::size_t id, time_ps from) const {
+    // Only what starts at or after `from` can change the timeline from there on, so the cost of a
+    // rebuild does not grow with the run's history.
     const node& n = *nodes_[id];
     std::vector<time_ps> t;
-    std::vector<time_ps> disturbances;
-    for (const auto& h : n.history) disturbances.push_back(h.first);
-    for (std::size_t in : n.inputs)
-        for (const clock_segment& s : nodes_[in]->out.segments()) disturbances.push_back(s.start());
-    for (time_ps d : disturbances) {
-        if (d >= from) t.push_back(d);
-        if (n.kind == clock_kind::pll) {
+    auto h = std::lower_bound(n.history.begin(), n.history.end(), from,
+                              [](const auto& e, time_ps v) { return e.first < v; });
+    for (; h != n.history.end(); ++h) t.push_back(h->first);
+    for (std::size_t in : n.inputs) {
+        const auto& segs = nodes_[in]->out.segments();
+        for (auto s = first_from(segs, from); s != segs.end(); ++s) t.push_back(s->start());
+    }
+    if (n.kind == clock_kind::pll) {
+        // Each disturbance from `from` on, and the last one before it, may end in a lock after `from`.
+        std::vector<time_ps> disturbances = t;
+        if (from > 0) disturbances.push_back(last_disturbance(id, from - 1));
+        for (time_ps d : disturbances) {
             const time_ps lock = n.at(d).pll.lock_time;
             if (d <= max_time_ps - lock && d + lock >= from) t.push_back(d + lock);
         }
@@ -400,18 +428,23 @@ std::vector<time_ps> clock_tree::event_times(std::size_t id, time_ps from) const
 
 clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
     const node& n = *nodes_[id];
+    // A setting that takes effect at `at` acts on edges after `at`: anything at `at` itself (a
+    // peripheral's tick, a firmware write) has already seen the edge there, if there is one.
     const settings& s = n.at(at);
-    const std::uint64_t next = n.out.tick_at(at);
+    const time_ps after = at == max_time_ps ? at : at + 1;
+    const std::uint64_t next = n.out.tick_at(after);
+    auto stopped = [&] { return clock_segment::stopped(next, at == 0 ? 0 : after); };
     auto follow = [&](std::size_t input) {
-        const clock_segment& in = nodes_[input]->out.segment_at(at);
-        if (!in.is_running()) return clock_segment::stopped(next, at);
-        return clock_segment::derived(in, in.tick_at(at), next, 1);
+        const time_ps from = at == 0 ? 0 : after;  // at reset, the edge at 0 passes
+        const clock_segment& in = nodes_[input]->out.segment_at(from);
+        if (!in.is_running()) return stopped();
+        return clock_segment::derived(in, in.tick_at(from), next, 1);
     };
     auto source = [&](const frequency& f, time_ps jitter, std::uint64_t seed) {
         const clock_segment& old = n.out.segment_at(at);
-        if (n.out.segments().empty() || !old.is_running())
-            return clock_segment::running(next, at, f, jitter, seed);
-        const std::uint64_t k = old.tick_at(at);
+        if (n.out.segments().empty()) return clock_segment::running(0, at, f, jitter, seed);
+        if (!old.is_running()) return clock_segment::running(next, after, f, jitter, seed);
+        const std::uint64_t k = old.tick_at(after);
         return clock_segment::running(k, old.time_of(k), f, jitter, seed);
     };
     switch (n.kind) {
@@ -422,17 +455,17 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
             return source(s.rc.nominal.offset_ppb(s.rc.deviation_ppb + s.rc.trim * s.rc.trim_step_ppb),
                           0, 0);
         case clock_kind::external:
-            if (s.external.is_zero()) return clock_segment::stopped(next, at);
+            if (s.external.is_zero()) return stopped();
             return source(s.external, 0, 0);
         case clock_kind::gate:
-            return s.enabled ? follow(n.inputs[0]) : clock_segment::stopped(next, at);
+            return s.enabled ? follow(n.inputs[0]) : stopped();
         case clock_kind::mux:
-            return s.selected < 0 ? clock_segment::stopped(next, at)
-                                  : follow(n.inputs[static_cast<std::size_t>(s.selected)]);
+            return s.selected < 0 ? stopped() : follow(n.inputs[static_cast<std::size_t>(s.selected)]);
         case clock_kind::divider: {
-            const clock_segment& in = nodes_[n.inputs[0]]->out.segment_at(at);
-            if (!in.is_running()) return clock_segment::stopped(next, at);
-            std::uint64_t j = in.tick_at(at);
+            const time_ps from = at == 0 ? 0 : after;
+            const clock_segment& in = nodes_[n.inputs[0]]->out.segment_at(from);
+            if (!in.is_running()) return stopped();
+            std::uint64_t j = in.tick_at(from);
             if (next > 0) {
                 // Count on from the last output edge: its parent edge plus the factor then in force.
                 const std::uint64_t last = next - 1;
@@ -446,20 +479,17 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
         }
         case clock_kind::pll: {
             // The latest disturbance at or before `at` decides whether the PLL has locked yet.
-            time_ps d = 0;
-            for (const auto& h : n.history)
-                if (h.first <= at) d = std::max(d, h.first);
-            for (const clock_segment& seg : nodes_[n.inputs[0]]->out.segments())
-                if (seg.start() <= at) d = std::max(d, seg.start());
+            const time_ps d = last_disturbance(id, at);
             const time_ps lock = n.at(d).pll.lock_time;
             const clock_segment& in = nodes_[n.inputs[0]]->out.segment_at(at);
-            if (at - d < lock || !s.pll.enabled || !in.is_running())
-                return clock_segment::stopped(next, at);
+            if (at - d < lock || !s.pll.enabled || !in.is_running()) return stopped();
             const std::string rule = pll_rule_broken(s.pll, in.freq());
             if (!rule.empty())
                 throw clock_config_error("pll '" + n.name + "' at " + format_time(at) + ": " + rule);
+            // With no lock time the new output starts right after the disturbance's instant.
+            const time_ps origin = (lock == 0 && at > 0) ? after : at;
             return clock_segment::running(
-                next, at, in.freq().scaled(s.pll.multiplier, s.pll.input_divider * s.pll.output_divider));
+                next, origin, in.freq().scaled(s.pll.multiplier, s.pll.input_divider * s.pll.output_divider));
         }
     }
     return clock_segment::stopped(next, at);
@@ -544,14 +574,16 @@ time_ps clock_tree::select(const std::string& mux, const std::string& input, tim
         std::optional<clock_edge> e_old;
         if (old >= 0) e_old = nodes_[n.inputs[static_cast<std::size_t>(old)]]->out.edge_after(at);
         if (e_old) {
+            // The old input's edge e_old passes; the output holds from just after it.
             settings hold = s;
             hold.selected = -1;
-            put(n, e_old->at + 1, hold);
+            put(n, e_old->at, hold);
             const auto e_new = new_out.edge_after(e_old->at);
             effective = e_new ? e_new->at : e_old->at + 1;
         }
+        // A setting at t follows edges after t: set it just before the new input's first edge.
         s.selected = want;
-        put(n, effective, s);
+        put(n, effective == at ? at : effective - 1, s);
     }
     rebuild_and_propagate(by_name_.at(mux), at);
     return effective;
@@ -573,9 +605,10 @@ time_ps clock_tree::set_divider(const std::string& divider, std::uint64_t factor
                                  ": divide factor is 0; accepted: 1 or more");
     settings s = begin_change(n, at);
     s.factor = factor;
-    const auto e = n.out.edge_at_or_after(at);
+    // The next output edge still counts with the old factor; the new one counts from there.
+    const auto e = n.out.edge_after(at);
     const time_ps effective = e ? e->at : at;
-    put(n, effective, s);
+    put(n, effective == at ? at : effective - 1, s);
     rebuild_and_propagate(by_name_.at(divider), at);
     return effective;
 }
@@ -603,7 +636,7 @@ time_ps clock_tree::set_trim(const std::string& rc, std::int64_t trim, time_ps a
     s.rc.trim = trim;
     put(n, at, s);
     rebuild_and_propagate(by_name_.at(rc), at);
-    const auto e = n.out.edge_at_or_after(at);
+    const auto e = n.out.edge_after(at);
     return e ? e->at : at;
 }
 
@@ -613,7 +646,7 @@ time_ps clock_tree::set_external(const std::string& input, const frequency& f, t
     s.external = f;
     put(n, at, s);
     rebuild_and_propagate(by_name_.at(input), at);
-    const auto e = n.out.edge_at_or_after(at);
+    const auto e = n.out.edge_after(at);
     return e ? e->at : at;
 }
 
@@ -627,12 +660,18 @@ time_ps clock_tree::set_temperature(const std::string& crystal, std::int64_t cel
                                  " C is implausible; accepted: within +/-100000 ppm");
     put(n, at, s);
     rebuild_and_propagate(by_name_.at(crystal), at);
-    const auto e = n.out.edge_at_or_after(at);
+    const auto e = n.out.edge_after(at);
     return e ? e->at : at;
 }
 
 void clock_tree::forget_before(time_ps t) {
-    for (auto& n : nodes_) n->out.forget_before(t);
+    for (auto& n : nodes_) {
+        n->out.forget_before(t);
+        // Keep the settings in force at t and everything after.
+        std::size_t keep = 0;
+        while (keep + 1 < n->history.size() && n->history[keep + 1].first <= t) ++keep;
+        n->history.erase(n->history.begin(), n->history.begin() + static_cast<std::ptrdiff_t>(keep));
+    }
 }
 
 std::vector<clock_plan_row> clock_tree::plan(time_ps at) const {

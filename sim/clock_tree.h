@@ -165,6 +165,8 @@ private:
     std::optional<time_ps> rebuild(std::size_t id, time_ps from);
     clock_segment make_segment(std::size_t id, time_ps at) const;
     std::vector<time_ps> event_times(std::size_t id, time_ps from) const;
+    // Time of the latest change of a PLL's settings or input at or before `at`.
+    time_ps last_disturbance(std::size_t id, time_ps at) const;
 
     std::vector<std::unique_ptr<node>> nodes_;
     std::map<std::string, std::size_t> by_name_;

@@ -1,0 +1,470 @@
+#include "models/reference/reference_timer.h"
+
+#include <algorithm>
+#include <stdexcept>
+#include <string>
+
+namespace models::reference {
+
+namespace {
+
+std::uint32_t mask_bits(std::uint32_t v, unsigned bits) {
+    return bits >= 32 ? v : v & ((1u << bits) - 1);
+}
+
+}  // namespace
+
+reference_timer::reference_timer(const timer_config& cfg, const sim::clock_domain& kernel,
+                                 timer_observer* observer)
+    : cfg_(cfg), kernel_(kernel), observer_(observer), max_(cfg.counter_max()) {
+    cfg_.validate();
+    // Reset values: period = max, slope = both; everything else 0.
+    period_written_ = period_ = max_;
+    // With the reference level 0 the complementary output wants 1, and has wanted it since reset.
+    for (channel_state& c : channels_) {
+        c.comp_out.want = true;
+        c.comp_out.active = true;
+    }
+}
+
+reference_timer::channel_state& reference_timer::channel_at(unsigned c) {
+    if (c >= cfg_.channels)
+        throw std::out_of_range("reference_timer: channel " + std::to_string(c) + " of " +
+                                std::to_string(cfg_.channels));
+    return channels_[c];
+}
+
+const reference_timer::channel_state& reference_timer::channel_at(unsigned c) const {
+    if (c >= cfg_.channels)
+        throw std::out_of_range("reference_timer: channel " + std::to_string(c) + " of " +
+                                std::to_string(cfg_.channels));
+    return channels_[c];
+}
+
+std::uint32_t reference_timer::valid_flag_bits() const {
+    std::uint32_t bits = flag_reload;
+    for (unsigned c = 0; c < cfg_.channels; ++c) bits |= flag_channel(c);
+    if (cfg_.complementary) bits |= flag_fault;
+    return bits;
+}
+
+// ---- time ----
+
+void reference_timer::advance_to(time_ps t) {
+    for (;;) {
+        const auto edge = started_ ? kernel_.edge_after(last_tick_at_) : kernel_.edge_at_or_after(0);
+        if (!edge || edge->at > t) return;
+        started_ = true;
+        last_tick_at_ = edge->at;
+        tick(edge->at);
+    }
+}
+
+bool reference_timer::next_event(time_ps& at) const {
+    const auto edge = started_ ? kernel_.edge_after(last_tick_at_) : kernel_.edge_at_or_after(0);
+    if (!edge) return false;
+    at = edge->at;
+    return true;
+}
+
+void reference_timer::clock_changed(time_ps) {}
+
+// ---- one kernel tick ----
+
+void reference_timer::tick(time_ps at) {
+    ++ticks_;
+    // 1. Compare latency: delayed compare values reaching their tick become active.
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        channel_state& c = channels_[i];
+        for (pending_compare& p : c.pending) --p.ticks_left;
+        while (!c.pending.empty() && c.pending.front().ticks_left == 0) {
+            c.compare = c.pending.front().value;
+            c.pending.pop_front();
+        }
+    }
+    // 2. Fault latency.
+    if (fault_pending_) {
+        --fault_ticks_left_;
+        if (fault_ticks_left_ == 0) {
+            fault_pending_ = false;
+            activate_fault(at);
+        }
+    }
+    // 3. Prescaler.
+    bool stepped = false;
+    if (enable_) {
+        const std::uint64_t factor = std::uint64_t{prescaler_} + 1;
+        if (pcount_ + 1 >= factor) {
+            pcount_ = 0;
+            stepped = true;
+        } else {
+            pcount_ += 1;
+        }
+    }
+    // 4. Counter step.
+    bool wrapped = false;
+    bool slope_down = false;
+    if (stepped) step_counter(stepped, wrapped, slope_down);
+    // 5. Wrap -> reload event (6. inside reload_event_from_wrap).
+    if (wrapped) {
+        ++wraps_;
+        if (!reload_disable_) {
+            if (repetition_count_ == 0) {
+                reload_event_from_wrap(at);
+                repetition_count_ = repetition_;
+            } else {
+                repetition_count_ -= 1;
+            }
+        }
+    }
+    // 7. Matches.
+    if (stepped) {
+        bool slope_allowed = true;
+        if (mode_ == count_mode::center) {
+            slope_allowed = slope_ == match_slope::both ||
+                            (slope_ == match_slope::up && !slope_down) ||
+                            (slope_ == match_slope::down && slope_down);
+        }
+        for (unsigned i = 0; i < cfg_.channels; ++i) {
+            channel_state& c = channels_[i];
+            if (!slope_allowed || counter_ != c.compare) continue;
+            set_flags(flag_channel(i), at);
+            switch (c.action) {
+                case output_action::set_on_match: c.ref = true; break;
+                case output_action::clear_on_match: c.ref = false; break;
+                case output_action::toggle_on_match: c.ref = !c.ref; break;
+                default: break;
+            }
+            if (trigger_select_ == 2 + i) send_trigger(at);
+        }
+    }
+    // 8. Levels.
+    evaluate_levels();
+    // 9. Pins.
+    update_outputs(true, at);
+}
+
+void reference_timer::step_counter(bool& stepped, bool& wrapped, bool& slope_down) {
+    switch (mode_) {
+        case count_mode::up:
+            slope_down = false;
+            if (counter_ == period_ || counter_ == max_) {
+                counter_ = 0;
+                wrapped = true;
+            } else {
+                counter_ += 1;
+            }
+            break;
+        case count_mode::down:
+            slope_down = true;
+            if (counter_ == 0) {
+                counter_ = period_;
+                wrapped = true;
+            } else {
+                counter_ -= 1;
+            }
+            break;
+        case count_mode::center:
+            slope_down = down_;
+            if (period_ == 0) {
+                stepped = false;  // nothing moves
+                return;
+            }
+            if (!down_) {
+                if (counter_ >= period_) {
+                    // Only after a write: turn at once, the counter keeps its value.
+                    down_ = true;
+                    wrapped = true;
+                } else {
+                    counter_ += 1;
+                    if (counter_ == period_) {
+                        down_ = true;
+                        wrapped = true;
+                    }
+                }
+            } else {
+                if (counter_ == 0) {
+                    // Only after a write: turn at once, the counter stays 0.
+                    down_ = false;
+                    wrapped = true;
+                } else {
+                    counter_ -= 1;
+                    if (counter_ == 0) {
+                        down_ = false;
+                        wrapped = true;
+                    }
+                }
+            }
+            break;
+    }
+}
+
+void reference_timer::load_shadows() {
+    // Values written while their preload was on wait here, even if preload was turned off since.
+    if (period_waiting_) period_ = period_written_;
+    period_waiting_ = false;
+    if (cfg_.prescaler_shadowed) prescaler_ = prescaler_written_;
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        channel_state& c = channels_[i];
+        if (c.waiting) c.compare = c.compare_written;
+        c.waiting = false;
+    }
+    repetition_ = repetition_written_;
+}
+
+void reference_timer::reload_event_from_wrap(time_ps at) {
+    ++reload_events_;
+    load_shadows();
+    set_flags(flag_reload, at);
+    if (trigger_select_ == 1) send_trigger(at);
+    if (one_pulse_) enable_ = false;
+}
+
+void reference_timer::forced_reload(time_ps at) {
+    ++reload_events_;
+    if (!reload_disable_) load_shadows();
+    counter_ = mode_ == count_mode::down ? period_ : 0;
+    if (mode_ == count_mode::center) down_ = false;
+    pcount_ = 0;
+    repetition_count_ = repetition_;
+    if (flag_rule_ != reload_flag_rule::wrap_only && !reload_disable_) set_flags(flag_reload, at);
+    if (trigger_select_ == 1) send_trigger(at);
+}
+
+// ---- levels and pins ----
+
+bool reference_timer::below(const channel_state& c) const {
+    if (mode_ == count_mode::center && down_) return counter_ <= c.compare;
+    return counter_ < c.compare;
+}
+
+void reference_timer::evaluate_levels() {
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        channel_state& c = channels_[i];
+        switch (c.action) {
+            case output_action::pwm_below: c.ref = below(c); break;
+            case output_action::pwm_at_or_above: c.ref = !below(c); break;
+            case output_action::force_low: c.ref = false; break;
+            case output_action::force_high: c.ref = true; break;
+            default: break;  // none and the match actions keep the level last set
+        }
+    }
+}
+
+void reference_timer::update_output(output_state& o, bool want, bool at_tick) {
+    if (!want) {
+        // A falling want takes effect at once and cancels a pending rise.
+        o.active = false;
+        o.rise_pending = false;
+    } else if (!o.want) {
+        // A rising want takes effect at the dead_time-th tick after now.
+        if (dead_time_ == 0) {
+            o.active = true;
+        } else {
+            o.rise_pending = true;
+            o.rise_ticks_left = dead_time_;
+        }
+    } else if (o.rise_pending && at_tick) {
+        o.rise_ticks_left -= 1;
+        if (o.rise_ticks_left == 0) {
+            o.rise_pending = false;
+            o.active = true;
+        }
+    }
+    o.want = want;
+}
+
+void reference_timer::update_outputs(bool at_tick, time_ps at) {
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        channel_state& c = channels_[i];
+        bool main_level = false;
+        bool comp_level = false;
+        if (cfg_.complementary) {
+            update_output(c.main_out, c.ref, at_tick);
+            update_output(c.comp_out, !c.ref, at_tick);
+            if (fault_active_) {
+                main_level = c.main_safe_level;
+                comp_level = c.comp_safe_level;
+            } else {
+                main_level = c.main_enable ? (c.main_out.active != c.main_active_low) : c.main_active_low;
+                comp_level = c.comp_enable ? (c.comp_out.active != c.comp_active_low) : c.comp_active_low;
+            }
+        } else {
+            main_level = c.main_enable ? (c.ref != c.main_active_low) : c.main_active_low;
+            comp_level = c.comp_active_low;
+        }
+        const bool levels[2] = {main_level, comp_level};
+        const unsigned pins[2] = {main_pin(i), comp_pin(i)};
+        for (int k = 0; k < 2; ++k) {
+            if (pins_[pins[k]] == levels[k]) continue;
+            pins_[pins[k]] = levels[k];
+            if (observer_) observer_->on_pin(pins[k], levels[k], at);
+        }
+    }
+}
+
+// ---- flags, interrupt line, trigger, fault ----
+
+void reference_timer::set_flags(std::uint32_t bits, time_ps at) {
+    const std::uint32_t rising = bits & ~flags_;
+    if (rising == 0) return;
+    flags_ |= rising;
+    if (observer_) observer_->on_flags_set(rising, at);
+    update_irq(at);
+}
+
+void reference_timer::update_irq(time_ps at) {
+    const bool line = (flags_ & irq_enable_) != 0;
+    if (line == irq_) return;
+    irq_ = line;
+    if (observer_) observer_->on_irq(line, at);
+}
+
+void reference_timer::send_trigger(time_ps at) {
+    if (observer_) observer_->on_trigger(at);
+}
+
+void reference_timer::activate_fault(time_ps at) {
+    fault_active_ = true;
+    set_flags(flag_fault, at);
+}
+
+// ---- register accesses ----
+
+void reference_timer::settle_after_access(time_ps t) {
+    evaluate_levels();
+    update_outputs(false, t);
+    update_irq(t);
+}
+
+void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) {
+    advance_to(t);
+    const bool bit = (value & 1u) != 0;
+    switch (f) {
+        case timer_field::enable: enable_ = bit; break;
+        case timer_field::mode:
+            if (value > 2) break;  // not a mode: ignored
+            if (static_cast<count_mode>(value) != mode_) {
+                mode_ = static_cast<count_mode>(value);
+                down_ = mode_ == count_mode::down;
+            }
+            break;
+        case timer_field::slope:
+            if (value <= 2) slope_ = static_cast<match_slope>(value);
+            break;
+        case timer_field::one_pulse: one_pulse_ = bit; break;
+        case timer_field::period_preload: period_preload_ = bit; break;
+        case timer_field::reload_disable: reload_disable_ = bit; break;
+        case timer_field::reload_flag_rule:
+            if (value <= 1) flag_rule_ = static_cast<reload_flag_rule>(value);
+            break;
+        case timer_field::force_reload:
+            if (bit) forced_reload(t);
+            break;
+        case timer_field::prescaler:
+            prescaler_written_ = mask_bits(value, cfg_.prescaler_bits);
+            if (!cfg_.prescaler_shadowed) prescaler_ = prescaler_written_;
+            break;
+        case timer_field::period:
+            period_written_ = value & max_;
+            period_waiting_ = period_preload_;
+            if (!period_preload_) period_ = period_written_;
+            break;
+        case timer_field::counter: counter_ = value & max_; break;
+        case timer_field::repetition:
+            if (cfg_.repetition_bits > 0) repetition_written_ = mask_bits(value, cfg_.repetition_bits);
+            break;
+        case timer_field::direction: break;  // read-only
+        case timer_field::dead_time: dead_time_ = std::min(value, cfg_.dead_time_max); break;
+        case timer_field::fault_enable: fault_enable_ = bit; break;
+        case timer_field::fault_latency: fault_latency_ = value; break;
+        case timer_field::rearm:
+            if (bit && fault_active_ && !fault_input_) fault_active_ = false;
+            break;
+        case timer_field::flags: break;  // not data: a layout maps flag writes to clear_flags
+        case timer_field::irq_enable: irq_enable_ = value & valid_flag_bits(); break;
+        case timer_field::trigger_select: trigger_select_ = value; break;
+        case timer_field::compare: {
+            channel_state& c = channel_at(channel);
+            c.compare_written = value & max_;
+            c.waiting = c.compare_preload;
+            if (!c.compare_preload) {
+                if (cfg_.compare_latency == 0)
+                    c.compare = c.compare_written;
+                else
+                    c.pending.push_back(pending_compare{c.compare_written, cfg_.compare_latency});
+            }
+            break;
+        }
+        case timer_field::compare_preload: channel_at(channel).compare_preload = bit; break;
+        case timer_field::action:
+            if (value <= 7) channel_at(channel).action = static_cast<output_action>(value);
+            break;
+        case timer_field::main_enable: channel_at(channel).main_enable = bit; break;
+        case timer_field::main_active_low: channel_at(channel).main_active_low = bit; break;
+        case timer_field::comp_enable: channel_at(channel).comp_enable = bit; break;
+        case timer_field::comp_active_low: channel_at(channel).comp_active_low = bit; break;
+        case timer_field::main_safe_level: channel_at(channel).main_safe_level = bit; break;
+        case timer_field::comp_safe_level: channel_at(channel).comp_safe_level = bit; break;
+    }
+    settle_after_access(t);
+}
+
+std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) {
+    advance_to(t);
+    switch (f) {
+        case timer_field::enable: return enable_;
+        case timer_field::mode: return static_cast<std::uint32_t>(mode_);
+        case timer_field::slope: return static_cast<std::uint32_t>(slope_);
+        case timer_field::one_pulse: return one_pulse_;
+        case timer_field::period_preload: return period_preload_;
+        case timer_field::reload_disable: return reload_disable_;
+        case timer_field::reload_flag_rule: return static_cast<std::uint32_t>(flag_rule_);
+        case timer_field::force_reload: return 0;
+        case timer_field::prescaler: return prescaler_written_;
+        case timer_field::period: return period_written_;
+        case timer_field::counter: return counter_;
+        case timer_field::repetition: return repetition_written_;
+        case timer_field::direction: return down_ ? 1 : 0;
+        case timer_field::dead_time: return dead_time_;
+        case timer_field::fault_enable: return fault_enable_;
+        case timer_field::fault_latency: return fault_latency_;
+        case timer_field::rearm: return 0;
+        case timer_field::flags: return flags_;
+        case timer_field::irq_enable: return irq_enable_;
+        case timer_field::trigger_select: return trigger_select_;
+        case timer_field::compare: return channel_at(channel).compare_written;
+        case timer_field::compare_preload: return channel_at(channel).compare_preload;
+        case timer_field::action: return static_cast<std::uint32_t>(channel_at(channel).action);
+        case timer_field::main_enable: return channel_at(channel).main_enable;
+        case timer_field::main_active_low: return channel_at(channel).main_active_low;
+        case timer_field::comp_enable: return channel_at(channel).comp_enable;
+        case timer_field::comp_active_low: return channel_at(channel).comp_active_low;
+        case timer_field::main_safe_level: return channel_at(channel).main_safe_level;
+        case timer_field::comp_safe_level: return channel_at(channel).comp_safe_level;
+    }
+    return 0;
+}
+
+void reference_timer::clear_flags(std::uint32_t mask, time_ps t) {
+    advance_to(t);
+    flags_ &= ~mask;
+    update_irq(t);
+}
+
+void reference_timer::set_fault_input(bool level, time_ps t) {
+    advance_to(t);
+    const bool rose = level && !fault_input_;
+    fault_input_ = level;
+    if (cfg_.complementary && rose && fault_enable_ && !fault_pending_ && !fault_active_) {
+        if (fault_latency_ == 0) {
+            activate_fault(t);
+        } else {
+            fault_pending_ = true;
+            fault_ticks_left_ = fault_latency_;
+        }
+    }
+    settle_after_access(t);
+}
+
+}  // namespace models::reference

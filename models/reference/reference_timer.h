@@ -1,0 +1,153 @@
+#pragma once
+// The tick-exact reference timer: the test oracle for the fast timer model.
+//
+// This model implements docs/timer-model.md the slow and obvious way (DESIGN section 5): it keeps
+// every register and every piece of internal state, and advance_to() walks the kernel clock one tick
+// at a time, doing the numbered per-tick steps of the specification in their written order. There is
+// no cleverness here on purpose: when the fast model and this one disagree, this one should be the
+// easier to believe. It is slow; it is never linked into the product.
+
+#include "models/timer/timer_types.h"
+#include "sim/clock_domain.h"
+
+#include <array>
+#include <cstdint>
+#include <deque>
+
+namespace models::reference {
+
+class reference_timer final : public models::timer_core_if {
+public:
+    // A timer of the given configuration counting the edges of `kernel`, reporting to `observer`
+    // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad config.
+    reference_timer(const timer_config& cfg, const sim::clock_domain& kernel, timer_observer* observer);
+
+    void advance_to(time_ps t) override;
+    void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) override;
+    std::uint32_t read(timer_field f, unsigned channel, time_ps t) override;
+    void clear_flags(std::uint32_t mask, time_ps t) override;
+    void set_fault_input(bool level, time_ps t) override;
+    // The next kernel tick (the reference has work at every tick), or false while the clock stays stopped.
+    bool next_event(time_ps& at) const override;
+    // Nothing to do: the next tick is always asked of the domain.
+    void clock_changed(time_ps t) override;
+
+    // Report to another observer from now on (null: report nothing). Lets a test probe a copy.
+    void set_observer(timer_observer* observer) { observer_ = observer; }
+    const timer_config& config() const { return cfg_; }
+    // Current level of output pin p (main_pin(c) / comp_pin(c)).
+    bool pin(unsigned p) const { return pins_.at(p); }
+    // Current level of the interrupt request line.
+    bool irq() const { return irq_; }
+    // Kernel ticks processed so far.
+    std::uint64_t ticks() const { return ticks_; }
+    // Counter wraps so far (whether or not they caused a reload event).
+    std::uint64_t wraps() const { return wraps_; }
+    // Reload events so far, from wraps and forced.
+    std::uint64_t reload_events() const { return reload_events_; }
+
+private:
+    static constexpr unsigned max_channels = 6;
+
+    // A compare value written without preload, waiting out the compare latency.
+    struct pending_compare {
+        std::uint32_t value = 0;
+        unsigned ticks_left = 0;
+    };
+    // One output (main or complementary) between the reference level and the pin: dead time.
+    struct output_state {
+        bool want = false;        // what the reference level asks for
+        bool active = false;      // after dead time
+        bool rise_pending = false;
+        std::uint32_t rise_ticks_left = 0;
+    };
+    struct channel_state {
+        std::uint32_t compare_written = 0;  // last written value (the shadow when preloaded)
+        bool waiting = false;               // written with preload on, not yet loaded
+        std::uint32_t compare = 0;          // active value
+        std::deque<pending_compare> pending;
+        bool compare_preload = false;
+        output_action action = output_action::none;
+        bool main_enable = false, main_active_low = false;
+        bool comp_enable = false, comp_active_low = false;
+        bool main_safe_level = false, comp_safe_level = false;
+        bool ref = false;  // reference level
+        output_state main_out, comp_out;
+    };
+
+    // One kernel tick at time `at`: the numbered steps of the specification, in order.
+    void tick(time_ps at);
+    // Step 4: move the counter by one step; clears `stepped` if nothing moved.
+    void step_counter(bool& stepped, bool& wrapped, bool& slope_down);
+    // Step 6 for a reload event caused by a wrap.
+    void reload_event_from_wrap(time_ps at);
+    // Shadow registers to active ones.
+    void load_shadows();
+    // The forced reload event of a force_reload write.
+    void forced_reload(time_ps at);
+    // The pwm_below comparison for channel c, in the current mode and direction.
+    bool below(const channel_state& c) const;
+    // Step 8: reference levels for the continuous actions.
+    void evaluate_levels();
+    // Step 9: wants, dead time, pins. `at_tick` counts down pending rises (false for an access).
+    void update_outputs(bool at_tick, time_ps at);
+    void update_output(output_state& o, bool want, bool at_tick);
+    void set_flags(std::uint32_t bits, time_ps at);
+    void update_irq(time_ps at);
+    void send_trigger(time_ps at);
+    void activate_fault(time_ps at);
+    // After a register access at time t: levels, pins and the interrupt line at once.
+    void settle_after_access(time_ps t);
+    channel_state& channel_at(unsigned c);
+    const channel_state& channel_at(unsigned c) const;
+    std::uint32_t valid_flag_bits() const;
+
+    timer_config cfg_;
+    const sim::clock_domain& kernel_;
+    timer_observer* observer_;
+    std::uint32_t max_;
+
+    // Registers (the written values; shadowed ones beside their active values).
+    bool enable_ = false;
+    count_mode mode_ = count_mode::up;
+    match_slope slope_ = match_slope::both;
+    bool one_pulse_ = false;
+    bool period_preload_ = false;
+    bool reload_disable_ = false;
+    reload_flag_rule flag_rule_ = reload_flag_rule::any;
+    std::uint32_t prescaler_written_ = 0, prescaler_ = 0;
+    std::uint32_t period_written_ = 0, period_ = 0;
+    bool period_waiting_ = false;  // written with preload on, not yet loaded
+    std::uint32_t repetition_written_ = 0, repetition_ = 0;
+    std::uint32_t dead_time_ = 0;
+    bool fault_enable_ = false;
+    std::uint32_t fault_latency_ = 0;
+    std::uint32_t flags_ = 0;
+    std::uint32_t irq_enable_ = 0;
+    std::uint32_t trigger_select_ = 0;
+    std::array<channel_state, max_channels> channels_{};
+
+    // Counting state.
+    std::uint64_t pcount_ = 0;
+    std::uint32_t counter_ = 0;
+    bool down_ = false;  // direction
+    std::uint32_t repetition_count_ = 0;
+
+    // Fault state.
+    bool fault_input_ = false;
+    bool fault_pending_ = false;
+    std::uint32_t fault_ticks_left_ = 0;
+    bool fault_active_ = false;
+
+    // What has been reported.
+    std::array<bool, 2 * max_channels> pins_{};
+    bool irq_ = false;
+
+    // Where the walk over the kernel ticks stands.
+    bool started_ = false;      // false until the first tick has been processed
+    time_ps last_tick_at_ = 0;  // time of the last processed tick
+
+    std::uint64_t ticks_ = 0, wraps_ = 0, reload_events_ = 0;
+};
+
+}  // namespace models::reference

@@ -1,0 +1,488 @@
+#include "models/timer/timer_core.h"
+
+#include <algorithm>
+#include <stdexcept>
+
+namespace models {
+
+timer_core::timer_core(const timer_config& cfg, const sim::clock_domain& kernel, timer_observer* observer)
+    : cfg_(cfg), clock_(kernel), observer_(observer) {
+    cfg_.validate();
+    max_ = cfg_.counter_max();
+    period_ = period_shadow_ = max_;
+    // Reference levels start at 0, so complementary outputs have wanted to be active since reset.
+    if (cfg_.complementary)
+        for (unsigned i = 0; i < cfg_.channels; ++i) pins_[comp_pin(i)].active = true;
+}
+
+std::optional<time_ps> timer_core::time_of_tick(std::uint64_t n) const {
+    if (n == never) return std::nullopt;
+    try {
+        return clock_.time_of(n);
+    } catch (const std::out_of_range&) {
+        return std::nullopt;  // the kernel clock is stopped for ever before tick n
+    } catch (const sim::time_limit_error&) {
+        return std::nullopt;  // beyond the end of simulated time: nothing can be scheduled there
+    }
+}
+
+std::uint64_t timer_core::tick_of_step(std::uint64_t k) const {
+    const std::uint64_t p = std::uint64_t{prescaler_} + 1;
+    const std::uint64_t first = next_tick_ + (pcount_ + 1 >= p ? 1 : p - pcount_) - 1;
+    if (k - 1 > (never - first) / p) return never;
+    return first + (k - 1) * p;
+}
+
+std::uint64_t timer_core::steps_to_next_interesting() const {
+    if (!enable_) return never;
+    const std::uint64_t c = counter_, p = period_;
+    std::uint64_t best = never;
+    // Values the counter reaches before the wrap, at `steps` from now.
+    auto consider_up = [&](std::uint64_t v, std::uint64_t limit) {
+        if (v > c && v <= limit) best = std::min(best, v - c);
+    };
+    auto consider_down = [&](std::uint64_t v, std::uint64_t floor) {
+        if (v < c && v >= floor) best = std::min(best, c - v);
+    };
+    const unsigned n = cfg_.channels;
+    switch (mode_) {
+        case count_mode::up: {
+            const std::uint64_t top = c <= p ? p : max_;
+            best = top - c + 1;  // the wrap
+            for (unsigned i = 0; i < n; ++i) consider_up(ch_[i].compare, top);
+            break;
+        }
+        case count_mode::down:
+            best = c + 1;  // the wrap
+            for (unsigned i = 0; i < n; ++i) {
+                consider_down(ch_[i].compare, 0);
+                // counter < compare starts at the step reaching compare - 1
+                if (ch_[i].compare > 0) consider_down(ch_[i].compare - 1, 0);
+            }
+            break;
+        case count_mode::center:
+            if (p == 0) return never;  // nothing moves
+            if (!down_) {
+                if (c >= p) return 1;
+                best = p - c;
+                for (unsigned i = 0; i < n; ++i) consider_up(ch_[i].compare, p - 1);
+            } else {
+                if (c == 0) return 1;
+                best = c;
+                for (unsigned i = 0; i < n; ++i) consider_down(ch_[i].compare, 1);
+            }
+            break;
+    }
+    return best;
+}
+
+std::uint64_t timer_core::next_interesting_tick() const {
+    std::uint64_t n = fault_at_;
+    for (unsigned i = 0; i < cfg_.channels; ++i)
+        if (!ch_[i].pending.empty()) n = std::min(n, ch_[i].pending.front().tick);
+    for (unsigned i = 0; i < 2 * cfg_.channels; ++i) n = std::min(n, pins_[i].rise_at);
+    const std::uint64_t s = steps_to_next_interesting();
+    if (s != never) n = std::min(n, tick_of_step(s));
+    return n;
+}
+
+void timer_core::skip_to(std::uint64_t n) {
+    if (n <= next_tick_) return;
+    const std::uint64_t m = n - next_tick_;
+    next_tick_ = n;
+    if (!enable_) return;
+    const std::uint64_t p = std::uint64_t{prescaler_} + 1;
+    const std::uint64_t d = pcount_ + 1 >= p ? 1 : p - pcount_;
+    if (m < d) {
+        pcount_ += m;
+        return;
+    }
+    const std::uint64_t steps = 1 + (m - d) / p;
+    pcount_ = (m - d) % p;
+    // By construction none of these steps wraps: move the counter in its direction.
+    if (mode_ == count_mode::center && period_ == 0) return;
+    const bool down = mode_ == count_mode::down || (mode_ == count_mode::center && down_);
+    counter_ = static_cast<std::uint32_t>(down ? counter_ - steps : counter_ + steps);
+}
+
+bool timer_core::step_counter(bool& wrapped, bool& slope_down) {
+    wrapped = false;
+    const std::uint32_t p = period_;
+    switch (mode_) {
+        case count_mode::up:
+            slope_down = false;
+            if (counter_ == p || counter_ == max_) {
+                counter_ = 0;
+                wrapped = true;
+            } else {
+                ++counter_;
+            }
+            return true;
+        case count_mode::down:
+            slope_down = true;
+            if (counter_ == 0) {
+                counter_ = p;
+                wrapped = true;
+            } else {
+                --counter_;
+            }
+            return true;
+        case count_mode::center:
+            if (p == 0) return false;
+            slope_down = down_;
+            if (!down_) {
+                if (counter_ < p) ++counter_;
+                if (counter_ >= p) {
+                    down_ = true;
+                    wrapped = true;
+                }
+            } else {
+                if (counter_ > 0) --counter_;
+                if (counter_ == 0) {
+                    down_ = false;
+                    wrapped = true;
+                }
+            }
+            return true;
+    }
+    return false;
+}
+
+void timer_core::load_shadows() {
+    if (period_waiting_) period_ = period_shadow_;
+    period_waiting_ = false;
+    if (cfg_.prescaler_shadowed) prescaler_ = prescaler_shadow_;
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        if (ch_[i].waiting) ch_[i].compare = ch_[i].compare_shadow;
+        ch_[i].waiting = false;
+    }
+    repetition_ = repetition_shadow_;
+}
+
+void timer_core::reload_event(bool from_wrap, time_ps at) {
+    load_shadows();
+    if (from_wrap) repetition_count_ = repetition_;
+    if (from_wrap || flag_rule_ == reload_flag_rule::any) set_flags(flag_reload, at);
+    if (trigger_select_ == 1) trigger(at);
+    if (from_wrap && one_pulse_) enable_ = false;
+}
+
+void timer_core::on_wrap(time_ps at) {
+    if (reload_disable_) return;
+    if (repetition_count_ == 0)
+        reload_event(true, at);
+    else
+        --repetition_count_;
+}
+
+bool timer_core::pwm_level(const channel& c) const {
+    const bool below = (mode_ == count_mode::center && down_) ? counter_ <= c.compare : counter_ < c.compare;
+    return c.action == output_action::pwm_below ? below : !below;
+}
+
+void timer_core::evaluate_levels() {
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        channel& c = ch_[i];
+        switch (c.action) {
+            case output_action::pwm_below:
+            case output_action::pwm_at_or_above: c.ref = pwm_level(c); break;
+            case output_action::force_low: c.ref = false; break;
+            case output_action::force_high: c.ref = true; break;
+            default: break;
+        }
+    }
+}
+
+void timer_core::update_pins(std::uint64_t first_tick_after, time_ps at) {
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        const channel& c = ch_[i];
+        pin_state& m = pins_[main_pin(i)];
+        pin_state& k = pins_[comp_pin(i)];
+        if (!cfg_.complementary) {
+            m.active = c.ref;
+        } else {
+            for (auto [ps, want] : {std::pair<pin_state*, bool>{&m, c.ref}, {&k, !c.ref}}) {
+                if (!want) {
+                    ps->active = false;
+                    ps->rise_at = never;
+                } else if (!ps->active) {
+                    if (ps->rise_at == never) {
+                        if (dead_time_ == 0)
+                            ps->active = true;
+                        else
+                            ps->rise_at = first_tick_after + dead_time_ - 1;
+                    } else if (ps->rise_at < first_tick_after) {
+                        ps->active = true;
+                        ps->rise_at = never;
+                    }
+                }
+            }
+        }
+        const bool main_level = fault_active_ ? c.main_safe
+                                              : (c.main_enable ? m.active != c.main_active_low : c.main_active_low);
+        bool comp_level = c.comp_active_low;
+        if (cfg_.complementary)
+            comp_level = fault_active_ ? c.comp_safe
+                                       : (c.comp_enable ? k.active != c.comp_active_low : c.comp_active_low);
+        if (main_level != m.level) {
+            m.level = main_level;
+            if (observer_) observer_->on_pin(main_pin(i), main_level, at);
+        }
+        if (comp_level != k.level) {
+            k.level = comp_level;
+            if (observer_) observer_->on_pin(comp_pin(i), comp_level, at);
+        }
+    }
+}
+
+void timer_core::set_flags(std::uint32_t bits, time_ps at) {
+    const std::uint32_t fresh = bits & ~flags_;
+    flags_ |= bits;
+    if (fresh && observer_) observer_->on_flags_set(fresh, at);
+}
+
+void timer_core::update_irq(time_ps at) {
+    const bool level = (flags_ & irq_enable_) != 0;
+    if (level == irq_) return;
+    irq_ = level;
+    if (observer_) observer_->on_irq(level, at);
+}
+
+void timer_core::trigger(time_ps at) {
+    if (observer_) observer_->on_trigger(at);
+}
+
+void timer_core::activate_fault(time_ps at) {
+    if (fault_active_) return;
+    fault_active_ = true;
+    set_flags(flag_fault, at);
+}
+
+void timer_core::process_tick(std::uint64_t n, time_ps at) {
+    ++ticks_processed_;
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        auto& q = ch_[i].pending;
+        while (!q.empty() && q.front().tick <= n) {
+            ch_[i].compare = q.front().value;
+            q.pop_front();
+        }
+    }
+    if (fault_at_ <= n) {
+        fault_at_ = never;
+        activate_fault(at);
+    }
+    bool stepped = false;
+    if (enable_) {
+        const std::uint64_t p = std::uint64_t{prescaler_} + 1;
+        if (pcount_ + 1 >= p) {
+            pcount_ = 0;
+            stepped = true;
+        } else {
+            ++pcount_;
+        }
+    }
+    bool wrapped = false, slope_down = false;
+    if (stepped && step_counter(wrapped, slope_down)) {
+        if (wrapped) on_wrap(at);
+        for (unsigned i = 0; i < cfg_.channels; ++i) {
+            channel& c = ch_[i];
+            if (counter_ != c.compare) continue;
+            if (mode_ == count_mode::center && slope_ != match_slope::both &&
+                (slope_ == match_slope::down) != slope_down)
+                continue;
+            set_flags(flag_channel(i), at);
+            if (c.action == output_action::set_on_match) c.ref = true;
+            else if (c.action == output_action::clear_on_match) c.ref = false;
+            else if (c.action == output_action::toggle_on_match) c.ref = !c.ref;
+            if (trigger_select_ == 2 + i) trigger(at);
+        }
+    }
+    evaluate_levels();
+    next_tick_ = n + 1;
+    update_pins(next_tick_, at);
+    update_irq(at);
+}
+
+void timer_core::advance_to(time_ps t) {
+    for (;;) {
+        const std::uint64_t n = next_interesting_tick();
+        const std::optional<time_ps> at = time_of_tick(n);
+        if (!at || *at > t) break;
+        skip_to(n);
+        process_tick(n, *at);
+    }
+    // Every tick at or before t has now happened; the ones left were boring.
+    skip_to(t == sim::max_time_ps ? clock_.tick_at(t) : clock_.tick_at(t + 1));
+}
+
+void timer_core::catch_up(time_ps t) { advance_to(t); }
+
+bool timer_core::next_event(time_ps& at) const {
+    const std::optional<time_ps> t = time_of_tick(next_interesting_tick());
+    if (!t) return false;
+    at = *t;
+    return true;
+}
+
+void timer_core::clock_changed(time_ps) {
+    // State is kept in tick indices; the domain answers every time question afresh, and ticks
+    // before the change (all that has been processed) keep their times.
+}
+
+void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, time_ps t) {
+    catch_up(t);
+    const bool bit = (v & 1u) != 0;
+    switch (f) {
+        case timer_field::enable: enable_ = bit; break;
+        case timer_field::mode:
+            if (v > 2) break;  // no meaning: ignored
+            if (static_cast<count_mode>(v) != count_mode::center)
+                down_ = static_cast<count_mode>(v) == count_mode::down;
+            else if (mode_ != count_mode::center)
+                down_ = false;
+            mode_ = static_cast<count_mode>(v);
+            break;
+        case timer_field::slope:
+            if (v <= 2) slope_ = static_cast<match_slope>(v);
+            break;
+        case timer_field::one_pulse: one_pulse_ = bit; break;
+        case timer_field::period_preload: period_preload_ = bit; break;
+        case timer_field::reload_disable: reload_disable_ = bit; break;
+        case timer_field::reload_flag_rule: flag_rule_ = static_cast<reload_flag_rule>(v & 1u); break;
+        case timer_field::force_reload:
+            if (!bit) break;
+            if (!reload_disable_) load_shadows();
+            counter_ = mode_ == count_mode::down ? period_ : 0;
+            if (mode_ == count_mode::center) down_ = false;
+            pcount_ = 0;
+            repetition_count_ = repetition_;
+            if (flag_rule_ == reload_flag_rule::any && !reload_disable_) set_flags(flag_reload, t);
+            if (trigger_select_ == 1) trigger(t);
+            break;
+        case timer_field::prescaler: {
+            const std::uint32_t mask =
+                cfg_.prescaler_bits >= 32 ? 0xffff'ffffu : (1u << cfg_.prescaler_bits) - 1;
+            prescaler_shadow_ = v & mask;
+            if (!cfg_.prescaler_shadowed) prescaler_ = prescaler_shadow_;
+            break;
+        }
+        case timer_field::period:
+            period_shadow_ = v & max_;
+            period_waiting_ = period_preload_;
+            if (!period_preload_) period_ = period_shadow_;
+            break;
+        case timer_field::counter: counter_ = v & max_; break;
+        case timer_field::repetition:
+            if (cfg_.repetition_bits > 0) repetition_shadow_ = v & ((1u << cfg_.repetition_bits) - 1);
+            break;
+        case timer_field::direction: break;  // read-only
+        case timer_field::dead_time: dead_time_ = std::min<std::uint32_t>(v, cfg_.dead_time_max); break;
+        case timer_field::fault_enable: fault_enable_ = bit; break;
+        case timer_field::fault_latency: fault_latency_ = v; break;
+        case timer_field::rearm:
+            if (bit && fault_active_ && !fault_input_) fault_active_ = false;
+            break;
+        case timer_field::flags: break;  // layouts map flag writes to clear_flags()
+        case timer_field::irq_enable: {
+            // Only flags that exist can be enabled.
+            std::uint32_t valid = flag_reload | (cfg_.complementary ? flag_fault : 0u);
+            for (unsigned i = 0; i < cfg_.channels; ++i) valid |= flag_channel(i);
+            irq_enable_ = v & valid;
+            break;
+        }
+        case timer_field::trigger_select: trigger_select_ = v; break;
+        default: {
+            if (channel_index >= cfg_.channels) break;
+            channel& c = ch_[channel_index];
+            switch (f) {
+                case timer_field::compare:
+                    c.compare_shadow = v & max_;
+                    c.waiting = c.preload;
+                    if (c.preload) break;
+                    if (cfg_.compare_latency == 0)
+                        c.compare = c.compare_shadow;
+                    else
+                        c.pending.push_back({next_tick_ + cfg_.compare_latency - 1, c.compare_shadow});
+                    break;
+                case timer_field::compare_preload: c.preload = bit; break;
+                case timer_field::action:
+                    if (v <= 7) c.action = static_cast<output_action>(v);
+                    break;
+                case timer_field::main_enable: c.main_enable = bit; break;
+                case timer_field::main_active_low: c.main_active_low = bit; break;
+                case timer_field::comp_enable: c.comp_enable = bit; break;
+                case timer_field::comp_active_low: c.comp_active_low = bit; break;
+                case timer_field::main_safe_level: c.main_safe = bit; break;
+                case timer_field::comp_safe_level: c.comp_safe = bit; break;
+                default: break;
+            }
+        }
+    }
+    evaluate_levels();
+    update_pins(next_tick_, t);
+    update_irq(t);
+}
+
+std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t) {
+    catch_up(t);
+    switch (f) {
+        case timer_field::enable: return enable_;
+        case timer_field::mode: return static_cast<std::uint32_t>(mode_);
+        case timer_field::slope: return static_cast<std::uint32_t>(slope_);
+        case timer_field::one_pulse: return one_pulse_;
+        case timer_field::period_preload: return period_preload_;
+        case timer_field::reload_disable: return reload_disable_;
+        case timer_field::reload_flag_rule: return static_cast<std::uint32_t>(flag_rule_);
+        case timer_field::force_reload: return 0;
+        case timer_field::prescaler: return prescaler_shadow_;
+        case timer_field::period: return period_shadow_;
+        case timer_field::counter: return counter_;
+        case timer_field::repetition: return repetition_shadow_;
+        case timer_field::direction:
+            return mode_ == count_mode::down || (mode_ == count_mode::center && down_) ? 1 : 0;
+        case timer_field::dead_time: return dead_time_;
+        case timer_field::fault_enable: return fault_enable_;
+        case timer_field::fault_latency: return fault_latency_;
+        case timer_field::rearm: return 0;
+        case timer_field::flags: return flags_;
+        case timer_field::irq_enable: return irq_enable_;
+        case timer_field::trigger_select: return trigger_select_;
+        default: break;
+    }
+    if (channel_index >= cfg_.channels) return 0;
+    const channel& c = ch_[channel_index];
+    switch (f) {
+        case timer_field::compare: return c.compare_shadow;
+        case timer_field::compare_preload: return c.preload;
+        case timer_field::action: return static_cast<std::uint32_t>(c.action);
+        case timer_field::main_enable: return c.main_enable;
+        case timer_field::main_active_low: return c.main_active_low;
+        case timer_field::comp_enable: return c.comp_enable;
+        case timer_field::comp_active_low: return c.comp_active_low;
+        case timer_field::main_safe_level: return c.main_safe;
+        case timer_field::comp_safe_level: return c.comp_safe;
+        default: return 0;
+    }
+}
+
+void timer_core::clear_flags(std::uint32_t mask, time_ps t) {
+    catch_up(t);
+    flags_ &= ~mask;
+    update_irq(t);
+}
+
+void timer_core::set_fault_input(bool level, time_ps t) {
+    catch_up(t);
+    const bool rising = level && !fault_input_;
+    fault_input_ = level;
+    if (rising && fault_enable_ && cfg_.complementary && !fault_active_ && fault_at_ == never) {
+        if (fault_latency_ == 0)
+            activate_fault(t);
+        else
+            fault_at_ = next_tick_ + fault_latency_ - 1;
+    }
+    update_pins(next_tick_, t);
+    update_irq(t);
+}
+
+}  // namespace models

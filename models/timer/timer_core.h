@@ -1,0 +1,136 @@
+#pragma once
+// The fast general-purpose timer: counters computed, not ticked (DESIGN section 4).
+//
+// The state is "after kernel tick n the counter held c, prescaler count p, direction d". Between
+// two instants that matter (a wrap, a step onto a compare value, a delayed compare or fault taking
+// effect, the end of a dead time) nothing observable happens, so the model jumps over those ticks
+// with arithmetic and processes only the instants that matter, each exactly as docs/timer-model.md
+// says. Cost is proportional to the events that matter, not to the clock frequency. The tick-exact
+// reference in models/reference/ implements the same page the slow way; the differential test holds
+// the two together.
+
+#include "models/timer/timer_types.h"
+#include "sim/clock_domain.h"
+
+#include <array>
+#include <cstdint>
+#include <deque>
+#include <optional>
+
+namespace models {
+
+class timer_core final : public timer_core_if {
+public:
+    // A timer of the given configuration counting edges of `kernel`, reporting to `observer`
+    // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad config.
+    timer_core(const timer_config& cfg, const sim::clock_domain& kernel, timer_observer* observer);
+
+    void advance_to(time_ps t) override;
+    void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) override;
+    std::uint32_t read(timer_field f, unsigned channel, time_ps t) override;
+    void clear_flags(std::uint32_t mask, time_ps t) override;
+    void set_fault_input(bool level, time_ps t) override;
+    bool next_event(time_ps& at) const override;
+    void clock_changed(time_ps t) override;
+
+    const timer_config& config() const { return cfg_; }
+    // Current pin level (after everything up to the last call's time).
+    bool pin(unsigned p) const { return pins_[p].level; }
+    bool irq() const { return irq_; }
+    // Number of kernel ticks processed one by one (instants that mattered); the rest were skipped.
+    std::uint64_t ticks_processed() const { return ticks_processed_; }
+
+private:
+    static constexpr unsigned max_channels = 6;
+    static constexpr std::uint64_t never = ~std::uint64_t{0};
+
+    struct pending_compare {
+        std::uint64_t tick;
+        std::uint32_t value;
+    };
+    struct channel {
+        std::uint32_t compare_shadow = 0;
+        std::uint32_t compare = 0;  // active
+        std::deque<pending_compare> pending;
+        bool preload = false;
+        bool waiting = false;  // written with preload on, not loaded yet
+        output_action action = output_action::none;
+        bool ref = false;
+        bool main_enable = false, main_active_low = false;
+        bool comp_enable = false, comp_active_low = false;
+        bool main_safe = false, comp_safe = false;
+    };
+    struct pin_state {
+        bool active = false;           // after dead time
+        std::uint64_t rise_at = never;  // tick at which a pending rise takes effect
+        bool level = false;            // last level reported
+    };
+
+    // Tick index of the k-th counter step from now (k >= 1), given the prescaler state.
+    std::uint64_t tick_of_step(std::uint64_t k) const;
+    // Steps (>= 1) until the next step that matters, or never.
+    std::uint64_t steps_to_next_interesting() const;
+    // The next tick index that must be processed one by one, or never.
+    std::uint64_t next_interesting_tick() const;
+    // Jump over boring ticks [next_tick_, n) with arithmetic.
+    void skip_to(std::uint64_t n);
+    // Process tick n (== next_tick_) exactly, at time `at`.
+    void process_tick(std::uint64_t n, time_ps at);
+    // Bring the state up to time t: every tick at or before t processed or skipped.
+    void catch_up(time_ps t);
+
+    // Counter arithmetic shared by steps and skipping.
+    // One counter step per the mode table; false when nothing moves (center mode, period 0).
+    bool step_counter(bool& wrapped, bool& slope_down);
+    void on_wrap(time_ps at);
+    void reload_event(bool from_wrap, time_ps at);
+    void load_shadows();
+    bool pwm_level(const channel& c) const;
+    void evaluate_levels();
+    // Pin wants -> dead time -> pin levels; dead time counts from `first_tick_after`, the first
+    // tick not yet processed.
+    void update_pins(std::uint64_t first_tick_after, time_ps at);
+    void set_flags(std::uint32_t bits, time_ps at);
+    void update_irq(time_ps at);
+    void trigger(time_ps at);
+    void activate_fault(time_ps at);
+    std::optional<time_ps> time_of_tick(std::uint64_t n) const;
+
+    timer_config cfg_;
+    const sim::clock_domain& clock_;
+    timer_observer* observer_;
+    std::uint32_t max_;
+
+    // Registers.
+    bool enable_ = false;
+    count_mode mode_ = count_mode::up;
+    match_slope slope_ = match_slope::both;
+    bool one_pulse_ = false, period_preload_ = false, reload_disable_ = false;
+    reload_flag_rule flag_rule_ = reload_flag_rule::any;
+    std::uint32_t prescaler_shadow_ = 0, prescaler_ = 0;
+    std::uint32_t period_shadow_ = 0, period_ = 0;
+    bool period_waiting_ = false;
+    std::uint32_t repetition_shadow_ = 0, repetition_ = 0;
+    std::uint32_t dead_time_ = 0;
+    bool fault_enable_ = false;
+    std::uint32_t fault_latency_ = 0;
+    std::uint32_t flags_ = 0, irq_enable_ = 0, trigger_select_ = 0;
+    std::array<channel, max_channels> ch_{};
+
+    // Counting state after every tick before next_tick_.
+    std::uint64_t next_tick_ = 0;
+    std::uint32_t counter_ = 0;
+    bool down_ = false;
+    std::uint64_t pcount_ = 0;
+    std::uint32_t repetition_count_ = 0;
+
+    // Fault.
+    bool fault_input_ = false, fault_active_ = false;
+    std::uint64_t fault_at_ = never;
+
+    std::array<pin_state, 2 * max_channels> pins_{};
+    bool irq_ = false;
+    std::uint64_t ticks_processed_ = 0;
+};
+
+}  // namespace models

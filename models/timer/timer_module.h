@@ -1,0 +1,84 @@
+#pragma once
+// The SystemC shell around the fast timer: it owns the output pin signals, the interrupt request
+// signal, the trigger event and the one kernel event that wakes the timer at the next instant that
+// matters. All behaviour is in timer_core; this module only forwards, schedules and drives signals.
+//
+// The module is itself a timer_core_if: a bus target (models/bus/) calls it, each access lands in
+// the core at its exact time, and the module reschedules its wake-up. Accesses may come ahead of the
+// kernel's time (temporal decoupling); what the core reports for such times is queued and driven on
+// the signals when the kernel reaches them.
+
+#include "models/timer/timer_core.h"
+#include "sim/clock_tree.h"
+
+#include <systemc>
+
+#include <deque>
+#include <memory>
+#include <string>
+#include <vector>
+
+namespace models {
+
+class timer_module : public sc_core::sc_module, public timer_core_if, private timer_observer {
+public:
+    // A timer counting the edges of clock-tree node `clock_node`. The kernel's time resolution must
+    // be 1 ps (the default); the constructor throws std::logic_error otherwise.
+    timer_module(const sc_core::sc_module_name& name, const timer_config& cfg, sim::clock_tree& tree,
+                 const std::string& clock_node);
+
+    // Optional fault input; when bound, its rising edges reach the core at their exact time.
+    sc_core::sc_port<sc_core::sc_signal_in_if<bool>, 1, sc_core::SC_ZERO_OR_MORE_BOUND> fault_in;
+
+    // Output pin p (see main_pin()/comp_pin()); named "<module>.channel<c>" and "...<c>_complement".
+    sc_core::sc_signal<bool>& pin(unsigned p) { return *pins_.at(p); }
+    unsigned pin_count() const { return static_cast<unsigned>(pins_.size()); }
+    sc_core::sc_signal<bool>& irq() { return irq_; }
+    // Notified at every trigger pulse.
+    const sc_core::sc_event& trigger_event() const { return trigger_; }
+    std::uint64_t trigger_count() const { return triggers_; }
+    // Extra observer (a checker, a recorder) told of everything the core reports, at report time.
+    void add_observer(timer_observer* o) { observers_.push_back(o); }
+    timer_core& core() { return core_; }
+
+    // timer_core_if: forwards to the core and reschedules.
+    void advance_to(time_ps t) override;
+    void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) override;
+    std::uint32_t read(timer_field f, unsigned channel, time_ps t) override;
+    void clear_flags(std::uint32_t mask, time_ps t) override;
+    void set_fault_input(bool level, time_ps t) override;
+    bool next_event(time_ps& at) const override;
+    void clock_changed(time_ps t) override;
+
+private:
+    struct queued {
+        time_ps at;
+        int signal;  // pin index, or -1 for the irq line
+        bool level;
+    };
+    void on_pin(unsigned pin, bool level, time_ps at) override;
+    void on_flags_set(std::uint32_t bits, time_ps at) override;
+    void on_irq(bool level, time_ps at) override;
+    void on_trigger(time_ps at) override;
+    void end_of_elaboration() override;
+    void wake();
+    void fault_changed();
+    void reschedule();
+    void drive(time_ps now);
+    static time_ps now_ps();
+
+    sim::clock_tree& tree_;
+    std::string clock_node_;
+    timer_core core_;
+    std::vector<std::unique_ptr<sc_core::sc_signal<bool>>> pins_;
+    sc_core::sc_signal<bool> irq_;
+    sc_core::sc_event wake_;
+    sc_core::sc_event trigger_;
+    std::deque<queued> queue_;
+    std::deque<time_ps> trigger_times_;
+    std::vector<timer_observer*> observers_;
+    std::uint64_t triggers_ = 0;
+    time_ps scheduled_ = sim::max_time_ps;
+};
+
+}  // namespace models

@@ -1,0 +1,137 @@
+#pragma once
+// The functional vocabulary of the general-purpose timer, shared by the fast model, the tick-exact
+// reference model and the register layouts.
+//
+// A timer's behaviour is independent of where its fields sit in memory (DESIGN section 6): a layout
+// maps offsets and bits to the functional fields named here, and both models implement the same
+// semantics on them, written down in docs/timer-model.md. Names are our own plain words.
+
+#include "sim/clock_domain.h"
+
+#include <cstdint>
+#include <string>
+
+namespace models {
+
+using sim::time_ps;
+
+// How the counter moves: up from 0 to the period, down from the period to 0, or up and down
+// (center-aligned, turning at the period and at 0).
+enum class count_mode : std::uint32_t { up = 0, down = 1, center = 2 };
+// In center mode, which slope raises channel matches: the rising slope, the falling one, or both.
+enum class match_slope : std::uint32_t { up = 0, down = 1, both = 2 };
+// What a compare channel does with its output level.
+enum class output_action : std::uint32_t {
+    none = 0,             // level frozen
+    set_on_match = 1,     // goes active on a match
+    clear_on_match = 2,   // goes inactive on a match
+    toggle_on_match = 3,  // flips on a match
+    force_low = 4,        // inactive now and stays
+    force_high = 5,       // active now and stays
+    pwm_below = 6,        // active while counter < compare
+    pwm_at_or_above = 7,  // active while counter >= compare
+};
+// What raises the reload flag: any reload event (including a forced one), or only a wrap.
+enum class reload_flag_rule : std::uint32_t { any = 0, wrap_only = 1 };
+
+// Functional fields. Per-channel fields take the channel index (0-based) as a second argument.
+enum class timer_field : std::uint32_t {
+    enable,            // 1: counting
+    mode,              // count_mode
+    slope,             // match_slope (center mode)
+    one_pulse,         // 1: counting stops at the next reload event caused by a wrap
+    period_preload,    // 1: period writes wait for the next reload event
+    reload_disable,    // 1: wraps cause no reload event
+    reload_flag_rule,  // reload_flag_rule
+    force_reload,      // write 1: forced reload event now (reads 0)
+    prescaler,         // counter steps every (prescaler + 1) kernel ticks
+    period,            // counter turning value
+    counter,           // the counter; reads give the value now
+    repetition,        // a reload event every (repetition + 1) wraps
+    direction,         // read-only: 0 counting up, 1 counting down
+    dead_time,         // kernel ticks between one output falling and the other rising
+    fault_enable,      // 1: the fault input forces the safe levels
+    fault_latency,     // kernel ticks from a fault input rising to the outputs forced
+    rearm,             // write 1: leave the fault state (if the fault input is low)
+    flags,             // bit 0 reload, bit 1+c channel c match, bit 7 fault
+    irq_enable,        // same bits: which flags raise the interrupt request
+    trigger_select,    // 0 none, 1 reload event, 2 + c: channel c match
+    // per channel
+    compare,           // compare value
+    compare_preload,   // 1: compare writes wait for the next reload event
+    action,            // output_action
+    main_enable,       // 1: the main output drives its level; 0: it sits inactive
+    main_active_low,   // 1: the main output's active level is low
+    comp_enable,       // complementary output enable
+    comp_active_low,   // complementary output polarity
+    main_safe_level,   // level of the main output while a fault holds
+    comp_safe_level,   // level of the complementary output while a fault holds
+};
+// Readable name of a field ("period", "compare"...), for layouts and messages.
+const char* to_string(timer_field f);
+// Whether the field is indexed by channel.
+bool is_channel_field(timer_field f);
+
+// Flag bits.
+inline constexpr std::uint32_t flag_reload = 1u << 0;
+inline constexpr std::uint32_t flag_channel(unsigned c) { return 1u << (1 + c); }
+inline constexpr std::uint32_t flag_fault = 1u << 7;
+
+// What one timer instance has: fixed by the part, not by firmware.
+struct timer_config {
+    unsigned counter_bits = 16;          // 8..32
+    unsigned channels = 4;               // 1..6
+    unsigned prescaler_bits = 16;        // width of the prescaler register
+    unsigned repetition_bits = 8;        // 0: no repetition counter
+    bool prescaler_shadowed = true;      // prescaler writes wait for the next reload event
+    bool complementary = false;          // complementary outputs, dead time and fault input
+    unsigned dead_time_max = 1023;       // largest dead time in kernel ticks
+    unsigned compare_latency = 0;        // 0..2 kernel ticks before a compare write takes effect
+    // Throws std::invalid_argument naming the first out-of-range value.
+    void validate() const;
+    std::uint32_t counter_max() const {
+        return counter_bits >= 32 ? 0xffff'ffffu : (1u << counter_bits) - 1;
+    }
+};
+
+// Output pins: 2c is channel c's main output, 2c + 1 its complementary output.
+inline constexpr unsigned main_pin(unsigned c) { return 2 * c; }
+inline constexpr unsigned comp_pin(unsigned c) { return 2 * c + 1; }
+
+// What a timer model reports as it runs. All times are exact kernel times.
+class timer_observer {
+public:
+    virtual ~timer_observer() = default;
+    // An output pin changed level.
+    virtual void on_pin(unsigned pin, bool level, time_ps at) = 0;
+    // Flag bits went from clear to set.
+    virtual void on_flags_set(std::uint32_t bits, time_ps at) = 0;
+    // The interrupt request line changed level.
+    virtual void on_irq(bool level, time_ps at) = 0;
+    // A trigger pulse left the timer.
+    virtual void on_trigger(time_ps at) = 0;
+};
+
+// The plain C++ interface both timer models implement; the SystemC shell and the tests drive it.
+// Calls come in non-decreasing time. A write or read at time t sees every kernel tick at or before t
+// as already happened.
+class timer_core_if {
+public:
+    virtual ~timer_core_if() = default;
+    // Process everything that happens at or before t.
+    virtual void advance_to(time_ps t) = 0;
+    // Write a field (channel for per-channel fields) at time t.
+    virtual void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) = 0;
+    // Read a field at time t (the counter's value now; preloaded fields read the written value).
+    virtual std::uint32_t read(timer_field f, unsigned channel, time_ps t) = 0;
+    // Clear the flag bits in mask at time t.
+    virtual void clear_flags(std::uint32_t mask, time_ps t) = 0;
+    // The fault input changed level at time t.
+    virtual void set_fault_input(bool level, time_ps t) = 0;
+    // The earliest time something may happen that was not yet processed, or none.
+    virtual bool next_event(time_ps& at) const = 0;
+    // The kernel clock's timeline changed from time t on (the clock tree rebuilt it).
+    virtual void clock_changed(time_ps t) = 0;
+};
+
+}  // namespace models

@@ -1,0 +1,272 @@
+// Register-file semantics on the shipped layouts, against a recording stand-in for the timer model:
+// which field writes, reads and flag clears each bus access turns into, for every access kind,
+// byte and halfword accesses, reserved bits and reserved locations.
+
+#include "models/layout/register_file.h"
+#include "models/timer/timer_core.h"
+#include "tests/support/recording_timer_core.h"
+
+#include <gtest/gtest.h>
+
+#include <spdlog/sinks/ostream_sink.h>
+#include <spdlog/spdlog.h>
+
+#include <sstream>
+#include <string>
+
+namespace {
+
+using models::timer_field;
+using tickbench_test::recording_timer_core;
+using kind = recording_timer_core::call::kind;
+
+const std::string layouts_dir = std::string(TICKBENCH_SOURCE_DIR) + "/models/layouts/";
+
+struct quad_fixture : ::testing::Test {
+    quad_fixture()
+        : layout(models::load_register_layout_file(layouts_dir + "timer16_quad.toml")),
+          regs(layout, core, layout.instance, "timer_a", models::unmapped_policy::ignore, 0x4000'0000) {}
+    std::uint32_t read(std::uint32_t offset, unsigned length, models::time_ps t = 10) {
+        std::uint32_t v = 0xdead'beef;
+        const auto o = regs.read(offset, length, v, t);
+        EXPECT_FALSE(o.reserved) << o.message;
+        return v;
+    }
+    models::register_layout layout;
+    recording_timer_core core;
+    models::register_file regs;
+};
+
+struct dual_fixture : ::testing::Test {
+    dual_fixture()
+        : layout(models::load_register_layout_file(layouts_dir + "timer32_dual.toml")),
+          regs(layout, core, layout.instance, "timer_b") {}
+    models::register_layout layout;
+    recording_timer_core core;
+    models::register_file regs;
+};
+
+TEST_F(quad_fixture, a_full_write_becomes_field_writes_in_bit_order) {
+    // run: enable 0, one_pulse 1, mode 2..3, slope 4..5, direction 6 (read-only), period_preload 8,
+    // reload_disable 9, reload_flag_rule 10, trigger_select 12..14.
+    regs.write(0x10, 2, 0b0011'0111'0010'1001, 500);
+    using c = recording_timer_core::call;
+    const std::vector<c> expected = {
+        {kind::write, timer_field::enable, 0, 1, 500},         {kind::write, timer_field::one_pulse, 0, 0, 500},
+        {kind::write, timer_field::mode, 0, 2, 500},           {kind::write, timer_field::slope, 0, 2, 500},
+        {kind::write, timer_field::period_preload, 0, 1, 500}, {kind::write, timer_field::reload_disable, 0, 1, 500},
+        {kind::write, timer_field::reload_flag_rule, 0, 1, 500}, {kind::write, timer_field::trigger_select, 0, 3, 500},
+    };
+    EXPECT_EQ(core.calls, expected);
+}
+
+TEST_F(quad_fixture, a_byte_write_touches_only_the_fields_in_that_byte) {
+    core.set(timer_field::enable, 0, 1);
+    regs.write(0x11, 1, 0x21, 7);  // byte 1 of "run": period_preload = 1, trigger_select = 2
+    ASSERT_EQ(core.of(kind::read).size(), 0u);  // no read-modify-write of the other byte
+    const auto w = core.of(kind::write);
+    ASSERT_EQ(w.size(), 4u);
+    EXPECT_EQ(w[0].field, timer_field::period_preload);
+    EXPECT_EQ(w[0].value, 1u);
+    EXPECT_EQ(w[3].field, timer_field::trigger_select);
+    EXPECT_EQ(w[3].value, 2u);
+    EXPECT_EQ(core.value(timer_field::enable), 1u);
+
+    core.calls.clear();
+    regs.write(0x15, 1, 0x1e, 8);  // byte 1 of "shape_ab": channel 1 only
+    for (const auto& c : core.calls) EXPECT_EQ(c.channel, 1u);
+    EXPECT_EQ(core.value(timer_field::action, 1), 6u);
+    EXPECT_EQ(core.value(timer_field::compare_preload, 1), 1u);
+    EXPECT_EQ(core.value(timer_field::main_enable, 1), 1u);
+    EXPECT_EQ(core.calls.size(), 6u);
+}
+
+TEST_F(quad_fixture, a_field_covered_in_part_is_merged_with_the_model_value) {
+    core.set(timer_field::counter, 0, 0x1234);
+    regs.write(0x01, 1, 0xab, 3);  // high byte of "count"
+    const std::vector<recording_timer_core::call> expected = {
+        {kind::read, timer_field::counter, 0, 0x1234, 3},
+        {kind::write, timer_field::counter, 0, 0xab34, 3},
+    };
+    EXPECT_EQ(core.calls, expected);
+}
+
+TEST_F(quad_fixture, a_word_write_spans_two_halfword_registers) {
+    regs.write(0x08, 4, 0x0222'0111, 4);  // match_a then match_b
+    EXPECT_EQ(core.value(timer_field::compare, 0), 0x111u);
+    EXPECT_EQ(core.value(timer_field::compare, 1), 0x222u);
+    EXPECT_EQ(core.calls.size(), 2u);
+    EXPECT_EQ(read(0x08, 4), 0x0222'0111u);
+}
+
+TEST_F(quad_fixture, reads_compose_fields_and_leave_reserved_bits_zero) {
+    core.set(timer_field::enable, 0, 1);
+    core.set(timer_field::slope, 0, 2);
+    core.set(timer_field::direction, 0, 1);
+    core.set(timer_field::trigger_select, 0, 5);
+    EXPECT_EQ(read(0x10, 2), 0x5061u);
+    EXPECT_EQ(read(0x10, 1), 0x61u);
+    EXPECT_EQ(read(0x11, 1), 0x50u);
+    // Writing every bit sets no reserved bit (7, 11, 15) and the read-only direction is not written.
+    core.calls.clear();
+    regs.write(0x10, 2, 0xffff, 11);
+    for (const auto& c : core.calls) EXPECT_NE(c.field, timer_field::direction);
+    EXPECT_EQ(read(0x10, 2) & 0x8880u, 0u);
+    // The 8-bit "repeat" register and its reserved neighbour byte, read as one halfword.
+    core.set(timer_field::repetition, 0, 0x42);
+    EXPECT_EQ(read(0x06, 2), 0x42u);
+    regs.write(0x06, 2, 0xff07, 12);
+    EXPECT_EQ(core.value(timer_field::repetition), 7u);
+}
+
+TEST_F(quad_fixture, write_only_fields_read_zero_and_act_on_write) {
+    EXPECT_EQ(read(0x12, 1), 0u);
+    for (const auto& c : core.calls) EXPECT_NE(c.what, kind::read);  // not even asked
+    regs.write(0x12, 1, 0x01, 20);
+    ASSERT_EQ(core.calls.size(), 2u);
+    EXPECT_EQ(core.calls[0].field, timer_field::force_reload);
+    EXPECT_EQ(core.calls[0].value, 1u);
+    EXPECT_EQ(core.calls[1].field, timer_field::rearm);
+    EXPECT_EQ(core.calls[1].value, 0u);
+}
+
+TEST_F(quad_fixture, flags_read_only_and_write_one_to_clear) {
+    core.set(timer_field::flags, 0, 0x85);  // fault, channel 1, reload
+    EXPECT_EQ(read(0x20, 2), 0x8005u);
+    EXPECT_EQ(read(0x22, 2), 0x8005u);  // the clear register reads the flags too
+    core.calls.clear();
+    regs.write(0x20, 2, 0xffff, 30);  // read-only status: ignored
+    EXPECT_TRUE(core.calls.empty());
+    regs.write(0x22, 2, 0x8001, 31);
+    const std::vector<recording_timer_core::call> expected = {
+        {kind::clear, timer_field::flags, 0, 0x01, 31},
+        {kind::clear, timer_field::flags, 0, 0x80, 31},
+    };
+    EXPECT_EQ(core.calls, expected);
+    EXPECT_EQ(core.value(timer_field::flags), 0x04u);
+    core.calls.clear();
+    regs.write(0x22, 2, 0, 32);  // zeros clear nothing
+    EXPECT_TRUE(core.calls.empty());
+    regs.write(0x23, 1, 0x80, 33);  // the high byte alone reaches only the fault flag
+    ASSERT_EQ(core.calls.size(), 1u);
+    EXPECT_EQ(core.calls[0].value, 0x80u);
+}
+
+TEST_F(quad_fixture, a_value_split_over_fields_is_merged) {
+    core.set(timer_field::irq_enable, 0, 0x06);
+    regs.write(0x1c, 2, 0x8001, 40);  // notify: bits 0..4 and bit 15 -> value bit 7
+    EXPECT_EQ(core.value(timer_field::irq_enable), 0x81u);
+    EXPECT_EQ(read(0x1c, 2), 0x8001u);
+}
+
+TEST_F(quad_fixture, accesses_never_go_back_in_time) {
+    regs.write(0x00, 2, 1, 100);
+    regs.write(0x00, 2, 2, 50);
+    EXPECT_EQ(core.calls.back().at, 100u);
+}
+
+TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
+    std::uint32_t v = 1;
+    auto o = regs.read(0x24, 4, v, 123);
+    EXPECT_TRUE(o.reserved);
+    EXPECT_FALSE(o.failed);  // ignore
+    EXPECT_EQ(v, 0u);
+    EXPECT_TRUE(core.calls.empty());
+    EXPECT_EQ(o.message,
+              "read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest register: "
+              "status_clear of timer_a, 0x1 byte above it; at 123 ps");
+
+    std::ostringstream log;
+    auto logger = std::make_shared<spdlog::logger>("bus", std::make_shared<spdlog::sinks::ostream_sink_st>(log));
+    logger->set_pattern("%l %v");
+    spdlog::drop("bus");
+    spdlog::register_logger(logger);
+
+    regs.set_policy(models::unmapped_policy::warn);
+    o = regs.write(0x1e, 2, 0xffff, 200);
+    EXPECT_FALSE(o.failed);
+    EXPECT_TRUE(core.calls.empty());
+    EXPECT_NE(log.str().find("warning write of 2 bytes at 0x4000001e hits a location reserved in timer_a; "
+                             "nearest register: notify of timer_a, 0x1 byte above it; at 200 ps"),
+              std::string::npos)
+        << log.str();
+
+    regs.set_policy(models::unmapped_policy::error);
+    o = regs.write(0x3f, 1, 0, 300);
+    EXPECT_TRUE(o.failed);
+    EXPECT_NE(log.str().find("error write of 1 byte at 0x4000003f"), std::string::npos) << log.str();
+    EXPECT_NE(log.str().find("status_clear of timer_a, 0x1c bytes above it; at 300 ps"), std::string::npos);
+    spdlog::drop("bus");
+}
+
+TEST_F(quad_fixture, reset_values_reach_only_read_write_fields) {
+    regs.apply_reset(0);
+    EXPECT_EQ(core.value(timer_field::period), 0xffffu);
+    EXPECT_EQ(core.value(timer_field::slope), 2u);
+    for (const auto& c : core.calls) {
+        EXPECT_NE(c.what, kind::clear);
+        EXPECT_NE(c.field, timer_field::force_reload);
+        EXPECT_NE(c.field, timer_field::rearm);
+    }
+}
+
+TEST_F(quad_fixture, refuses_missing_channels_and_bad_lengths) {
+    models::timer_config small = layout.instance;
+    small.channels = 2;
+    EXPECT_THROW(models::register_file(layout, core, small), std::invalid_argument);
+    std::uint32_t v = 0;
+    EXPECT_THROW(regs.read(0, 5, v, 0), std::invalid_argument);
+}
+
+TEST_F(dual_fixture, clear_on_read_clears_exactly_what_it_returned) {
+    core.set(timer_field::flags, 0, 0x5);
+    std::uint32_t v = 0;
+    regs.read(0x10, 4, v, 1);  // "pending": no side effect
+    EXPECT_EQ(v, 5u);
+    EXPECT_EQ(core.value(timer_field::flags), 5u);
+    regs.read(0x15, 1, v, 2);  // byte 1 of "take" holds no flag bits: nothing read, nothing cleared
+    EXPECT_EQ(v, 0u);
+    EXPECT_EQ(core.value(timer_field::flags), 5u);
+    regs.read(0x14, 4, v, 3);
+    EXPECT_EQ(v, 5u);
+    EXPECT_EQ(core.calls.back().what, kind::clear);
+    EXPECT_EQ(core.calls.back().value, 5u);
+    EXPECT_EQ(core.value(timer_field::flags), 0u);
+    regs.read(0x14, 4, v, 4);
+    EXPECT_EQ(v, 0u);
+    EXPECT_EQ(core.calls.back().what, kind::read);  // nothing set, nothing to clear
+    core.calls.clear();
+    regs.write(0x14, 4, 0xffff'ffff, 5);  // clear-on-read ignores writes
+    EXPECT_TRUE(core.calls.empty());
+}
+
+TEST_F(dual_fixture, halfword_accesses_on_word_registers) {
+    regs.write(0x1e, 2, 0xbeef, 1);  // high half of "limit"
+    EXPECT_EQ(core.value(timer_field::period), 0xbeef'0000u);
+    regs.write(0x1c, 2, 0x1234, 2);
+    EXPECT_EQ(core.value(timer_field::period), 0xbeef'1234u);
+    std::uint32_t v = 0;
+    regs.read(0x1e, 2, v, 3);
+    EXPECT_EQ(v, 0xbeefu);
+    regs.read(0x1d, 1, v, 3);
+    EXPECT_EQ(v, 0x12u);
+}
+
+// The shipped layouts' reset values are what the fast model reads after reset
+// (docs/timer-model.md, "Reset values").
+TEST(register_file_reset_test, shipped_reset_values_match_the_model) {
+    for (const char* name : {"timer16_quad.toml", "timer32_dual.toml"}) {
+        SCOPED_TRACE(name);
+        const auto layout = models::load_register_layout_file(layouts_dir + name);
+        sim::clock_domain clock(sim::frequency::hz(48'000'000));
+        models::timer_core core(layout.instance, clock, nullptr);
+        models::register_file regs(layout, core, layout.instance);
+        for (const auto& r : layout.registers) {
+            std::uint32_t v = 0;
+            regs.read(r.offset, r.bytes(), v, 0);
+            EXPECT_EQ(v, r.reset) << r.name;
+        }
+    }
+}
+
+}  // namespace
