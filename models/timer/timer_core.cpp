@@ -77,6 +77,20 @@ std::uint64_t timer_core::steps_to_next_interesting() const {
 }
 
 std::uint64_t timer_core::next_interesting_tick() const {
+    if (!cache_valid_) {
+        cached_tick_ = compute_next_interesting_tick();
+        cached_time_ = time_of_tick(cached_tick_);
+        cache_valid_ = true;
+    }
+    return cached_tick_;
+}
+
+std::optional<time_ps> timer_core::next_interesting_time() const {
+    next_interesting_tick();
+    return cached_time_;
+}
+
+std::uint64_t timer_core::compute_next_interesting_tick() const {
     std::uint64_t n = fault_at_;
     for (unsigned i = 0; i < cfg_.channels; ++i)
         if (!ch_[i].pending.empty()) n = std::min(n, ch_[i].pending.front().tick);
@@ -260,6 +274,7 @@ void timer_core::activate_fault(time_ps at) {
 
 void timer_core::process_tick(std::uint64_t n, time_ps at) {
     ++ticks_processed_;
+    invalidate();
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         auto& q = ch_[i].pending;
         while (!q.empty() && q.front().tick <= n) {
@@ -306,31 +321,36 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
 void timer_core::advance_to(time_ps t) {
     for (;;) {
         const std::uint64_t n = next_interesting_tick();
-        const std::optional<time_ps> at = time_of_tick(n);
+        const std::optional<time_ps> at = cached_time_;
         if (!at || *at > t) break;
         skip_to(n);
         process_tick(n, *at);
     }
-    // Every tick at or before t has now happened; the ones left were boring.
+}
+
+void timer_core::catch_up(time_ps t) {
+    advance_to(t);
+    // Every tick at or before t has now happened; the ones left were boring: jump over them so
+    // that an access at t sees the state at t. (advance_to alone leaves that to the next access.)
     skip_to(t == sim::max_time_ps ? clock_.tick_at(t) : clock_.tick_at(t + 1));
 }
 
-void timer_core::catch_up(time_ps t) { advance_to(t); }
-
 bool timer_core::next_event(time_ps& at) const {
-    const std::optional<time_ps> t = time_of_tick(next_interesting_tick());
+    const std::optional<time_ps> t = next_interesting_time();
     if (!t) return false;
     at = *t;
     return true;
 }
 
 void timer_core::clock_changed(time_ps) {
-    // State is kept in tick indices; the domain answers every time question afresh, and ticks
-    // before the change (all that has been processed) keep their times.
+    // State is kept in tick indices and ticks before the change (all that has been processed) keep
+    // their times; only the cached time of the next event may have moved.
+    invalidate();
 }
 
 void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, time_ps t) {
     catch_up(t);
+    invalidate();
     const bool bit = (v & 1u) != 0;
     switch (f) {
         case timer_field::enable: enable_ = bit; break;
@@ -473,6 +493,7 @@ void timer_core::clear_flags(std::uint32_t mask, time_ps t) {
 
 void timer_core::set_fault_input(bool level, time_ps t) {
     catch_up(t);
+    invalidate();
     const bool rising = level && !fault_input_;
     fault_input_ = level;
     if (rising && fault_enable_ && cfg_.complementary && !fault_active_ && fault_at_ == never) {

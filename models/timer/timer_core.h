@@ -70,13 +70,19 @@ private:
     std::uint64_t tick_of_step(std::uint64_t k) const;
     // Steps (>= 1) until the next step that matters, or never.
     std::uint64_t steps_to_next_interesting() const;
-    // The next tick index that must be processed one by one, or never.
+    // The next tick index that must be processed one by one, or never (cached: only processing a
+    // tick, a write, a fault input or a clock change can move it; skipping boring ticks cannot).
     std::uint64_t next_interesting_tick() const;
+    std::uint64_t compute_next_interesting_tick() const;
+    // Time of the next interesting tick, cached with it.
+    std::optional<time_ps> next_interesting_time() const;
+    void invalidate() { cache_valid_ = false; }
     // Jump over boring ticks [next_tick_, n) with arithmetic.
     void skip_to(std::uint64_t n);
     // Process tick n (== next_tick_) exactly, at time `at`.
     void process_tick(std::uint64_t n, time_ps at);
-    // Bring the state up to time t: every tick at or before t processed or skipped.
+    // Bring the state up to time t: every tick at or before t processed or skipped (advance_to only
+    // processes the ticks that matter).
     void catch_up(time_ps t);
 
     // Counter arithmetic shared by steps and skipping.
@@ -130,6 +136,9 @@ private:
 
     std::array<pin_state, 2 * max_channels> pins_{};
     bool irq_ = false;
+    mutable bool cache_valid_ = false;
+    mutable std::uint64_t cached_tick_ = never;
+    mutable std::optional<time_ps> cached_time_;
     std::uint64_t ticks_processed_ = 0;
 };
 

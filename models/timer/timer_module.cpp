@@ -43,7 +43,10 @@ time_ps timer_module::now_ps() { return sc_core::sc_time_stamp().value(); }
 void timer_module::wake() {
     const time_ps now = now_ps();
     scheduled_ = sim::max_time_ps;
+    in_wake_ = true;
+    drive(now);
     core_.advance_to(now);
+    in_wake_ = false;
     drive(now);
     reschedule();
 }
@@ -74,20 +77,29 @@ void timer_module::reschedule() {
     if (!trigger_times_.empty()) next = std::min(next, trigger_times_.front());
     if (next == sim::max_time_ps || next == scheduled_) return;
     if (next < now) next = now;
-    wake_.cancel();
+    if (scheduled_ != sim::max_time_ps) wake_.cancel();  // only a pending wake-up needs cancelling
     wake_.notify(sc_core::sc_time::from_value(next - now));
     scheduled_ = next;
 }
 
 void timer_module::on_pin(unsigned pin, bool level, time_ps at) {
-    queue_.push_back({at, static_cast<int>(pin), level});
+    // Reported at the kernel's own time (the common case): drive the signal now; reported ahead
+    // of it (an access from firmware running ahead): drive it when the kernel gets there.
+    // Signals have one writer, the wake process: from anywhere else, queue.
+    if (in_wake_ && queue_.empty() && sc_core::sc_time_stamp().value() == at)
+        pins_[pin]->write(level);
+    else
+        queue_.push_back({at, static_cast<int>(pin), level});
     for (timer_observer* o : observers_) o->on_pin(pin, level, at);
 }
 void timer_module::on_flags_set(std::uint32_t bits, time_ps at) {
     for (timer_observer* o : observers_) o->on_flags_set(bits, at);
 }
 void timer_module::on_irq(bool level, time_ps at) {
-    queue_.push_back({at, -1, level});
+    if (in_wake_ && queue_.empty() && sc_core::sc_time_stamp().value() == at)
+        irq_.write(level);
+    else
+        queue_.push_back({at, -1, level});
     for (timer_observer* o : observers_) o->on_irq(level, at);
 }
 void timer_module::on_trigger(time_ps at) {

@@ -79,6 +79,7 @@ private:
     std::vector<timer_observer*> observers_;
     std::uint64_t triggers_ = 0;
     time_ps scheduled_ = sim::max_time_ps;
+    bool in_wake_ = false;  // inside wake(), the signals' only writer
 };
 
 }  // namespace models

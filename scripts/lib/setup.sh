@@ -16,6 +16,12 @@ tickbench_packages=(
     nlohmann-json3-dev
     libtomlplusplus-dev
     libcli11-dev
+    libxml2-utils
+    # x86-64 instruction decoder of the trap engine (harness/trap/)
+    libzydis-dev
+    # outside tools the waveform tests check our VCD files with (tests/waves/)
+    gtkwave
+    sigrok-cli
 )
 
 tickbench_root="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"

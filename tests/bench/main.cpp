@@ -65,6 +65,7 @@ private:
 };
 
 double ns_per_unit(const std::string& unit) {
+    // Only the units of timed metrics; measured metrics report in their own unit.
     if (unit == "ns") return 1;
     if (unit == "us") return 1e3;
     if (unit == "ms") return 1e6;
@@ -117,6 +118,7 @@ int run(int argc, char** argv) {
     int bm_argc = 1;
     benchmark::Initialize(&bm_argc, argv);
     for (const bench::metric& m : bench::metrics()) {
+        if (m.measure) continue;
         auto* b = benchmark::RegisterBenchmark(m.name.c_str(), [&m](benchmark::State& state) {
             bench::set_running(m.name);
             m.body(state);
@@ -137,6 +139,15 @@ int run(int argc, char** argv) {
     for (const std::string& f : bench::failures()) std::cerr << "tickbench-bench: " << f << "\n";
     nlohmann::ordered_json out = nlohmann::ordered_json::object();
     for (const bench::metric& m : bench::metrics()) {
+        if (m.measure) {
+            try {
+                out[m.name] = {{"value", rounded(m.measure(quick))}, {"unit", m.unit}};
+            } catch (const std::exception& e) {
+                std::cerr << "tickbench-bench: " << m.name << ": " << e.what() << "\n";
+                ok = false;
+            }
+            continue;
+        }
         const double ns = reporter.median_ns(m.name);
         if (ns < 0) {
             std::cerr << "tickbench-bench: " << m.name << ": no result\n";

@@ -1,0 +1,250 @@
+#include "harness/cpu.h"
+
+#include <algorithm>
+#include <cstdio>
+#include <stdexcept>
+
+namespace harness {
+
+cpu* cpu::current_ = nullptr;
+
+cpu::cpu(const sc_core::sc_module_name& name, const cpu_config& cfg, sim::clock_tree& tree,
+         interrupt_controller& irqs, std::function<void()> entry)
+    : sc_core::sc_module(name),
+      socket("socket"),
+      cfg_(cfg),
+      tree_(tree),
+      clock_(tree.domain(cfg.clock)),
+      irqs_(irqs),
+      entry_(std::move(entry)) {
+    if (sc_core::sc_get_time_resolution() != sc_core::sc_time(1, sc_core::SC_PS))
+        throw std::logic_error(std::string(basename()) + ": the kernel time resolution must be 1 ps");
+    SC_HAS_PROCESS(cpu);
+    SC_THREAD(run);
+    // Firmware stacks: drivers and their interrupt handlers nest; 1 MiB is ample for host code.
+    set_stack_size(1 << 20);
+}
+
+void cpu::run() {
+    current_ = this;
+    state_ = firmware_state::running;
+    local_ = after_cycles(0, cfg_.start_offset_cycles);
+    sync_if_far_ahead();
+    in_firmware_ = true;
+    entry_();
+    in_firmware_ = false;
+    state_ = firmware_state::finished;
+    sync();
+}
+
+time_ps cpu::after_cycles(time_ps from, std::uint64_t n) const {
+    try {
+        return clock_.time_of(clock_.tick_at(from) + n);
+    } catch (const std::out_of_range&) {
+        const_cast<cpu*>(this)->fail("the CPU clock '" + cfg_.clock + "' stopped at " +
+                                     sim::format_time(from) + ": firmware cannot go on");
+        throw;
+    }
+}
+
+void cpu::bring_models_to(time_ps t) {
+    if (t < horizon_) return;
+    time_ps next = sim::max_time_ps;
+    for (models::timer_core_if* p : peripherals_) {
+        p->advance_to(t);
+        time_ps e;
+        if (p->next_event(e)) next = std::min(next, e);
+    }
+    horizon_ = next;
+}
+
+void cpu::take_interrupts() {
+    for (;;) {
+        const auto d = irqs_.deliverable(local_, running_priority_);
+        if (!d) return;
+        void (*handler)() = d->line < handlers_.size() ? handlers_[d->line] : nullptr;
+        if (!handler) {
+            fail("interrupt line " + std::to_string(d->line) + " (" + irqs_.line(d->line).name +
+                 ") was taken but firmware set no handler for it");
+            return;
+        }
+        const unsigned saved = running_priority_;
+        running_priority_ = irqs_.line(d->line).priority;
+        local_ = after_cycles(local_, cfg_.irq_entry_cycles);
+        handler();
+        local_ = after_cycles(local_, cfg_.irq_exit_cycles);
+        running_priority_ = saved;
+        bring_models_to(local_);
+    }
+}
+
+void cpu::sync() {
+    const time_ps now = sc_core::sc_time_stamp().value();
+    const bool was = in_firmware_;
+    in_firmware_ = false;
+    if (local_ > now) sc_core::wait(sc_core::sc_time::from_value(local_ - now));
+    in_firmware_ = was;
+    current_ = this;
+}
+
+void cpu::sync_if_far_ahead() {
+    if (local_ - sc_core::sc_time_stamp().value() >= cfg_.quantum) sync();
+}
+
+void cpu::fail(const std::string& why) {
+    state_ = firmware_state::failed;
+    in_firmware_ = false;
+    if (on_failure_) on_failure_(why);
+    throw std::runtime_error(why);
+}
+
+std::uint32_t cpu::transport(bool is_write, std::uint32_t address, unsigned size, std::uint32_t value) {
+    ++accesses_;
+    if (local_ == last_progress_) {
+        if (++stalled_accesses_ > cfg_.hang_accesses)
+            fail("firmware hang: " + std::to_string(stalled_accesses_) +
+                 " bus accesses without simulated time moving");
+    } else {
+        stalled_accesses_ = 0;
+        last_progress_ = local_;
+    }
+    unsigned char data[4];
+    for (unsigned i = 0; i < size; ++i) data[i] = static_cast<unsigned char>(value >> (8 * i));
+    payload_.set_command(is_write ? tlm::TLM_WRITE_COMMAND : tlm::TLM_READ_COMMAND);
+    payload_.set_address(address);
+    payload_.set_data_ptr(data);
+    payload_.set_data_length(size);
+    payload_.set_streaming_width(size);
+    payload_.set_byte_enable_ptr(nullptr);
+    payload_.set_dmi_allowed(false);
+    payload_.set_response_status(tlm::TLM_INCOMPLETE_RESPONSE);
+    const time_ps now = sc_core::sc_time_stamp().value();
+    sc_core::sc_time delay = sc_core::sc_time::from_value(local_ - now);
+    socket->b_transport(payload_, delay);
+    local_ = std::max<time_ps>(local_, now + delay.value());
+    std::uint32_t result = 0;
+    if (!is_write)
+        for (unsigned i = 0; i < size; ++i) result |= std::uint32_t{data[i]} << (8 * i);
+    access_record& r = ring_[accesses_ % ring_.size()];
+    r = {local_, address, size, is_write, is_write ? value : result, !payload_.is_response_ok()};
+    if (!payload_.is_response_ok()) {
+        char a[16];
+        std::snprintf(a, sizeof a, "0x%08x", address);
+        fail(std::string("bus error on a ") + std::to_string(size * 8) + "-bit " +
+             (is_write ? "write to " : "read of ") + a + ": " + payload_.get_response_string());
+    }
+    return result;
+}
+
+// Models are only ever brought up to the firmware's current local time: an interrupt handler may
+// then write to them at that time, and a model never sees time go backwards.
+
+std::uint32_t cpu::read(std::uint32_t address, unsigned size) {
+    ++heartbeat_;
+    bring_models_to(local_);
+    take_interrupts();
+    local_ = after_cycles(local_, cfg_.access_cycles);
+    sync_if_far_ahead();
+    return transport(false, address, size, 0);
+}
+
+void cpu::write(std::uint32_t address, unsigned size, std::uint32_t value) {
+    ++heartbeat_;
+    bring_models_to(local_);
+    take_interrupts();
+    local_ = after_cycles(local_, cfg_.access_cycles);
+    sync_if_far_ahead();
+    transport(true, address, size, value);
+    // A write can bring a peripheral's next event closer: look again before the next access.
+    horizon_ = 0;
+}
+
+void cpu::cycles(std::uint64_t n) {
+    ++heartbeat_;
+    // Interrupts may enter during the stretch: walk it from one instant that matters to the next.
+    std::uint64_t remaining = n;
+    for (;;) {
+        bring_models_to(local_);
+        if (irqs_.deliverable(local_, running_priority_)) take_interrupts();
+        const time_ps end = after_cycles(local_, remaining);
+        time_ps next = horizon_;
+        if (const auto r = irqs_.next_ready(local_, running_priority_)) next = std::min(next, *r);
+        if (next >= end || remaining == 0) {
+            local_ = end;
+            break;
+        }
+        const std::uint64_t k0 = clock_.tick_at(local_);
+        const std::uint64_t used = std::min(remaining, clock_.tick_at(std::max(next, local_)) - k0);
+        local_ = clock_.time_of(k0 + used);
+        remaining -= used;
+        if (used == 0 && !irqs_.deliverable(local_, running_priority_)) {
+            // The instant that matters is now: let the models process it.
+            horizon_ = std::min(horizon_, local_);
+            bring_models_to(local_);
+        }
+    }
+    sync_if_far_ahead();
+}
+
+void cpu::wait_for_interrupt() {
+    ++heartbeat_;
+    for (;;) {
+        bring_models_to(local_);
+        if (irqs_.deliverable(local_, running_priority_)) {
+            take_interrupts();
+            return;
+        }
+        time_ps next = horizon_;
+        if (const auto r = irqs_.next_ready(local_, running_priority_)) next = std::min(next, *r);
+        if (next == sim::max_time_ps) {
+            // Nothing is scheduled anywhere the cpu can see: let the kernel run a quantum (stimulus
+            // from outside may arrive) and look again.
+            local_ = after_cycles(sc_core::sc_time_stamp().value() + cfg_.quantum, 0);
+            sync();
+            continue;
+        }
+        // Sleep to the first CPU clock edge at or after that instant.
+        local_ = after_cycles(std::max(local_, next), 0);
+        sync_if_far_ahead();
+    }
+}
+
+bool cpu::irq_disable() {
+    ++heartbeat_;
+    return irqs_.set_global_enable(false);
+}
+
+void cpu::irq_enable() {
+    ++heartbeat_;
+    irqs_.set_global_enable(true);
+    take_interrupts();
+}
+
+void cpu::irq_line_enable(unsigned line, bool enable) {
+    ++heartbeat_;
+    if (line >= irqs_.line_count()) {
+        fail("firmware enabled interrupt line " + std::to_string(line) + ", but the part has " +
+             std::to_string(irqs_.line_count()) + " lines");
+        return;
+    }
+    irqs_.set_enabled(line, enable, local_);
+    if (enable) take_interrupts();
+}
+
+void cpu::set_handler(unsigned line, void (*handler)()) {
+    if (line >= handlers_.size() || line >= irqs_.line_count()) {
+        fail("firmware set a handler for interrupt line " + std::to_string(line) +
+             ", but the part has " + std::to_string(irqs_.line_count()) + " lines");
+        return;
+    }
+    handlers_[line] = handler;
+}
+
+std::vector<access_record> cpu::last_accesses() const {
+    std::vector<access_record> v;
+    const std::uint64_t n = std::min<std::uint64_t>(accesses_, ring_.size());
+    for (std::uint64_t i = accesses_ - n + 1; i <= accesses_; ++i) v.push_back(ring_[i % ring_.size()]);
+    return v;
+}
+
+}  // namespace harness

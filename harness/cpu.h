@@ -1,0 +1,134 @@
+#pragma once
+// The processor that runs host-compiled firmware against the models (DESIGN section 7).
+//
+// Firmware runs on a SystemC thread of its own and keeps a local time ahead of the kernel (TLM-2.0
+// temporal decoupling). Its local time is a count of CPU clock cycles on the clock tree's CPU clock:
+// every bus access costs `access_cycles`, tick_cycles() what it says. Before each access the cpu
+// brings the peripheral models up to its local time (they compute what firmware would see, and when
+// their interrupt lines rise), lets any deliverable interrupt enter first, then performs the access
+// through its TLM-2.0 initiator socket with the local offset as annotated delay. It hands control to
+// the kernel only when it must: every `quantum` of run-ahead, and when it waits for an interrupt
+// with nothing left to compute locally. So a register read costs no context switch at all.
+
+#include "harness/interrupt_controller.h"
+#include "models/timer/timer_types.h"
+#include "sim/clock_tree.h"
+
+#include <systemc>
+#include <tlm>
+#include <tlm_utils/simple_initiator_socket.h>
+
+#include <array>
+#include <atomic>
+#include <cstdint>
+#include <functional>
+#include <string>
+#include <vector>
+
+namespace harness {
+
+struct cpu_config {
+    std::string clock = "cpu";        // clock-tree node that clocks the CPU
+    unsigned access_cycles = 2;        // cost of one bus access
+    unsigned irq_entry_cycles = 12;    // from an interrupt's arrival to its handler's first line
+    unsigned irq_exit_cycles = 10;     // from a handler's return to the interrupted code
+    time_ps quantum = 1'000'000'000;   // longest run-ahead of the kernel (1 ms)
+    std::uint64_t start_offset_cycles = 0;  // firmware starts this many CPU cycles after time 0
+    std::uint64_t hang_accesses = 50'000'000;  // accesses without simulated time moving = hang
+};
+
+// One bus access as the run report lists it.
+struct access_record {
+    time_ps at = 0;
+    std::uint32_t address = 0;
+    unsigned size = 0;
+    bool write = false;
+    std::uint32_t value = 0;
+    bool failed = false;  // the bus answered with an error
+};
+
+// How firmware's run ended, as far as the cpu can tell.
+enum class firmware_state { not_started, running, finished, failed };
+
+class cpu : public sc_core::sc_module {
+public:
+    tlm_utils::simple_initiator_socket<cpu> socket;
+
+    // A cpu clocked by `cfg.clock` of `tree`, taking interrupts from `irqs`, running `entry` (the
+    // firmware's main) from the start offset. Needs a 1 ps kernel time resolution.
+    cpu(const sc_core::sc_module_name& name, const cpu_config& cfg, sim::clock_tree& tree,
+        interrupt_controller& irqs, std::function<void()> entry);
+
+    // Peripherals whose state firmware can see: brought up to the cpu's local time before each
+    // access, so that their interrupt requests are known in time.
+    void watch(models::timer_core_if& peripheral) { peripherals_.push_back(&peripheral); }
+    // Called with an error text when firmware fails (a bus error with the error policy, an
+    // unknown line...). The platform ends the run with a report.
+    void on_failure(std::function<void(const std::string&)> f) { on_failure_ = std::move(f); }
+    // Moves the firmware's start (before the run begins): sweeps use it to slide the firmware's
+    // accesses across an instant such as a counter wrap.
+    void set_start_offset(std::uint64_t cycles) { cfg_.start_offset_cycles = cycles; }
+
+    // --- firmware-facing, called from the firmware's thread only ---
+    std::uint32_t read(std::uint32_t address, unsigned size);
+    void write(std::uint32_t address, unsigned size, std::uint32_t value);
+    void cycles(std::uint64_t n);
+    void wait_for_interrupt();
+    bool irq_disable();
+    void irq_enable();
+    void irq_line_enable(unsigned line, bool enable);
+    void set_handler(unsigned line, void (*handler)());
+    // Local simulated time of the firmware.
+    time_ps now() const { return local_; }
+    // The cpu whose firmware is running (set while its thread runs).
+    static cpu* current() { return current_; }
+
+    // --- for the platform and reports ---
+    firmware_state state() const { return state_; }
+    // The last bus accesses, oldest first (at most 16).
+    std::vector<access_record> last_accesses() const;
+    std::uint64_t access_count() const { return accesses_; }
+    // Bumped at every firmware call: a watchdog thread reads it to detect firmware stuck in a
+    // loop that makes no calls at all.
+    const std::atomic<std::uint64_t>& heartbeat() const { return heartbeat_; }
+    // True while control is in firmware code (not waiting in the kernel).
+    bool in_firmware() const { return in_firmware_.load(std::memory_order_relaxed); }
+    interrupt_controller& interrupts() { return irqs_; }
+
+private:
+    void run();
+    // Local time after `n` more CPU cycles from `from`.
+    time_ps after_cycles(time_ps from, std::uint64_t n) const;
+    void bring_models_to(time_ps t);
+    void take_interrupts();
+    void sync_if_far_ahead();
+    void sync();
+    std::uint32_t transport(bool write, std::uint32_t address, unsigned size, std::uint32_t value);
+    void fail(const std::string& why);
+
+    cpu_config cfg_;
+    sim::clock_tree& tree_;
+    const sim::clock_domain& clock_;
+    interrupt_controller& irqs_;
+    std::function<void()> entry_;
+    std::function<void(const std::string&)> on_failure_;
+    std::vector<models::timer_core_if*> peripherals_;
+    std::array<void (*)(), 64> handlers_{};
+
+    time_ps local_ = 0;
+    time_ps horizon_ = 0;  // earliest next event of any watched peripheral
+    unsigned running_priority_ = idle_priority;
+    std::uint64_t accesses_ = 0;
+    std::uint64_t stalled_accesses_ = 0;
+    time_ps last_progress_ = 0;
+    std::array<access_record, 16> ring_{};
+    firmware_state state_ = firmware_state::not_started;
+    std::atomic<std::uint64_t> heartbeat_{0};
+    std::atomic<bool> in_firmware_{false};
+    tlm::tlm_generic_payload payload_;
+    sc_core::sc_event irq_wakeup_;
+
+    static cpu* current_;
+};
+
+}  // namespace harness

@@ -1,0 +1,279 @@
+#include "harness/platform.h"
+
+#include "harness/firmware_context.h"
+#include "harness/trap/trap_engine.h"
+
+#include <spdlog/spdlog.h>
+
+#include <atomic>
+#include <chrono>
+#include <condition_variable>
+#include <mutex>
+#include <cstdio>
+#include <iostream>
+#include <sstream>
+#include <stdexcept>
+#include <thread>
+#include <unistd.h>
+
+namespace harness {
+
+const char* to_string(run_outcome o) {
+    switch (o) {
+        case run_outcome::completed: return "completed";
+        case run_outcome::crashed: return "crashed";
+        case run_outcome::aborted: return "aborted";
+        case run_outcome::check_failed: return "firmware-check-failed";
+        case run_outcome::hung: return "hung";
+        case run_outcome::failed: return "failed";
+    }
+    return "?";
+}
+
+std::string failure_report::text() const {
+    std::ostringstream s;
+    s << "firmware " << to_string(outcome) << " at " << sim::format_time(at) << ": " << message << "\n";
+    if (!last_accesses.empty()) {
+        s << "last " << last_accesses.size() << " bus accesses (oldest first):\n";
+        for (std::size_t i = 0; i < last_accesses.size(); ++i) {
+            const access_record& a = last_accesses[i];
+            char line[160];
+            std::snprintf(line, sizeof line, "  %-18s %-5s %2u-bit 0x%08x %-24s 0x%08x%s\n",
+                          sim::format_time(a.at).c_str(), a.write ? "write" : "read", a.size * 8,
+                          a.address, i < access_names.size() ? access_names[i].c_str() : "",
+                          a.value, a.failed ? "  (bus error)" : "");
+            s << line;
+        }
+    }
+    if (!backtrace.empty()) {
+        s << "host backtrace:\n";
+        for (const std::string& f : backtrace) s << "  " << f << "\n";
+    }
+    return s.str();
+}
+
+// Forwards a timer's interrupt request line to the interrupt controller.
+struct irq_forwarder final : models::timer_observer {
+    interrupt_controller* irqs = nullptr;
+    unsigned line = 0;
+    void on_pin(unsigned, bool, time_ps) override {}
+    void on_flags_set(std::uint32_t, time_ps) override {}
+    void on_irq(bool level, time_ps at) override { irqs->set_level(line, level, at); }
+    void on_trigger(time_ps) override {}
+};
+
+// Stands in for the cpu on the bus when a part runs without firmware.
+struct platform::idle_initiator : sc_core::sc_module {
+    tlm_utils::simple_initiator_socket<idle_initiator> socket;
+    explicit idle_initiator(const sc_core::sc_module_name& n) : sc_core::sc_module(n), socket("socket") {}
+};
+
+struct platform::timer_slot {
+    timer_spec spec;
+    std::unique_ptr<models::timer_module> module;
+    std::unique_ptr<models::register_file> registers;
+    std::unique_ptr<models::timer_target> target;
+    irq_forwarder irq;
+};
+
+// Wall-clock watch over firmware that stops calling into the simulator (a tight loop).
+struct platform::watchdog {
+    std::mutex mutex;
+    std::condition_variable wake;
+    bool stop = false;
+    std::thread thread;
+    // Sleeps up to `d`; false when told to stop.
+    bool nap(std::chrono::milliseconds d) {
+        std::unique_lock<std::mutex> lock(mutex);
+        return !wake.wait_for(lock, d, [this] { return stop; });
+    }
+    ~watchdog() {
+        {
+            std::lock_guard<std::mutex> lock(mutex);
+            stop = true;
+        }
+        wake.notify_all();
+        if (thread.joinable()) thread.join();
+    }
+};
+
+// The trapped peripheral windows of an unmodified-driver run.
+struct platform::mapped {
+    std::vector<mapped_region> regions;
+};
+
+platform::platform() = default;
+platform::~platform() = default;
+
+void platform::add_timer(timer_spec spec) {
+    if (built_) throw std::logic_error("platform: timer added after build()");
+    auto slot = std::make_unique<timer_slot>();
+    slot->spec = std::move(spec);
+    timers_.push_back(std::move(slot));
+}
+
+void platform::set_firmware(const cpu_config& cfg, std::function<void()> entry) {
+    cpu_cfg_ = cfg;
+    entry_ = std::move(entry);
+}
+
+void platform::build() {
+    clocks_.start();
+    std::vector<interrupt_line_config> lines;
+    for (const auto& t : timers_) lines.push_back({t->spec.name, t->spec.irq_priority, t->spec.irq_extra_delay});
+    irqs_ = std::make_unique<interrupt_controller>(lines);
+    std::vector<models::address_range> ranges;
+    for (std::size_t i = 0; i < timers_.size(); ++i) {
+        timer_slot& t = *timers_[i];
+        const models::timer_config& cfg = t.spec.layout.instance;
+        t.module = std::make_unique<models::timer_module>(t.spec.name.c_str(), cfg, clocks_, t.spec.clock);
+        t.irq.irqs = irqs_.get();
+        t.irq.line = static_cast<unsigned>(i);
+        t.module->add_observer(&t.irq);
+        t.registers = std::make_unique<models::register_file>(t.spec.layout, *t.module, cfg, t.spec.name,
+                                                              policy_, t.spec.base);
+        t.registers->apply_reset(0);
+        if (t.spec.counter_start) t.module->write(models::timer_field::counter, 0, *t.spec.counter_start, 0);
+        if (t.spec.running_at_start) t.module->write(models::timer_field::enable, 0, 1, 0);
+        t.target = std::make_unique<models::timer_target>((t.spec.name + "_bus").c_str(), *t.registers,
+                                                          t.spec.access_latency);
+        ranges.push_back({t.spec.base, t.spec.layout.size, t.spec.name, &t.spec.layout});
+    }
+    router_ = std::make_unique<models::address_router>("bus", ranges, policy_);
+    for (auto& t : timers_) router_->initiator_socket.bind(t->target->socket);
+    if (cpu_cfg_) {
+        cpu_ = std::make_unique<harness::cpu>("cpu", *cpu_cfg_, clocks_, *irqs_, entry_);
+        for (auto& t : timers_) cpu_->watch(*t->module);
+        cpu_->socket.bind(router_->target_socket);
+        cpu_->on_failure([this](const std::string& why) {
+            fail(why.rfind("firmware hang", 0) == 0 ? run_outcome::hung : run_outcome::failed, why);
+        });
+        firmware_context::get().on_failed_check = [this](const firmware_check& c) {
+            fail(run_outcome::check_failed,
+                 "firmware check '" + c.name + "' failed at " + c.file + ":" + std::to_string(c.line));
+        };
+    } else {
+        // No firmware: the router still needs its target socket bound. A part without a processor
+        // is driven by test benches through the timer modules directly.
+        idle_ = std::make_unique<idle_initiator>("no_cpu");
+        idle_->socket.bind(router_->target_socket);
+    }
+    built_ = true;
+}
+
+void platform::start_watchdog() {
+    if (!cpu_ || hang_wall_seconds_ <= 0) return;
+    watchdog_ = std::make_unique<watchdog>();
+    watchdog* self = watchdog_.get();
+    watchdog_->thread = std::thread([this, self] {
+        std::uint64_t last = cpu_->heartbeat().load();
+        auto since = std::chrono::steady_clock::now();
+        while (self->nap(std::chrono::milliseconds(50))) {
+            const std::uint64_t beat = cpu_->heartbeat().load();
+            const auto now = std::chrono::steady_clock::now();
+            if (beat != last || !cpu_->in_firmware()) {
+                last = beat;
+                since = now;
+                continue;
+            }
+            if (std::chrono::duration<double>(now - since).count() >= hang_wall_seconds_) {
+                char what[128];
+                std::snprintf(what, sizeof what,
+                              "firmware made no call into the simulator for %.1f wall seconds "
+                              "(a loop with no bus access, cycle annotation or wait)",
+                              hang_wall_seconds_);
+                fail(run_outcome::hung, what);
+            }
+        }
+    });
+}
+
+void platform::run(time_ps duration) {
+    if (!built_) build();
+    // Crashes in firmware (or anywhere while it runs) become a report, like every other failure.
+    trap_engine::instance().set_crash_hook([this](const crash_info& c) {
+        const run_outcome o = c.signal_name == "SIGABRT" ? run_outcome::aborted : run_outcome::crashed;
+        fail(o, c.signal_name + (c.message.empty() ? "" : ": " + c.message), c.backtrace);
+    });
+    trap_engine::ensure_alt_stack();
+    if (map_peripherals_ && cpu_ && !mapped_) {
+        mapped_ = std::make_unique<mapped>();
+        for (const auto& t : timers_) {
+            harness::cpu* c = cpu_.get();
+            mapped_->regions.push_back(trap_engine::instance().map_region(
+                t->spec.name, t->spec.base, t->spec.layout.size, [c](access& a) {
+                    // The register layouts are at most 32 bits wide: a 64-bit access is two.
+                    const auto address = static_cast<std::uint32_t>(a.address);
+                    const unsigned first = a.width > 4 ? 4 : a.width;
+                    if (a.is_write) {
+                        c->write(address, first, static_cast<std::uint32_t>(a.value));
+                        if (a.width > 4) c->write(address + 4, 4, static_cast<std::uint32_t>(a.value >> 32));
+                    } else {
+                        a.value = c->read(address, first);
+                        if (a.width > 4) a.value |= std::uint64_t{c->read(address + 4, 4)} << 32;
+                    }
+                }));
+        }
+    }
+    start_watchdog();
+    try {
+        sc_core::sc_start(sc_core::sc_time::from_value(duration));
+    } catch (const std::exception& e) {
+        fail(run_outcome::failed, e.what());
+    }
+    if (watchdog_) watchdog_.reset();
+}
+
+models::timer_module& platform::timer(const std::string& name) {
+    for (auto& t : timers_)
+        if (t->spec.name == name) return *t->module;
+    throw std::out_of_range("no timer '" + name + "'");
+}
+
+std::vector<std::string> platform::timer_names() const {
+    std::vector<std::string> v;
+    for (const auto& t : timers_) v.push_back(t->spec.name);
+    return v;
+}
+
+std::string platform::describe_address(std::uint64_t address) const {
+    for (const auto& t : timers_) {
+        const auto& s = t->spec;
+        if (address < s.base || address >= s.base + s.layout.size) continue;
+        if (const auto* r = s.layout.find(static_cast<std::uint32_t>(address - s.base)))
+            return s.name + "." + r->name;
+        return s.name + ".(reserved)";
+    }
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "(unmapped)");
+    return buf;
+}
+
+void platform::fail(run_outcome outcome, const std::string& message, std::vector<std::string> backtrace) {
+    static std::atomic<bool> failing{false};
+    if (failing.exchange(true)) _exit(3);  // a second failure while reporting the first
+    failure_report r;
+    r.outcome = outcome;
+    r.message = message;
+    r.backtrace = std::move(backtrace);
+    if (cpu_) {
+        r.at = cpu_->now();
+        r.last_accesses = cpu_->last_accesses();
+        for (const auto& a : r.last_accesses) r.access_names.push_back(describe_address(a.address));
+    }
+    if (on_failure_) on_failure_(r);
+    std::cerr << "tickbench: " << r.text() << std::flush;
+    for (auto& c : closers_) {
+        try {
+            c();
+        } catch (const std::exception& e) {
+            std::cerr << "tickbench: while closing outputs: " << e.what() << "\n";
+        }
+    }
+    spdlog::shutdown();
+    std::cout.flush();
+    std::cerr.flush();
+    _exit(3);
+}
+
+}  // namespace harness

@@ -1,0 +1,119 @@
+#pragma once
+// A simulated part ready to run firmware: clock tree, timers behind their register layouts, the
+// address router, the interrupt controller and the cpu, wired the way DESIGN sections 3, 6 and 7
+// describe. Both the GoogleTest fixture and the tickbench command build one; it is also the place
+// where a run's failures (crash, abort, failed firmware check, hang) become a report and exit code 3
+// after every output has been flushed and closed.
+
+#include "harness/cpu.h"
+#include "harness/interrupt_controller.h"
+#include "models/bus/address_router.h"
+#include "models/bus/timer_target.h"
+#include "models/layout/register_file.h"
+#include "models/layout/register_layout.h"
+#include "models/timer/timer_module.h"
+#include "sim/clock_tree.h"
+
+#include <functional>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace harness {
+
+// One timer instance of the part.
+struct timer_spec {
+    std::string name;                  // instance name, also its interrupt line's name
+    models::register_layout layout;    // its registers (and instance configuration)
+    std::string clock;                 // clock-tree node of its kernel clock
+    std::uint64_t base = 0;            // bus address of its register window
+    unsigned irq_priority = 8;
+    time_ps irq_extra_delay = 0;       // injected interrupt delivery delay
+    std::optional<std::uint32_t> counter_start;  // counter value at time 0 (edge-case set-up)
+    bool running_at_start = false;     // counting from time 0, before firmware touches it
+    sc_core::sc_time access_latency = sc_core::SC_ZERO_TIME;  // added per bus access
+};
+
+// How a run ended.
+enum class run_outcome { completed, crashed, aborted, check_failed, hung, failed };
+// "completed", "crashed", "aborted", "firmware-check-failed", "hung", "failed".
+const char* to_string(run_outcome o);
+
+// The report of a run that firmware ended badly.
+struct failure_report {
+    run_outcome outcome = run_outcome::failed;
+    std::string message;
+    time_ps at = 0;                          // the firmware's simulated time
+    std::vector<access_record> last_accesses;
+    std::vector<std::string> access_names;   // register name of each access ("fan_timer.limit")
+    std::vector<std::string> backtrace;      // crashes only
+    // A readable, multi-line rendering.
+    std::string text() const;
+};
+
+class platform {
+public:
+    platform();
+    ~platform();
+    platform(const platform&) = delete;
+    platform& operator=(const platform&) = delete;
+
+    // The clock tree, to fill before build().
+    sim::clock_tree& clocks() { return clocks_; }
+    void add_timer(timer_spec spec);
+    // The firmware and its processor. Without it the part runs on its own.
+    void set_firmware(const cpu_config& cfg, std::function<void()> entry);
+    void set_unmapped_policy(models::unmapped_policy p) { policy_ = p; }
+    // Something to flush and close before the process ends on a firmware failure.
+    void on_close(std::function<void()> f) { closers_.push_back(std::move(f)); }
+    // Wall seconds without any firmware call while in firmware code = hang (0: never).
+    void set_hang_wall_seconds(double s) { hang_wall_seconds_ = s; }
+    // Maps every peripheral window at its real address (no access rights) so unmodified driver code
+    // reaches the models through plain pointers (docs/firmware-api.md, "Unmodified drivers").
+    void set_map_peripherals(bool on) { map_peripherals_ = on; }
+
+    // Starts the clock tree and builds every module (SystemC elaboration). Throws on bad set-up.
+    void build();
+    // Runs the kernel until `duration`. On a firmware failure the report goes to stderr, every
+    // closer runs, and the process exits with code 3; `on_failure` (if set) sees the report first.
+    void run(time_ps duration);
+    void on_failure(std::function<void(const failure_report&)> f) { on_failure_ = std::move(f); }
+
+    models::timer_module& timer(const std::string& name);
+    std::vector<std::string> timer_names() const;
+    harness::cpu* cpu() { return cpu_.get(); }
+    interrupt_controller& interrupts() { return *irqs_; }
+    // "peripheral.register" for a bus address, or the address in hex.
+    std::string describe_address(std::uint64_t address) const;
+
+    // Ends the run on a firmware failure: report, closers, exit code 3. Never returns.
+    [[noreturn]] void fail(run_outcome outcome, const std::string& message,
+                           std::vector<std::string> backtrace = {});
+
+private:
+    struct timer_slot;
+    struct idle_initiator;
+    void start_watchdog();
+
+    sim::clock_tree clocks_;
+    std::vector<std::unique_ptr<timer_slot>> timers_;
+    std::optional<cpu_config> cpu_cfg_;
+    std::function<void()> entry_;
+    models::unmapped_policy policy_ = models::unmapped_policy::warn;
+    std::unique_ptr<interrupt_controller> irqs_;
+    std::unique_ptr<models::address_router> router_;
+    std::unique_ptr<harness::cpu> cpu_;
+    std::unique_ptr<idle_initiator> idle_;
+    std::vector<std::function<void()>> closers_;
+    std::function<void(const failure_report&)> on_failure_;
+    double hang_wall_seconds_ = 10;
+    struct watchdog;
+    std::unique_ptr<watchdog> watchdog_;
+    bool map_peripherals_ = false;
+    struct mapped;
+    std::unique_ptr<mapped> mapped_;
+    bool built_ = false;
+};
+
+}  // namespace harness

@@ -1,0 +1,22 @@
+#pragma once
+// The human summary: summary.txt, also printed by the command (DESIGN section 8).
+//
+// An aligned table, one row per check: verdict, name, kind, signal and the measured mean (or
+// count) with the number of values measured; under each failed row an indented line with the
+// failure sentence; then one totals line ("9 checks: 8 passed, 1 failed").
+
+#include "sim/checks/check_result.h"
+
+#include <string>
+#include <vector>
+
+namespace sim {
+
+// The summary text (ends with '\n').
+std::string summary_text(const std::vector<check_result>& results);
+// Writes summary_text() to `path`; throws output_error naming the file and the reason.
+void write_summary(const std::string& path, const std::vector<check_result>& results);
+// "25 kHz", "40 us", "25 %", "120 deg", "7 edges": a report-unit value for people.
+std::string measured_text(double value, const std::string& unit);
+
+}  // namespace sim

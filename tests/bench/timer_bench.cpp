@@ -1,0 +1,149 @@
+// Metrics of the timer models, each measured side by side in this run (issue: timer model).
+//
+// The workload is a 3-channel 25 kHz edge-aligned PWM (duties 25, 50, 75 %), the kind a motor or
+// fan controller runs. Every SystemC workload runs in a child process of its own (isolated_run.h).
+//
+// - fast_vs_reference_speedup: wall time of the tick-exact reference driven by an sc_clock (one
+//   method activation per kernel tick, the way timer models are usually written in SystemC) over
+//   the fast model in its module, both on 0.2 s simulated at a 48 MHz kernel clock.
+// - clock_independence_spread: the fast model's wall time for the same PWM at 1 MHz, 48 MHz and
+//   1 GHz kernel clocks; slowest over fastest.
+// - edges_per_second: output edges per wall second from the fast model in its module, no tracing.
+
+#include "models/reference/reference_timer_module.h"
+#include "models/timer/timer_module.h"
+#include "sim/clock_tree.h"
+#include "tests/bench/isolated_run.h"
+#include "tests/bench/metric.h"
+
+#include <systemc>
+
+#include <algorithm>
+#include <chrono>
+#include <vector>
+
+namespace {
+
+using models::timer_field;
+using clock_type = std::chrono::steady_clock;
+
+constexpr std::uint64_t pwm_hz = 25'000;
+
+double seconds_since(clock_type::time_point t0) {
+    return std::chrono::duration<double>(clock_type::now() - t0).count();
+}
+
+// Programs the 3-channel PWM through a timer_core_if at time 0.
+template <typename Write>
+void program_pwm(std::uint64_t kernel_hz, Write write) {
+    const std::uint32_t period = static_cast<std::uint32_t>(kernel_hz / pwm_hz);  // ticks per period
+    write(timer_field::period, 0, period - 1);
+    for (unsigned c = 0; c < 3; ++c) {
+        write(timer_field::compare, c, period * (c + 1) / 4);
+        write(timer_field::action, c, static_cast<std::uint32_t>(models::output_action::pwm_below));
+        write(timer_field::main_enable, c, 1);
+    }
+    write(timer_field::enable, 0, 1);
+}
+
+models::timer_config pwm_config() {
+    models::timer_config cfg;
+    cfg.counter_bits = 32;
+    cfg.channels = 3;
+    return cfg;
+}
+
+// Counts pin edges: the fast model's observer.
+struct edge_counter final : models::timer_observer {
+    std::uint64_t edges = 0;
+    void on_pin(unsigned, bool, sim::time_ps) override { ++edges; }
+    void on_flags_set(std::uint32_t, sim::time_ps) override {}
+    void on_irq(bool, sim::time_ps) override {}
+    void on_trigger(sim::time_ps) override {}
+};
+
+struct fast_result {
+    double seconds;
+    std::uint64_t edges;
+};
+
+// The fast model in its SystemC module, kernel clock `hz`, for `simulated` ps. Child process only.
+fast_result fast_pwm(std::uint64_t hz, sim::time_ps simulated) {
+    sim::clock_tree tree;
+    sim::crystal_params x;
+    x.nominal = sim::frequency::hz(hz);
+    tree.add_crystal("kernel", x);
+    models::timer_module timer("pwm", pwm_config(), tree, "kernel");
+    edge_counter counter;
+    timer.add_observer(&counter);
+    tree.start();
+    program_pwm(hz, [&](timer_field f, unsigned c, std::uint32_t v) { timer.write(f, c, v, 0); });
+    // The kernel's one-time initialisation is not the model's cost: start it before timing.
+    sc_core::sc_start(sc_core::SC_ZERO_TIME);
+    const auto t0 = clock_type::now();
+    sc_core::sc_start(sc_core::sc_time::from_value(simulated));
+    return {seconds_since(t0), counter.edges};
+}
+
+// The reference, one activation per edge of an sc_clock at `hz`. Child process only.
+double reference_pwm(std::uint64_t hz, sim::time_ps simulated) {
+    sim::clock_domain kernel(sim::frequency::hz(hz));
+    sc_core::sc_clock clk("clk", sc_core::sc_time::from_value(sim::ps_per_second / hz));
+    models::reference::reference_timer_module timer("reference", pwm_config(), kernel);
+    timer.clock(clk);
+    program_pwm(hz, [&](timer_field f, unsigned c, std::uint32_t v) { timer.core().write(f, c, v, 0); });
+    sc_core::sc_start(sc_core::SC_ZERO_TIME);
+    const auto t0 = clock_type::now();
+    sc_core::sc_start(sc_core::sc_time::from_value(simulated));
+    return seconds_since(t0);
+}
+
+double median(std::vector<double> v) {
+    std::sort(v.begin(), v.end());
+    return v[v.size() / 2];
+}
+
+double fast_vs_reference_speedup(bool quick) {
+    const sim::time_ps simulated = quick ? 2'000'000'000 : 200'000'000'000;  // 2 ms / 0.2 s
+    const double reference = bench::run_isolated([&] { return reference_pwm(48'000'000, simulated); });
+    std::vector<double> fast;
+    for (int i = 0; i < (quick ? 1 : 5); ++i)
+        fast.push_back(bench::run_isolated([&] { return fast_pwm(48'000'000, simulated).seconds; }));
+    return reference / median(fast);
+}
+
+double clock_independence_spread(bool quick) {
+    const sim::time_ps simulated = quick ? 20'000'000'000 : 1'000'000'000'000;  // 20 ms / 1 s
+    std::vector<double> times;
+    for (std::uint64_t hz : {1'000'000ULL, 48'000'000ULL, 1'000'000'000ULL}) {
+        std::vector<double> runs;
+        for (int i = 0; i < (quick ? 1 : 5); ++i)
+            runs.push_back(bench::run_isolated([&] { return fast_pwm(hz, simulated).seconds; }));
+        times.push_back(median(runs));
+    }
+    return *std::max_element(times.begin(), times.end()) / *std::min_element(times.begin(), times.end());
+}
+
+double edges_per_second(bool quick) {
+    const sim::time_ps simulated = quick ? 20'000'000'000 : 20'000'000'000'000;  // 20 ms / 20 s
+    std::vector<double> rates;
+    for (int i = 0; i < (quick ? 1 : 3); ++i)
+        rates.push_back(bench::run_isolated([&] {
+            const fast_result r = fast_pwm(48'000'000, simulated);
+            return static_cast<double>(r.edges) / r.seconds;
+        }));
+    return median(rates);
+}
+
+const bench::add_metric speedup{{"fast_vs_reference_speedup", "x",
+                                 "reference (per-tick, sc_clock) wall time / fast model wall time, "
+                                 "3-channel 25 kHz PWM at 48 MHz, 0.2 s simulated",
+                                 nullptr, 0, fast_vs_reference_speedup}};
+const bench::add_metric spread{{"clock_independence_spread", "x",
+                                "slowest / fastest wall time of the same PWM at 1 MHz, 48 MHz, 1 GHz",
+                                nullptr, 0, clock_independence_spread}};
+const bench::add_metric edges{{"edges_per_second", "edges/s",
+                               "output edges per wall second, fast model in its module, no tracing",
+                               nullptr, 0, edges_per_second}};
+
+}  // namespace
