@@ -102,6 +102,23 @@ struct platform::mapped {
     std::vector<mapped_region> regions;
 };
 
+void advance_in_order(const std::vector<models::timer_core_if*>& models, time_ps t) {
+    for (;;) {
+        models::timer_core_if* first = nullptr;
+        time_ps first_at = t;
+        for (models::timer_core_if* m : models) {
+            time_ps e;
+            if (m->next_event(e) && e <= first_at && (!first || e < first_at)) {
+                first = m;
+                first_at = e;
+            }
+        }
+        if (!first) break;
+        first->advance_to(first_at);
+    }
+    for (models::timer_core_if* m : models) m->advance_to(t);
+}
+
 platform::platform() = default;
 platform::~platform() = default;
 
@@ -129,6 +146,7 @@ void platform::build() {
         t.module = std::make_unique<models::timer_module>(t.spec.name.c_str(), cfg, clocks_, t.spec.clock);
         t.irq.irqs = irqs_.get();
         t.irq.line = static_cast<unsigned>(i);
+        for (models::timer_observer* o : t.spec.observers) t.module->add_observer(o);
         t.module->add_observer(&t.irq);
         t.registers = std::make_unique<models::register_file>(t.spec.layout, *t.module, cfg, t.spec.name,
                                                               policy_, t.spec.base);
@@ -218,6 +236,11 @@ void platform::run(time_ps duration) {
     start_watchdog();
     try {
         sc_core::sc_start(sc_core::sc_time::from_value(duration));
+        // Timers nobody watches through the kernel advance on demand: bring every one to the end,
+        // in time order across timers so that observers hear changes in order.
+        std::vector<models::timer_core_if*> cores;
+        for (auto& t : timers_) cores.push_back(t->module.get());
+        advance_in_order(cores, duration);
     } catch (const std::exception& e) {
         fail(run_outcome::failed, e.what());
     }

@@ -33,7 +33,14 @@ struct timer_spec {
     std::optional<std::uint32_t> counter_start;  // counter value at time 0 (edge-case set-up)
     bool running_at_start = false;     // counting from time 0, before firmware touches it
     sc_core::sc_time access_latency = sc_core::SC_ZERO_TIME;  // added per bus access
+    // Watchers of the timer's outputs (waveform and check probes), attached before the reset
+    // values are applied so they see every output change from time 0. They must outlive the run.
+    std::vector<models::timer_observer*> observers;
 };
+
+// Brings every model up to time t, always advancing the one whose next event is earliest, so that
+// what they report reaches shared observers (waveforms, checks) in time order.
+void advance_in_order(const std::vector<models::timer_core_if*>& models, time_ps t);
 
 // How a run ended.
 enum class run_outcome { completed, crashed, aborted, check_failed, hung, failed };

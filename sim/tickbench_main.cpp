@@ -2,4 +2,13 @@
 
 #include "sim/cli/commands.h"
 
-int main(int argc, char** argv) { return sim::cli::run(argc, argv); }
+#include <cstdlib>
+
+// libsystemc's own main() refers to sc_main; this program has its own main() and never calls it.
+extern "C" int sc_main(int, char*[]) { return 0; }
+
+int main(int argc, char** argv) {
+    // stdout carries only the command's output: no kernel banner.
+    setenv("SYSTEMC_DISABLE_COPYRIGHT_MESSAGE", "1", 1);
+    return sim::cli::run(argc, argv);
+}

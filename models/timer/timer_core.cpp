@@ -94,7 +94,8 @@ std::uint64_t timer_core::compute_next_interesting_tick() const {
     std::uint64_t n = fault_at_;
     for (unsigned i = 0; i < cfg_.channels; ++i)
         if (!ch_[i].pending.empty()) n = std::min(n, ch_[i].pending.front().tick);
-    for (unsigned i = 0; i < 2 * cfg_.channels; ++i) n = std::min(n, pins_[i].rise_at);
+    if (pending_rises_ != 0)
+        for (unsigned i = 0; i < 2 * cfg_.channels; ++i) n = std::min(n, pins_[i].rise_at);
     const std::uint64_t s = steps_to_next_interesting();
     if (s != never) n = std::min(n, tick_of_step(s));
     return n;
@@ -207,7 +208,14 @@ void timer_core::evaluate_levels() {
     }
 }
 
+std::uint32_t timer_core::ref_mask() const {
+    std::uint32_t m = 0;
+    for (unsigned i = 0; i < cfg_.channels; ++i) m |= static_cast<std::uint32_t>(ch_[i].ref) << i;
+    return m;
+}
+
 void timer_core::update_pins(std::uint64_t first_tick_after, time_ps at) {
+    pending_rises_ = 0;
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         const channel& c = ch_[i];
         pin_state& m = pins_[main_pin(i)];
@@ -230,6 +238,7 @@ void timer_core::update_pins(std::uint64_t first_tick_after, time_ps at) {
                         ps->rise_at = never;
                     }
                 }
+                pending_rises_ += ps->rise_at != never;
             }
         }
         const bool main_level = fault_active_ ? c.main_safe
@@ -275,6 +284,8 @@ void timer_core::activate_fault(time_ps at) {
 void timer_core::process_tick(std::uint64_t n, time_ps at) {
     ++ticks_processed_;
     invalidate();
+    const std::uint32_t refs_before = ref_mask();
+    const bool fault_before = fault_active_;
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         auto& q = ch_[i].pending;
         while (!q.empty() && q.front().tick <= n) {
@@ -314,7 +325,9 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
     }
     evaluate_levels();
     next_tick_ = n + 1;
-    update_pins(next_tick_, at);
+    // Pins can only change if a level, the fault state or a pending dead-time rise did.
+    if (pending_rises_ != 0 || fault_active_ != fault_before || ref_mask() != refs_before)
+        update_pins(next_tick_, at);
     update_irq(at);
 }
 

@@ -93,6 +93,8 @@ private:
     void load_shadows();
     bool pwm_level(const channel& c) const;
     void evaluate_levels();
+    // Reference levels of all channels as a bit mask (bit c: channel c).
+    std::uint32_t ref_mask() const;
     // Pin wants -> dead time -> pin levels; dead time counts from `first_tick_after`, the first
     // tick not yet processed.
     void update_pins(std::uint64_t first_tick_after, time_ps at);
@@ -136,6 +138,7 @@ private:
 
     std::array<pin_state, 2 * max_channels> pins_{};
     bool irq_ = false;
+    unsigned pending_rises_ = 0;  // pins with a dead-time rise scheduled
     mutable bool cache_valid_ = false;
     mutable std::uint64_t cached_tick_ = never;
     mutable std::optional<time_ps> cached_time_;

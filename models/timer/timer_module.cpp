@@ -23,6 +23,7 @@ timer_module::timer_module(const sc_core::sc_module_name& name, const timer_conf
         pins_.push_back(std::make_unique<sc_core::sc_signal<bool>>(n.c_str()));
         pins_.push_back(std::make_unique<sc_core::sc_signal<bool>>((n + "_complement").c_str()));
     }
+    driven_.assign(pins_.size(), false);
     tree_.subscribe(clock_node_, basename(), [this](sim::time_ps t) { clock_changed(t); });
     SC_HAS_PROCESS(timer_module);
     SC_METHOD(wake);
@@ -30,6 +31,7 @@ timer_module::timer_module(const sc_core::sc_module_name& name, const timer_conf
 }
 
 void timer_module::end_of_elaboration() {
+    needs_kernel_ = needs_kernel();
     if (fault_in.size() == 0) return;
     sc_core::sc_spawn_options o;
     o.spawn_method();
@@ -68,7 +70,15 @@ void timer_module::drive(time_ps now) {
     }
 }
 
+bool timer_module::needs_kernel() const {
+    if (irq_driven_ || trigger_requested_) return true;
+    for (bool d : driven_)
+        if (d) return true;
+    return false;
+}
+
 void timer_module::reschedule() {
+    if (!needs_kernel_) return;  // nobody watches through the kernel: advance on demand only
     const time_ps now = now_ps();
     time_ps next = sim::max_time_ps;
     time_ps core_next;
@@ -83,6 +93,8 @@ void timer_module::reschedule() {
 }
 
 void timer_module::on_pin(unsigned pin, bool level, time_ps at) {
+    for (timer_observer* o : observers_) o->on_pin(pin, level, at);
+    if (!driven_[pin]) return;
     // Reported at the kernel's own time (the common case): drive the signal now; reported ahead
     // of it (an access from firmware running ahead): drive it when the kernel gets there.
     // Signals have one writer, the wake process: from anywhere else, queue.
@@ -90,21 +102,21 @@ void timer_module::on_pin(unsigned pin, bool level, time_ps at) {
         pins_[pin]->write(level);
     else
         queue_.push_back({at, static_cast<int>(pin), level});
-    for (timer_observer* o : observers_) o->on_pin(pin, level, at);
 }
 void timer_module::on_flags_set(std::uint32_t bits, time_ps at) {
     for (timer_observer* o : observers_) o->on_flags_set(bits, at);
 }
 void timer_module::on_irq(bool level, time_ps at) {
+    for (timer_observer* o : observers_) o->on_irq(level, at);
+    if (!irq_driven_) return;
     if (in_wake_ && queue_.empty() && sc_core::sc_time_stamp().value() == at)
         irq_.write(level);
     else
         queue_.push_back({at, -1, level});
-    for (timer_observer* o : observers_) o->on_irq(level, at);
 }
 void timer_module::on_trigger(time_ps at) {
     ++triggers_;
-    trigger_times_.push_back(at);
+    if (trigger_requested_) trigger_times_.push_back(at);
     for (timer_observer* o : observers_) o->on_trigger(at);
 }
 

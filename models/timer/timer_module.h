@@ -7,6 +7,12 @@
 // the core at its exact time, and the module reschedules its wake-up. Accesses may come ahead of the
 // kernel's time (temporal decoupling); what the core reports for such times is queued and driven on
 // the signals when the kernel reaches them.
+//
+// The kernel wakes the module only for what needs kernel time: signals somebody asked for (pin(),
+// irq()) and the trigger event (trigger_event()). Otherwise the module costs the kernel nothing:
+// observers still hear every change with its exact time whenever the core is advanced (by a
+// register access, by the processor bringing its peripherals up to its time, or by advance_to()
+// at the end of a run).
 
 #include "models/timer/timer_core.h"
 #include "sim/clock_tree.h"
@@ -31,11 +37,27 @@ public:
     sc_core::sc_port<sc_core::sc_signal_in_if<bool>, 1, sc_core::SC_ZERO_OR_MORE_BOUND> fault_in;
 
     // Output pin p (see main_pin()/comp_pin()); named "<module>.channel<c>" and "...<c>_complement".
-    sc_core::sc_signal<bool>& pin(unsigned p) { return *pins_.at(p); }
+    // A pin's signal is driven from the moment it is first asked for here, so ask during
+    // elaboration. Pins nobody asks for cost no kernel work: their changes reach observers only
+    // (the lighter edge stream DESIGN section 4 allows).
+    sc_core::sc_signal<bool>& pin(unsigned p) {
+        driven_.at(p) = true;
+        return *pins_.at(p);
+    }
     unsigned pin_count() const { return static_cast<unsigned>(pins_.size()); }
-    sc_core::sc_signal<bool>& irq() { return irq_; }
-    // Notified at every trigger pulse.
-    const sc_core::sc_event& trigger_event() const { return trigger_; }
+    // The interrupt request line as a signal (driven once asked for, like the pins).
+    sc_core::sc_signal<bool>& irq() {
+        irq_driven_ = true;
+        return irq_;
+    }
+    // Notified at every trigger pulse (from the moment it is first asked for: ask during elaboration).
+    const sc_core::sc_event& trigger_event() {
+        trigger_requested_ = true;
+        return trigger_;
+    }
+    // True when the kernel must wake the module at the core's events (a signal or the trigger
+    // event is in use).
+    bool needs_kernel() const;
     std::uint64_t trigger_count() const { return triggers_; }
     // Extra observer (a checker, a recorder) told of everything the core reports, at report time.
     void add_observer(timer_observer* o) { observers_.push_back(o); }
@@ -71,6 +93,10 @@ private:
     std::string clock_node_;
     timer_core core_;
     std::vector<std::unique_ptr<sc_core::sc_signal<bool>>> pins_;
+    std::vector<bool> driven_;
+    bool irq_driven_ = false;
+    bool trigger_requested_ = false;
+    bool needs_kernel_ = true;  // settled at the end of elaboration
     sc_core::sc_signal<bool> irq_;
     sc_core::sc_event wake_;
     sc_core::sc_event trigger_;

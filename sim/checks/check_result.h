@@ -17,6 +17,9 @@ namespace sim {
 struct check_result {
     std::string name;
     check_kind kind = check_kind::period;
+    // The kind as reports spell it when it is not one of check_kind: "firmware" for a firmware's
+    // own checks (tick_check). Empty: to_string(kind).
+    std::string kind_name;
     // The signal ("pwm.channel1"), the pair ("a -> b", "a / b") or the condition text.
     std::string signal;
     // Unit of expected and measured values: "s", "Hz", "%", "deg", "edges", "occurrences".
@@ -45,6 +48,9 @@ struct check_result {
     // One sentence: the first failure and how many failed, or what passed, or why nothing could
     // be measured.
     std::string detail;
+
+    // The kind as reports write it: kind_name, else to_string(kind).
+    std::string kind_text() const { return kind_name.empty() ? to_string(kind) : kind_name; }
 };
 
 }  // namespace sim

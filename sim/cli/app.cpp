@@ -3,15 +3,19 @@
 
 #include "sim/cli/commands.h"
 
+#include "harness/firmware_library.h"
+#include "harness/run/log_setup.h"
 #include "sim/clock_tree.h"
+#include "sim/quantity.h"
 #include "sim/scenario_error.h"
+#include "sim/vcd_writer.h"
 
 #include <CLI/CLI.hpp>
-#include <spdlog/sinks/stdout_color_sinks.h>
 #include <spdlog/spdlog.h>
 
 #include <iostream>
 #include <sstream>
+#include <unistd.h>
 
 namespace sim::cli {
 
@@ -22,14 +26,6 @@ void report_error(const std::string& message) {
     std::istringstream lines(message);
     std::string line;
     while (std::getline(lines, line)) std::cerr << "tickbench: error: " << line << '\n';
-}
-
-// Logs go to stderr so that stdout carries only the command's output (JSON stays parseable).
-void set_up_logging(const std::string& level) {
-    auto logger = spdlog::stderr_color_mt("tickbench");
-    logger->set_pattern("tickbench: %l: %v");
-    spdlog::set_default_logger(logger);
-    spdlog::set_level(spdlog::level::from_str(level));
 }
 
 }  // namespace
@@ -44,14 +40,37 @@ int run(int argc, char** argv) {
     app.require_subcommand(1);
     app.fallthrough();  // --log-level may also follow the subcommand
 
-    clocks_options clocks;
-    CLI::App* clocks_cmd = app.add_subcommand("clocks", "Print the clock plan of the [clocks] tables in FILE");
-    clocks_cmd->add_option("FILE", clocks.file, "Scenario or part description (TOML)")->required();
-    clocks_cmd->add_flag("--json", clocks.json, "Print the plan as JSON instead of a table");
+    run_command_options run_opts;
+    CLI::App* run_cmd = app.add_subcommand("run", "Run SCENARIO against its firmware and write waves, checks and reports");
+    run_cmd->add_option("SCENARIO", run_opts.file, "Scenario file (TOML, docs/scenario.md)")->required();
+    run_cmd->add_option("--firmware", run_opts.firmware,
+                        "Firmware shared library, relative to the current folder (replaces [firmware] library)");
+    run_cmd->add_option("--out", run_opts.out_dir, "Folder for the outputs (created if missing)")->capture_default_str();
+    run_cmd->add_option("--duration", run_opts.duration, "Simulated time to run, e.g. \"10 ms\" (replaces [run] duration)");
+    run_cmd->add_option("--seed", run_opts.seed, "Seed of the run (replaces [run] seed)");
+    run_cmd->add_option("--start-offset", run_opts.start_offset,
+                        "CPU cycles after time 0 at which the firmware starts (replaces [cpu] start-offset)");
 
     std::string check_file;
-    CLI::App* check_cmd = app.add_subcommand("check", "Validate FILE and print its clock plan");
-    check_cmd->add_option("FILE", check_file, "Scenario or part description (TOML)")->required();
+    CLI::App* check_cmd =
+        app.add_subcommand("check", "Validate SCENARIO (tables, layouts, checks, firmware) without running it");
+    check_cmd->add_option("SCENARIO", check_file, "Scenario file (TOML)")->required();
+
+    clocks_options clocks;
+    CLI::App* clocks_cmd = app.add_subcommand("clocks", "Print the clock plan of the [clocks] tables in SCENARIO");
+    clocks_cmd->add_option("SCENARIO", clocks.file, "Scenario or part description (TOML)")->required();
+    clocks_cmd->add_flag("--json", clocks.json, "Print the plan as JSON instead of a table");
+
+    plan_options plan;
+    CLI::App* plan_cmd =
+        app.add_subcommand("plan", "List prescaler and period settings that reach a target frequency, best first");
+    plan_cmd->add_option("--clock", plan.clock, "The timer's kernel clock, e.g. \"48 MHz\"")->required();
+    plan_cmd->add_option("--target", plan.target, "The output frequency wanted, e.g. \"25 kHz\"")->required();
+    plan_cmd->add_option("--width", plan.width, "Counter width in bits (the prescaler has 16)")
+        ->check(CLI::Range(1u, 32u))
+        ->capture_default_str();
+    plan_cmd->add_flag("--center", plan.center, "Center-aligned counting (up and down)");
+    plan_cmd->add_option("--max", plan.max, "How many choices to list")->check(CLI::Range(1u, 10000u))->capture_default_str();
 
     try {
         app.parse(argc, argv);
@@ -63,17 +82,31 @@ int run(int argc, char** argv) {
     }
 
     try {
-        set_up_logging(log_level);
-        if (*clocks_cmd) return run_clocks(clocks, std::cout);
+        harness::run::set_up_logging(log_level);
+        if (*run_cmd) {
+            run_opts.progress = isatty(STDERR_FILENO) == 1;
+            return run_scenario_command(run_opts, std::cout);
+        }
         if (*check_cmd) return run_check(check_file, std::cout);
+        if (*clocks_cmd) return run_clocks(clocks, std::cout);
+        if (*plan_cmd) return run_plan(plan, std::cout);
     } catch (const scenario_error& e) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const clock_config_error& e) {
         report_error(e.what());
         return exit_bad_input;
+    } catch (const harness::firmware_load_error& e) {
+        report_error(e.what());
+        return exit_bad_input;
+    } catch (const quantity_error& e) {
+        report_error(e.what());
+        return exit_bad_input;
+    } catch (const output_error& e) {
+        report_error(e.what());
+        return exit_bad_input;
     } catch (const std::exception& e) {
-        report_error(std::string("internal error: ") + e.what());
+        report_error(std::string("internal error, a bug: please report it with the input: ") + e.what());
         return exit_internal;
     }
     return exit_internal;

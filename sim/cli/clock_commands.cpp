@@ -2,6 +2,7 @@
 
 #include "sim/cli/commands.h"
 
+#include "harness/run/scenario_runner.h"
 #include "sim/clock_plan.h"
 #include "sim/clock_tree.h"
 #include "sim/clock_tree_loader.h"
@@ -21,13 +22,7 @@ int run_clocks(const clocks_options& options, std::ostream& out) {
 }
 
 int run_check(const std::string& file, std::ostream& out) {
-    clock_tree tree;
-    load_clock_tree_file(file, tree);
-    // Building every timeline catches what only shows when edges are computed.
-    tree.start();
-    const std::vector<clock_plan_row> rows = tree.plan(0);
-    out << clock_plan_text(rows);
-    out << file << ": ok, " << rows.size() << " clocks\n";
+    harness::run::check_scenario(file, out);
     return exit_ok;
 }
 

@@ -3,6 +3,8 @@
 // plain function of its options and an output stream, so its behaviour does not depend on the
 // argument parser; cli/app.cpp maps the command line onto them and errors onto exit codes.
 
+#include <cstdint>
+#include <optional>
 #include <ostream>
 #include <string>
 
@@ -10,10 +12,15 @@ namespace sim::cli {
 
 // Exit codes of the command.
 inline constexpr int exit_ok = 0;
-// An unexpected failure inside tickbench (a bug): reported, never a verdict on the input.
-inline constexpr int exit_internal = 1;
-// Bad input: a usage error, an unreadable file, a scenario error or a clock rule violation.
+// `run`: at least one check (or firmware check) failed.
+inline constexpr int exit_check_failed = 1;
+// Bad input: a usage error, an unreadable file, a scenario, layout or clock rule error, a firmware
+// library that cannot be loaded, an output folder that cannot be written.
 inline constexpr int exit_bad_input = 2;
+// `run`: the firmware crashed, aborted, hung or failed one of its own checks (harness::platform).
+inline constexpr int exit_firmware_failed = 3;
+// An unexpected failure inside tickbench (a bug): reported, never a verdict on the input.
+inline constexpr int exit_internal = 4;
 
 struct clocks_options {
     std::string file;
@@ -24,9 +31,36 @@ struct clocks_options {
 // scenario_error (or clock_config_error) on bad input; returns the exit code otherwise.
 int run_clocks(const clocks_options& options, std::ostream& out);
 
-// `tickbench check`: validates FILE (the clock tree is built and its timelines started) and prints
-// the clock plan and a verdict line. Throws like run_clocks.
+// `tickbench check`: validates the whole scenario (tables, layouts, checks, clock timelines, the
+// firmware library) and prints the clock plan and a verdict line. Throws like run_clocks, and
+// harness::firmware_load_error.
 int run_check(const std::string& file, std::ostream& out);
+
+struct run_command_options {
+    std::string file;
+    std::string out_dir = "tickbench-out";
+    std::optional<std::string> firmware;
+    std::optional<std::string> duration;  // a time such as "10 ms"
+    std::optional<std::uint64_t> seed;
+    std::optional<std::uint64_t> start_offset;
+    bool progress = false;
+};
+
+// `tickbench run`: runs the scenario and writes its outputs; returns exit_ok or exit_check_failed.
+// A firmware failure ends the process with exit_firmware_failed. Throws on bad input.
+int run_scenario_command(const run_command_options& options, std::ostream& out);
+
+struct plan_options {
+    std::string clock;   // a frequency such as "48 MHz"
+    std::string target;  // a frequency
+    unsigned width = 16;
+    bool center = false;
+    unsigned max = 10;
+};
+
+// `tickbench plan`: prints the prescaler and period pairs that reach the target, best first.
+// Throws sim::quantity_error for an unreadable frequency.
+int run_plan(const plan_options& options, std::ostream& out);
 
 // The whole command line: parses argv, runs the command, reports errors on stderr prefixed
 // "tickbench: error: " and returns the exit code.

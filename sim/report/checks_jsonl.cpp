@@ -14,7 +14,7 @@ std::string checks_jsonl_text(const std::vector<check_result>& results) {
         nlohmann::ordered_json j;
         j["check"] = r.name;
         j["signal"] = r.signal;
-        j["kind"] = to_string(r.kind);
+        j["kind"] = r.kind_text();
         if (r.expected) {
             j["expected"] = *r.expected;
         } else if (r.expected_min || r.expected_max) {

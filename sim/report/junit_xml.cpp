@@ -69,10 +69,10 @@ std::string junit_xml_text(const std::vector<check_result>& results, const std::
     x += "  <testsuite name=\"" + xml_escape(suite) + "\"" + counts + " skipped=\"0\">\n";
     for (const check_result& r : results) {
         x += "    <testcase name=\"" + xml_escape(r.name) + "\" classname=\"tickbench." +
-             to_string(r.kind) + "\">\n";
+             r.kind_text() + "\">\n";
         if (!r.passed) {
             x += "      <failure message=\"" + xml_escape(r.detail) + "\" type=\"" +
-                 to_string(r.kind) + "\">" + xml_escape(measured_lines(r)) + "</failure>\n";
+                 r.kind_text() + "\">" + xml_escape(measured_lines(r)) + "</failure>\n";
         }
         x += "      <system-out>" + xml_escape(r.signal + ": " + r.detail) + "</system-out>\n";
         x += "    </testcase>\n";

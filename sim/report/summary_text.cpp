@@ -53,7 +53,7 @@ std::string summary_text(const std::vector<check_result>& results) {
             measured = std::to_string(r.count) + " " + r.unit;
         }
         rows.push_back(
-            {{r.passed ? "pass" : "FAIL", r.name, to_string(r.kind), r.signal, measured}, &r});
+            {{r.passed ? "pass" : "FAIL", r.name, r.kind_text(), r.signal, measured}, &r});
         failed += r.passed ? 0 : 1;
     }
     std::array<std::size_t, 5> width{};

@@ -1,0 +1,106 @@
+/* Fan controller: three 4-wire fans and a pump, on the demo part.
+ *
+ * The 16-bit timer "fans" drives three fan PWM outputs (channels 1-3, edge-aligned, 25 kHz) and a
+ * pump driver on channel 4 through a complementary pair with dead time. The 32-bit timer "tick"
+ * interrupts at 1 kHz; each tick the firmware moves fan 1's duty one step toward its target (a
+ * ramp, so the fan does not jump), and at the tick given by `quiet_at_ms` it switches every fan to
+ * the quiet-mode frequency of 22.5 kHz (a period change at run time). All duty and period updates
+ * go through preloaded registers, so they land at a reload event and never cut a period short.
+ *
+ * Parameters: fans_base, tick_base (register windows), ramp_from, ramp_to (fan 1 duty in %),
+ * quiet_at_ms.
+ */
+#include <tickbench/firmware.h>
+
+#include <stdint.h>
+#include <stdlib.h>
+
+/* Register offsets of the demo part's 16-bit timer (models/layouts/timer16_quad.toml). */
+#define FANS_LIMIT 0x02u
+#define FANS_SCALE 0x04u
+#define FANS_MATCH(c) (0x08u + 2u * (c))
+#define FANS_RUN 0x10u
+#define FANS_KICK 0x12u
+#define FANS_SHAPE_AB 0x14u
+#define FANS_SHAPE_CD 0x16u
+#define FANS_DEAD 0x18u
+/* run: enable (bit 0), period preload (bit 8). kick: force reload (bit 0). */
+#define RUN_ENABLE 0x0001u
+#define RUN_PERIOD_PRELOAD 0x0100u
+/* shape byte per channel: action (bits 0-2), compare preload (3), main enable (4), comp enable (6). */
+#define SHAPE_PWM_BELOW 0x6u
+#define SHAPE_PRELOAD 0x08u
+#define SHAPE_MAIN 0x10u
+#define SHAPE_COMP 0x40u
+
+/* Register offsets of the demo part's 32-bit timer (models/layouts/timer32_dual.toml). */
+#define TICK_SETUP 0x00u
+#define TICK_ALERTS 0x0cu
+#define TICK_TAKE 0x14u
+#define TICK_LIMIT 0x1cu
+
+#define FAN_CLOCK_HZ 72000000u
+#define NORMAL_HZ 25000u
+#define QUIET_HZ 22500u
+#define TICK_HZ 1000u
+#define DEAD_TIME_TICKS 72u /* 1 us at 72 MHz */
+
+static uint32_t fans, tick;
+static uint32_t period_ticks; /* counter values per PWM period */
+static uint32_t fan1_duty, fan1_target, quiet_at;
+static volatile uint32_t ticks;
+
+static uint32_t compare_for(uint32_t duty_percent) { return period_ticks * duty_percent / 100u; }
+
+static void set_frequency(uint32_t hz) {
+    period_ticks = FAN_CLOCK_HZ / hz;
+    tick_write16(fans + FANS_LIMIT, (uint16_t)(period_ticks - 1u));
+}
+
+static void set_duties(void) {
+    tick_write16(fans + FANS_MATCH(0), (uint16_t)compare_for(fan1_duty));
+    tick_write16(fans + FANS_MATCH(1), (uint16_t)compare_for(50));
+    tick_write16(fans + FANS_MATCH(2), (uint16_t)compare_for(75));
+    tick_write16(fans + FANS_MATCH(3), (uint16_t)compare_for(40)); /* pump */
+}
+
+static void on_tick(void) {
+    (void)tick_read32(tick + TICK_TAKE); /* reading clears the reload flag */
+    ticks = ticks + 1;
+    if (fan1_duty < fan1_target) fan1_duty++;
+    else if (fan1_duty > fan1_target) fan1_duty--;
+    if (ticks == quiet_at) set_frequency(QUIET_HZ);
+    set_duties();
+    tick_cycles(40); /* the rest of the control loop's work */
+}
+
+void tick_firmware_main(void) {
+    fans = (uint32_t)strtoul(tick_param("fans_base", "0x40001000"), NULL, 0);
+    tick = (uint32_t)strtoul(tick_param("tick_base", "0x40002000"), NULL, 0);
+    fan1_duty = (uint32_t)strtoul(tick_param("ramp_from", "30"), NULL, 0);
+    fan1_target = (uint32_t)strtoul(tick_param("ramp_to", "60"), NULL, 0);
+    quiet_at = (uint32_t)strtoul(tick_param("quiet_at_ms", "20"), NULL, 0);
+
+    /* Fans: preloaded period and compares, PWM on channels 1-3, a complementary pump pair. */
+    tick_write16(fans + FANS_SCALE, 0);
+    tick_write16(fans + FANS_RUN, RUN_PERIOD_PRELOAD);
+    set_frequency(NORMAL_HZ);
+    set_duties();
+    const uint16_t fan_shape = SHAPE_PWM_BELOW | SHAPE_PRELOAD | SHAPE_MAIN;
+    tick_write16(fans + FANS_SHAPE_AB, (uint16_t)(fan_shape | (fan_shape << 8)));
+    tick_write16(fans + FANS_SHAPE_CD, (uint16_t)(fan_shape | ((fan_shape | SHAPE_COMP) << 8)));
+    tick_write16(fans + FANS_DEAD, DEAD_TIME_TICKS);
+    tick_write8(fans + FANS_KICK, 1); /* load the shadows now */
+    tick_write16(fans + FANS_RUN, RUN_PERIOD_PRELOAD | RUN_ENABLE);
+
+    /* Tick: 1 kHz reload interrupt. */
+    const int line = tick_irq_line("tick");
+    TICK_ASSERT(line >= 0);
+    tick_irq_set_handler((unsigned)line, on_tick);
+    tick_write32(tick + TICK_LIMIT, FAN_CLOCK_HZ / TICK_HZ - 1u);
+    tick_write32(tick + TICK_ALERTS, 1);
+    tick_irq_line_enable((unsigned)line);
+    tick_write32(tick + TICK_SETUP, 1);
+
+    for (;;) tick_wait_for_interrupt();
+}

@@ -1,0 +1,798 @@
+// Reading a scenario file; see scenario.h and docs/scenario.md.
+//
+// The file is parsed once. [run] is read first because its seed is the default jitter seed of
+// the crystals; then the clock tree (sim::load_clocks), the timers (their layout files, clocks and
+// address windows), the cpu, the firmware, the waveform settings and the checks. Every reader
+// collects findings instead of stopping, so one run shows every mistake of the file; names that
+// refer to a part that failed to read (a timer whose layout is broken) are not reported again.
+
+#include "harness/run/scenario.h"
+
+#include "harness/run/detail/toml_reader.h"
+#include "models/layout/register_layout.h"
+#include "sim/checks/check_spec_text.h"
+#include "sim/checks/condition.h"
+#include "sim/clock_tree_loader_toml.h"
+#include "sim/quantity.h"
+#include "sim/vcd_writer.h"
+
+#include <algorithm>
+#include <cctype>
+#include <filesystem>
+#include <set>
+
+namespace harness::run {
+
+namespace {
+
+using detail::findings_list;
+using detail::got;
+using detail::hint;
+using detail::in_quotes;
+using detail::join;
+using detail::table_reader;
+namespace fs = std::filesystem;
+
+constexpr std::int64_t int64_max = std::numeric_limits<std::int64_t>::max();
+constexpr std::int64_t max_cycles = 1'000'000'000;
+const char* const stimulus_message =
+    "not supported yet (reserved for input stimulus, which a later version adds); remove this table";
+
+bool valid_name(const std::string& n) {
+    if (n.empty() || !std::isalpha(static_cast<unsigned char>(n[0]))) return false;
+    return std::all_of(n.begin(), n.end(), [](char c) {
+        return std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-';
+    });
+}
+
+std::string hex(std::uint64_t v) {
+    char b[24];
+    std::snprintf(b, sizeof b, "0x%08llx", static_cast<unsigned long long>(v));
+    return b;
+}
+
+// Everything the readers share.
+struct context {
+    findings_list& out;
+    const std::string& file;
+    fs::path dir;  // the scenario file's folder: relative paths start here
+    sim::clock_tree& tree;
+    bool clocks_ok = false;
+    scenario& s;
+    std::set<std::string> broken_timers;  // declared, but failed to read
+};
+
+// A path as written relative to the scenario file's folder.
+std::string resolve(const fs::path& dir, const std::string& p) {
+    const fs::path path(p);
+    if (path.is_absolute() || dir.empty()) return path.lexically_normal().string();
+    return (dir / path).lexically_normal().string();
+}
+
+// The table under `key` of `root`, or null with a finding when it is something else.
+const toml::table* sub_table(context& c, const toml::table& root, const std::string& key, const std::string& accepted) {
+    const toml::node* n = root.get(key);
+    if (!n) return nullptr;
+    if (!n->is_table()) {
+        c.out.add(n->source(), key, "expected a table [" + key + "], got " + got(*n) + "; accepted: " + accepted);
+        return nullptr;
+    }
+    return n->as_table();
+}
+
+// ---- [run] ---------------------------------------------------------------------------------
+
+void read_run(context& c, const toml::table& root) {
+    const toml::table* t = sub_table(c, root, "run", "duration, seed, resolution, unmapped");
+    if (!t) return;
+    table_reader r(c.out, *t, "run");
+    r.reject_unknown_keys({"duration", "seed", "resolution", "unmapped"}, "[run]");
+    c.s.run.duration = r.time("duration");
+    if (c.s.run.duration && *c.s.run.duration == 0) {
+        r.report("duration", "expected a time above 0 ps, got \"0\"; accepted: " + std::string(detail::time_words));
+        c.s.run.duration.reset();
+    }
+    if (auto seed = r.integer("seed", 0, int64_max)) c.s.run.seed = static_cast<std::uint64_t>(*seed);
+    if (const toml::node* res = r.get("resolution", false, "")) {
+        bool ok = false;
+        if (res->is_string()) {
+            try {
+                ok = sim::parse_time(res->as_string()->get()) == 1;
+            } catch (const sim::quantity_error&) {
+            }
+        }
+        if (!ok)
+            r.wrong(*res, "resolution",
+                    "\"1 ps\" (the only kernel time resolution supported for now: the models and the cpu "
+                    "compute exact picosecond times)");
+    }
+    if (auto u = r.choice("unmapped", {"ignore", "warn", "error"}))
+        c.s.run.unmapped = *models::unmapped_policy_from_string(*u);
+}
+
+// ---- [clocks] ------------------------------------------------------------------------------
+
+void read_clocks(context& c, const toml::table& root, std::uint64_t seed) {
+    // The run's seed is the default jitter seed of every crystal that names none.
+    toml::table copy = root;
+    if (toml::table* clocks = copy["clocks"].as_table()) {
+        for (auto&& [name, node] : *clocks) {
+            (void)name;
+            toml::table* t = node.as_table();
+            if (!t) continue;
+            const toml::node* kind = t->get("kind");
+            if (kind && kind->is_string() && kind->as_string()->get() == "crystal" && !t->get("seed"))
+                t->insert("seed", static_cast<std::int64_t>(seed & static_cast<std::uint64_t>(int64_max)));
+        }
+    }
+    try {
+        sim::load_clocks(copy, c.file, c.tree);
+        c.clocks_ok = true;
+    } catch (const sim::scenario_error& e) {
+        c.out.add_own(e.findings());
+    }
+}
+
+// The node names a timer or cpu may use, with a finding when `name` is not one.
+bool known_clock(context& c, table_reader& r, const std::string& key, const std::string& name) {
+    if (!c.clocks_ok) return false;  // the clock tree's own findings say what is wrong
+    if (c.tree.has_node(name)) return true;
+    const auto names = c.tree.node_names();
+    r.report(key, "unknown clock " + in_quotes(name) + hint(name, names) + "; accepted: one of " + join(names));
+    return false;
+}
+
+// ---- [timers.NAME] -------------------------------------------------------------------------
+
+const std::vector<std::string> timer_keys = {"layout",  "clock",           "base",          "interrupt-priority",
+                                             "interrupt-delay", "counter-start", "running-at-start",
+                                             "access-latency"};
+
+void read_timers(context& c, const toml::table& root) {
+    const toml::table* timers = sub_table(c, root, "timers", "one table [timers.NAME] per timer");
+    if (!timers) return;
+    std::vector<const toml::table*> windows;  // parallel to c.s.timers
+    std::vector<std::pair<const toml::key*, const toml::node*>> entries;
+    for (auto&& [k, v] : *timers) entries.emplace_back(&k, &v);
+    std::stable_sort(entries.begin(), entries.end(), [](const auto& a, const auto& b) {
+        return a.second->source().begin < b.second->source().begin;
+    });
+    for (const auto& [k, v] : entries) {
+        const std::string name(k->str());
+        const std::string path = "timers." + name;
+        if (!valid_name(name)) {
+            c.out.add(k->source(), "timers.\"" + name + "\"",
+                      "timer name " + in_quotes(name) +
+                          " is not accepted; accepted: a letter followed by letters, digits, \"_\" or \"-\"");
+            c.broken_timers.insert(name);
+            continue;
+        }
+        if (!v->is_table()) {
+            c.out.add(v->source(), path, "expected a table [" + path + "] describing a timer, got " + got(*v));
+            c.broken_timers.insert(name);
+            continue;
+        }
+        const toml::table& t = *v->as_table();
+        table_reader r(c.out, t, path);
+        r.reject_unknown_keys(timer_keys, "a timer table");
+        timer_spec spec;
+        spec.name = name;
+        bool ok = true;
+        if (auto layout = r.string("layout", true, "the path of a register layout file, relative to the scenario file")) {
+            const std::string p = resolve(c.dir, *layout);
+            std::error_code ec;
+            if (!fs::is_regular_file(p, ec)) {
+                r.report("layout", "no layout file " + in_quotes(*layout) + " (looked for " + p +
+                                       "); accepted: the path of a register layout file "
+                                       "(docs/register-layouts.md), relative to the scenario file");
+                ok = false;
+            } else {
+                try {
+                    spec.layout = models::load_register_layout_file(p);
+                    if (spec.layout.kind != "timer") {
+                        r.report("layout", "layout " + in_quotes(*layout) + " describes a " +
+                                               in_quotes(spec.layout.kind) + " peripheral; accepted: a timer layout");
+                        ok = false;
+                    }
+                } catch (const sim::scenario_error& e) {
+                    r.report("layout", "layout file " + in_quotes(*layout) + " has mistakes (listed after this file's)");
+                    c.out.add_foreign(e.findings());
+                    ok = false;
+                }
+            }
+        } else {
+            ok = false;
+        }
+        if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
+            spec.clock = *clock;
+            if (!known_clock(c, r, "clock", *clock)) ok = false;
+        } else {
+            ok = false;
+        }
+        if (auto base = r.integer("base", 0, 0xffff'ffffLL, true)) spec.base = static_cast<std::uint64_t>(*base);
+        else ok = false;
+        if (auto p = r.integer("interrupt-priority", 0, 255)) spec.irq_priority = static_cast<unsigned>(*p);
+        else if (r.has("interrupt-priority")) ok = false;
+        if (auto d = r.time("interrupt-delay")) spec.irq_extra_delay = *d;
+        else if (r.has("interrupt-delay")) ok = false;
+        if (auto v2 = r.integer("counter-start", 0, 0xffff'ffffLL)) {
+            spec.counter_start = static_cast<std::uint32_t>(*v2);
+            if (ok && *spec.counter_start > spec.layout.instance.counter_max()) {
+                r.report("counter-start", "counter start " + std::to_string(*v2) + " does not fit the " +
+                                              std::to_string(spec.layout.instance.counter_bits) +
+                                              "-bit counter; accepted: 0 to " +
+                                              std::to_string(spec.layout.instance.counter_max()));
+                ok = false;
+            }
+        } else if (r.has("counter-start")) {
+            ok = false;
+        }
+        if (auto b = r.boolean("running-at-start")) spec.running_at_start = *b;
+        else if (r.has("running-at-start")) ok = false;
+        if (auto l = r.time("access-latency")) spec.access_latency = sc_core::sc_time::from_value(*l);
+        else if (r.has("access-latency")) ok = false;
+        if (ok && spec.base + spec.layout.size > 0x1'0000'0000ULL) {
+            r.report("base", "the window " + hex(spec.base) + " + " + hex(spec.layout.size) +
+                                 " runs past the 32-bit address space; accepted: a base at most " +
+                                 hex(0x1'0000'0000ULL - spec.layout.size));
+            ok = false;
+        }
+        if (!ok) {
+            c.broken_timers.insert(name);
+            continue;
+        }
+        c.s.timers.push_back(std::move(spec));
+        windows.push_back(&t);
+    }
+    // Address windows must not overlap: each overlap is reported at the later table.
+    for (std::size_t i = 0; i < c.s.timers.size(); ++i)
+        for (std::size_t j = 0; j < i; ++j) {
+            const timer_spec& a = c.s.timers[j];
+            const timer_spec& b = c.s.timers[i];
+            if (b.base < a.base + a.layout.size && a.base < b.base + b.layout.size) {
+                table_reader r(c.out, *windows[i], "timers." + b.name);
+                r.report("base", "the window " + hex(b.base) + ".." + hex(b.base + b.layout.size - 1) +
+                                     " overlaps timers." + a.name + " (" + hex(a.base) + ".." +
+                                     hex(a.base + a.layout.size - 1) +
+                                     "); accepted: a base whose window overlaps no other timer's");
+            }
+        }
+}
+
+// ---- [cpu] ---------------------------------------------------------------------------------
+
+void read_cpu(context& c, const toml::table& root) {
+    const toml::table* t = sub_table(c, root, "cpu", "the cpu's clock and costs");
+    if (!t) return;
+    table_reader r(c.out, *t, "cpu");
+    r.reject_unknown_keys({"clock", "access-cycles", "interrupt-entry-cycles", "interrupt-exit-cycles", "quantum",
+                           "start-offset", "hang-accesses", "hang-wall-time"},
+                          "[cpu]");
+    cpu_config cfg;
+    if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
+        cfg.clock = *clock;
+        known_clock(c, r, "clock", *clock);
+    }
+    if (auto v = r.integer("access-cycles", 0, max_cycles)) cfg.access_cycles = static_cast<unsigned>(*v);
+    if (auto v = r.integer("interrupt-entry-cycles", 0, max_cycles)) cfg.irq_entry_cycles = static_cast<unsigned>(*v);
+    if (auto v = r.integer("interrupt-exit-cycles", 0, max_cycles)) cfg.irq_exit_cycles = static_cast<unsigned>(*v);
+    if (auto q = r.time("quantum")) {
+        if (*q == 0) r.report("quantum", "expected a time above 0 ps, got \"0\"");
+        else cfg.quantum = *q;
+    }
+    if (auto v = r.integer("start-offset", 0, int64_max)) cfg.start_offset_cycles = static_cast<std::uint64_t>(*v);
+    if (auto v = r.integer("hang-accesses", 1, int64_max)) cfg.hang_accesses = static_cast<std::uint64_t>(*v);
+    if (auto w = r.time("hang-wall-time"))
+        c.s.run.hang_wall_seconds = static_cast<double>(*w) / static_cast<double>(sim::ps_per_second);
+    c.s.cpu = cfg;
+}
+
+// ---- [firmware] ----------------------------------------------------------------------------
+
+void read_firmware(context& c, const toml::table& root, const scenario_overrides& ov) {
+    const toml::table* t = sub_table(c, root, "firmware", "library, entry, map-peripherals, [firmware.parameters]");
+    if (!t && !ov.firmware) return;
+    firmware_settings fw;
+    if (t) {
+        table_reader r(c.out, *t, "firmware");
+        r.reject_unknown_keys({"library", "entry", "map-peripherals", "parameters"}, "[firmware]");
+        if (auto lib = r.string("library", !ov.firmware,
+                                "the path of the firmware's shared library, relative to the scenario file"))
+            fw.library = resolve(c.dir, *lib);
+        if (auto e = r.string("entry", false, "the name of a C function `void NAME(void)`")) fw.entry = *e;
+        if (auto m = r.boolean("map-peripherals")) fw.map_peripherals = *m;
+        if (const toml::node* p = t->get("parameters")) {
+            if (!p->is_table()) {
+                r.wrong(*p, "parameters", "a table [firmware.parameters] of names and string or integer values");
+            } else {
+                for (auto&& [k, v] : *p->as_table()) {
+                    const std::string key = "firmware.parameters." + std::string(k.str());
+                    if (v.is_string()) fw.parameters[std::string(k.str())] = v.as_string()->get();
+                    else if (v.is_integer()) fw.parameters[std::string(k.str())] = std::to_string(v.as_integer()->get());
+                    else if (v.is_boolean()) fw.parameters[std::string(k.str())] = v.as_boolean()->get() ? "true" : "false";
+                    else c.out.add(v.source(), key, "expected a string, a whole number or true/false, got " + got(v));
+                }
+            }
+        }
+    }
+    if (ov.firmware) fw.library = *ov.firmware;
+    if (!c.s.cpu)
+        c.out.add(t ? t->source() : root.source(), "firmware",
+                  "firmware needs a processor: add a table [cpu] with at least `clock`");
+    c.s.firmware = fw;
+}
+
+// ---- [waves] -------------------------------------------------------------------------------
+
+void read_waves(context& c, const toml::table& root, const std::vector<std::string>& signals) {
+    const toml::table* t = sub_table(c, root, "waves", "signals, timescale, enabled");
+    if (!t) {
+        c.s.waves.signals = signals;
+        return;
+    }
+    table_reader r(c.out, *t, "waves");
+    r.reject_unknown_keys({"signals", "timescale", "enabled"}, "[waves]");
+    if (auto e = r.boolean("enabled")) c.s.waves.enabled = *e;
+    if (const toml::node* ts = r.get("timescale", false, "")) {
+        bool ok = false;
+        if (ts->is_string()) {
+            try {
+                const std::uint64_t unit = sim::parse_time(ts->as_string()->get());
+                sim::vcd_writer::timescale_text(unit);  // throws for a unit VCD cannot name
+                c.s.waves.unit_ps = unit;
+                c.s.waves.unit_given = true;
+                ok = true;
+            } catch (const std::exception&) {
+            }
+        }
+        if (!ok)
+            r.wrong(*ts, "timescale",
+                    "1, 10 or 100 of ps, ns, us, ms or s (\"1 ps\", \"10 ns\", \"1 us\"); edges between units are "
+                    "rounded to the nearest one");
+    }
+    const toml::node* n = t->get("signals");
+    if (!n) {
+        c.s.waves.signals = signals;
+        return;
+    }
+    const std::string expected = "a list of signal names such as [\"fan.channel1\", \"tick.*\"]";
+    const toml::array* a = n->as_array();
+    if (!a) {
+        r.wrong(*n, "signals", expected);
+        return;
+    }
+    std::vector<bool> chosen(signals.size(), false);
+    for (std::size_t i = 0; i < a->size(); ++i) {
+        const toml::node& e = *a->get(i);
+        const std::string key = "signals[" + std::to_string(i) + "]";
+        if (!e.is_string()) {
+            r.wrong(e, key, "a signal name such as \"fan.channel1\", or \"fan.*\" for all of a timer's");
+            continue;
+        }
+        const std::string pattern = e.as_string()->get();
+        bool matched = false;
+        const bool all_of_timer = pattern.size() > 2 && pattern.compare(pattern.size() - 2, 2, ".*") == 0;
+        const std::string scope = all_of_timer ? pattern.substr(0, pattern.size() - 2) : "";
+        for (std::size_t s = 0; s < signals.size(); ++s) {
+            const bool hit = all_of_timer ? signals[s].compare(0, scope.size() + 1, scope + ".") == 0
+                                          : signals[s] == pattern;
+            if (hit) chosen[s] = matched = true;
+        }
+        const std::string owner = pattern.substr(0, pattern.find('.'));
+        if (!matched && !c.broken_timers.count(owner)) {
+            std::vector<std::string> accepted = signals;
+            for (const timer_spec& ts : c.s.timers) accepted.push_back(ts.name + ".*");
+            c.out.add(e.source(), "waves." + key,
+                      "no signal " + in_quotes(pattern) + hint(pattern, accepted) + "; accepted: " +
+                          (signals.empty() ? std::string("none (the scenario has no timers)") : join(accepted)));
+        }
+    }
+    for (std::size_t s = 0; s < signals.size(); ++s)
+        if (chosen[s]) c.s.waves.signals.push_back(signals[s]);
+}
+
+// The coarsest timescale that keeps every edge of the clocks the part uses exact: their periods
+// at the start, and every configured delay, must be whole multiples of it. Anything unknown in
+// advance (jitter, a fractional period) gives 1 ps.
+void choose_timescale(context& c, const toml::table& root) {
+    if (c.s.waves.unit_given || !c.clocks_ok) return;
+    std::vector<sim::time_ps> times;
+    std::set<std::string> used;
+    for (const timer_spec& t : c.s.timers) {
+        used.insert(t.clock);
+        times.push_back(t.irq_extra_delay);
+        times.push_back(static_cast<sim::time_ps>(t.access_latency.value()));
+    }
+    if (c.s.cpu && c.s.firmware) used.insert(c.s.cpu->clock);
+    if (const toml::table* clocks = root["clocks"].as_table()) {
+        for (auto&& [k, v] : *clocks) {
+            (void)k;
+            const toml::table* t = v.as_table();
+            if (!t) continue;
+            for (const char* key : {"jitter", "lock-time"}) {
+                const toml::node* n = t->get(key);
+                if (!n || !n->is_string()) continue;
+                const sim::time_ps ps = sim::parse_time(n->as_string()->get());
+                if (std::string(key) == "jitter" && ps != 0) return;  // edges anywhere: 1 ps
+                times.push_back(ps);
+            }
+        }
+    }
+    for (const sim::clock_plan_row& row : c.tree.plan(0)) {
+        if (!used.count(row.name) || row.freq.is_zero()) continue;
+        // Period in ps = 10^12 * den / num; it must be whole.
+        const sim::u128 scaled = sim::u128{sim::ps_per_second} * row.freq.den();
+        if (scaled % row.freq.num() != 0) return;
+        times.push_back(static_cast<sim::time_ps>(scaled / row.freq.num()));
+    }
+    if (times.empty()) return;
+    // No coarser than 1 us: finer edges of firmware activity stay readable.
+    c.s.waves.unit_ps = sim::vcd_writer::coarsest_exact_unit(times, 1'000'000);
+}
+
+// ---- [[checks]] ----------------------------------------------------------------------------
+
+const std::vector<std::string> check_keys = {"name",    "kind",      "signal",    "signals",       "expected",
+                                             "minimum", "maximum",   "tolerance", "from",          "until",
+                                             "settle",  "edge",      "response-edge", "pulse",     "condition"};
+
+bool single_signal(sim::check_kind k) {
+    return k != sim::check_kind::phase && k != sim::check_kind::latency && k != sim::check_kind::dead_time &&
+           k != sim::check_kind::never;
+}
+
+bool is_angle(const std::string& s) {
+    const auto t = s.find_last_not_of(' ');
+    if (t == std::string::npos) return false;
+    const std::string u = s.substr(0, t + 1);
+    return (u.size() >= 3 && u.compare(u.size() - 3, 3, "deg") == 0) || u.back() == '%';
+}
+
+// The value of expected/minimum/maximum in the kind's unit.
+std::optional<std::uint64_t> check_value(table_reader& r, const std::string& key, const sim::check_spec& spec) {
+    const toml::node* n = r.table().get(key);
+    if (!n) return std::nullopt;
+    std::string expected;
+    try {
+        switch (spec.kind) {
+            case sim::check_kind::edge_count:
+                expected = "a whole number of edges";
+                if (const auto* i = n->as_integer(); i && i->get() >= 0) return static_cast<std::uint64_t>(i->get());
+                break;
+            case sim::check_kind::duty_cycle:
+                expected = "a duty cycle such as \"25 %\"";
+                if (n->is_string()) return sim::parse_duty(n->as_string()->get());
+                break;
+            case sim::check_kind::phase:
+                expected = "a time such as \"2 us\" or an angle such as \"120 deg\" or \"25 %\"";
+                if (n->is_string()) {
+                    const std::string text = n->as_string()->get();
+                    return spec.phase_as_angle ? sim::parse_angle(text) : sim::parse_time(text);
+                }
+                break;
+            case sim::check_kind::never:
+                expected = "nothing (a never check has only a condition)";
+                break;
+            default:
+                expected = detail::time_words;
+                if (n->is_string()) return sim::parse_time(n->as_string()->get());
+                break;
+        }
+    } catch (const sim::quantity_error& e) {
+        r.report(key, std::string(e.what()) + "; accepted: " + expected);
+        return std::nullopt;
+    }
+    r.wrong(*n, key, expected);
+    return std::nullopt;
+}
+
+// The timer clock behind a signal "timer.xxx", if the timer is known.
+std::optional<std::string> clock_of_signal(const scenario& s, const std::string& signal) {
+    const std::string timer = signal.substr(0, signal.find('.'));
+    for (const timer_spec& t : s.timers)
+        if (t.name == timer) return t.clock;
+    return std::nullopt;
+}
+
+void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
+    const toml::node* n = r.table().get("tolerance");
+    if (!n) return;
+    std::string text;
+    if (n->is_integer() && spec.kind == sim::check_kind::edge_count && n->as_integer()->get() >= 0) {
+        spec.tol = sim::tolerance::absolute_units(static_cast<std::uint64_t>(n->as_integer()->get()));
+        return;
+    }
+    const std::string accepted =
+        "a tolerance such as \"100 ppm\", \"1 %\", \"20 ns\", \"2 Hz\" (frequency), \"2 deg\" (angles), \"3 ticks\" "
+        "or \"3 ticks of CLOCK\"";
+    if (!n->is_string()) {
+        r.wrong(*n, "tolerance", accepted);
+        return;
+    }
+    text = n->as_string()->get();
+    std::string clock;
+    const auto of = text.find(" of ");
+    std::string amount = text;
+    if (of != std::string::npos) {
+        clock = text.substr(of + 4);
+        clock.erase(0, clock.find_first_not_of(' '));
+        clock.erase(clock.find_last_not_of(' ') + 1);
+        amount = text.substr(0, of);
+    }
+    try {
+        sim::tolerance tol = sim::parse_tolerance(amount, spec);
+        if (tol.kind != sim::tolerance_kind::ticks) {
+            if (!clock.empty()) {
+                r.report("tolerance", "tolerance " + in_quotes(text) + ": \"of CLOCK\" goes with ticks; accepted: " + accepted);
+                return;
+            }
+            spec.tol = tol;
+            return;
+        }
+        if (clock.empty()) {
+            const auto sig = spec.signals.empty() ? std::optional<std::string>{} : clock_of_signal(c.s, spec.signals[0]);
+            if (!sig) {
+                r.report("tolerance", "tolerance " + in_quotes(text) +
+                                          ": say whose ticks; accepted: \"N ticks of CLOCK\" with a clock of [clocks]");
+                return;
+            }
+            clock = *sig;
+        }
+        if (!c.clocks_ok) return;
+        if (!c.tree.has_node(clock)) {
+            const auto names = c.tree.node_names();
+            r.report("tolerance", "tolerance " + in_quotes(text) + ": unknown clock " + in_quotes(clock) +
+                                      hint(clock, names) + "; accepted: one of " + join(names));
+            return;
+        }
+        for (const sim::clock_plan_row& row : c.tree.plan(0)) {
+            if (row.name != clock) continue;
+            if (row.freq.is_zero()) {
+                r.report("tolerance", "tolerance " + in_quotes(text) + ": clock " + in_quotes(clock) +
+                                          " is stopped at the start; accepted: ticks of a running clock");
+                return;
+            }
+            spec.tol = sim::tolerance::ticks_of(tol.amount, clock, row.freq);
+        }
+    } catch (const sim::quantity_error& e) {
+        r.report("tolerance", std::string(e.what()) + "; accepted: " + accepted);
+    }
+}
+
+// Reports a signal name that no timer declares (unless its timer failed to read).
+void check_signal_name(context& c, const toml::node& where, const std::string& key, const std::string& name,
+                       const std::vector<std::string>& signals) {
+    if (std::find(signals.begin(), signals.end(), name) != signals.end()) return;
+    if (c.broken_timers.count(name.substr(0, name.find('.')))) return;
+    c.out.add(where.source(), key,
+              "unknown signal " + in_quotes(name) + hint(name, signals) + "; accepted: " +
+                  (signals.empty() ? std::string("none (the scenario has no timers)") : join(signals)));
+}
+
+void read_check(context& c, const toml::table& t, const std::string& path, const std::vector<std::string>& signals,
+                std::set<std::string>& names) {
+    table_reader r(c.out, t, path);
+    r.reject_unknown_keys(check_keys, "a check");
+    sim::check_spec spec;
+    bool ok = true;
+    std::vector<std::string> kinds;
+    for (auto k : {sim::check_kind::frequency, sim::check_kind::period, sim::check_kind::duty_cycle,
+                   sim::check_kind::pulse_width, sim::check_kind::edge_count, sim::check_kind::phase,
+                   sim::check_kind::dead_time, sim::check_kind::latency, sim::check_kind::never})
+        kinds.push_back(sim::to_string(k));
+    if (auto name = r.string("name", true, "a name for the check, unique in the file")) {
+        spec.name = *name;
+        if (!names.insert(*name).second) {
+            r.report("name", "a second check named " + in_quotes(*name) + "; accepted: a name no other check has");
+            ok = false;
+        }
+    } else {
+        ok = false;
+    }
+    const auto kind_text = r.choice("kind", kinds);
+    if (!kind_text) {
+        if (!r.has("kind")) r.get("kind", true, "one of " + join(kinds));
+        return;
+    }
+    spec.kind = *sim::check_kind_from_string(*kind_text);
+
+    // Signals.
+    if (spec.kind == sim::check_kind::never) {
+        if (r.has("signal") || r.has("signals"))
+            r.report(r.has("signal") ? "signal" : "signals",
+                     "a never check takes its signals from its condition; accepted: condition only");
+        if (auto cond = r.string("condition", true, "a condition such as \"bridge.channel1 and bridge.channel1_complement\"")) {
+            spec.condition = *cond;
+            try {
+                const sim::condition parsed = sim::condition::parse(*cond);
+                for (const std::string& s : parsed.signals())
+                    check_signal_name(c, *t.get("condition"), path + ".condition", s, signals);
+            } catch (const sim::condition_error&) {
+                // validate() reports it with the column.
+            }
+        } else {
+            ok = false;
+        }
+    } else if (single_signal(spec.kind)) {
+        if (r.has("signals")) {
+            r.report("signals", "a " + *kind_text + " check watches one signal; accepted: signal = \"TIMER.SIGNAL\"");
+            ok = false;
+        } else if (auto s = r.string("signal", true, "a signal name such as \"fan.channel1\"")) {
+            spec.signals.push_back(*s);
+            check_signal_name(c, *t.get("signal"), path + ".signal", *s, signals);
+        } else {
+            ok = false;
+        }
+    } else {
+        const std::string expected = spec.kind == sim::check_kind::latency
+                                         ? "two signal names [event, response]"
+                                         : spec.kind == sim::check_kind::dead_time
+                                               ? "two signal names [output, complementary output]"
+                                               : "two signal names [A, B]";
+        if (r.has("signal")) {
+            r.report("signal", "a " + *kind_text + " check watches two signals; accepted: signals = " + expected);
+            ok = false;
+        } else if (const toml::node* n = r.get("signals", true, expected)) {
+            const toml::array* a = n->as_array();
+            if (!a || a->size() != 2 || !a->get(0)->is_string() || !a->get(1)->is_string()) {
+                r.wrong(*n, "signals", expected);
+                ok = false;
+            } else {
+                for (std::size_t i = 0; i < 2; ++i) {
+                    spec.signals.push_back(a->get(i)->as_string()->get());
+                    check_signal_name(c, *a->get(i), path + ".signals[" + std::to_string(i) + "]", spec.signals.back(),
+                                      signals);
+                }
+            }
+        } else {
+            ok = false;
+        }
+    }
+
+    // Edges and pulses.
+    if (auto e = r.choice("edge", {"rising", "falling", "both"})) spec.edge = *sim::edge_select_from_string(*e);
+    if (auto e = r.choice("response-edge", {"rising", "falling", "both"}))
+        spec.response_edge = *sim::edge_select_from_string(*e);
+    if (auto p = r.choice("pulse", {"high", "low"})) {
+        if (spec.kind != sim::check_kind::pulse_width) r.report("pulse", "only pulse_width checks take `pulse`");
+        spec.high_pulses = *p == "high";
+    }
+    if (r.has("response-edge") && spec.kind != sim::check_kind::phase && spec.kind != sim::check_kind::latency)
+        r.report("response-edge", "only phase and latency checks take `response-edge`");
+
+    // Values.
+    if (spec.kind == sim::check_kind::phase) {
+        std::optional<bool> angle;
+        for (const char* key : {"expected", "minimum", "maximum"}) {
+            const toml::node* n = t.get(key);
+            if (!n || !n->is_string()) continue;
+            const bool a = is_angle(n->as_string()->get());
+            if (angle && *angle != a) {
+                r.report(key, "mixes times and angles; accepted: all values of a phase check as times, or all as angles");
+                ok = false;
+            }
+            angle = a;
+        }
+        spec.phase_as_angle = angle.value_or(false);
+    }
+    if (spec.kind == sim::check_kind::frequency) {
+        for (const char* key : {"minimum", "maximum"})
+            if (r.has(key)) {
+                r.report(key, "a frequency check takes `expected` and `tolerance`; for bounds use a period check");
+                ok = false;
+            }
+        if (const toml::node* n = r.get("expected", true, detail::frequency_words)) {
+            try {
+                if (const auto* i = n->as_integer(); i && i->get() > 0)
+                    spec.expected_frequency = sim::frequency::hz(static_cast<std::uint64_t>(i->get()));
+                else if (n->is_string())
+                    spec.expected_frequency = sim::parse_frequency(n->as_string()->get());
+                else
+                    r.wrong(*n, "expected", detail::frequency_words);
+            } catch (const sim::quantity_error& e) {
+                r.report("expected", std::string(e.what()) + "; accepted: " + detail::frequency_words);
+            }
+            if (!spec.expected_frequency) ok = false;
+        } else {
+            ok = false;
+        }
+    } else {
+        for (const char* key : {"expected", "minimum", "maximum"}) {
+            auto v = check_value(r, key, spec);
+            if (!v && r.has(key)) ok = false;
+            if (std::string(key) == "expected") spec.expected = v;
+            else if (std::string(key) == "minimum") spec.minimum = v;
+            else spec.maximum = v;
+        }
+    }
+    read_tolerance(c, r, spec);
+    if (auto f = r.time("from")) spec.from = *f;
+    else if (r.has("from")) ok = false;
+    if (auto u = r.time("until")) spec.until = *u;
+    else if (r.has("until")) ok = false;
+    if (auto s = r.time("settle")) spec.settle = *s;
+    else if (r.has("settle")) ok = false;
+    if (!ok) return;
+
+    // The spec's own rules, each pointed at the key it concerns.
+    for (const sim::check_spec_problem& p : sim::validate(spec)) {
+        std::string key = p.field;
+        if (key == "signals") key = r.has("signal") ? "signal" : r.has("signals") ? "signals" : "condition";
+        if (key == "expected" && !r.has("expected")) key = r.has("minimum") ? "minimum" : r.has("maximum") ? "maximum" : "";
+        if (!key.empty() && !r.has(key)) key.clear();
+        r.report(key, p.message);
+    }
+    c.s.checks.push_back(std::move(spec));
+}
+
+void read_checks(context& c, const toml::table& root, const std::vector<std::string>& signals) {
+    const toml::node* n = root.get("checks");
+    if (!n) return;
+    const toml::array* a = n->as_array();
+    if (!a || !a->is_array_of_tables()) {
+        c.out.add(n->source(), "checks", "expected one [[checks]] table per check, got " + got(*n));
+        return;
+    }
+    std::set<std::string> names;
+    for (std::size_t i = 0; i < a->size(); ++i)
+        read_check(c, *a->get(i)->as_table(), "checks[" + std::to_string(i) + "]", signals, names);
+}
+
+}  // namespace
+
+std::vector<std::string> timer_signal_names(const std::string& timer, const models::timer_config& cfg) {
+    std::vector<std::string> v;
+    for (unsigned ch = 1; ch <= cfg.channels; ++ch) {
+        v.push_back(timer + ".channel" + std::to_string(ch));
+        if (cfg.complementary) v.push_back(timer + ".channel" + std::to_string(ch) + "_complement");
+    }
+    v.push_back(timer + ".irq");
+    return v;
+}
+
+std::vector<std::string> scenario::signal_names() const {
+    std::vector<std::string> v;
+    for (const timer_spec& t : timers) {
+        const auto names = timer_signal_names(t.name, t.layout.instance);
+        v.insert(v.end(), names.begin(), names.end());
+    }
+    return v;
+}
+
+scenario load_scenario(const std::string& path, sim::clock_tree& tree, const scenario_overrides& ov) {
+    const toml::table root = sim::read_toml_file(path);
+    scenario s;
+    s.file = path;
+    s.name = fs::path(path).stem().string();
+    findings_list out(path);
+    context c{out, path, fs::path(path).parent_path(), tree, false, s, {}};
+
+    const std::vector<std::string> tables = {"clocks", "timers", "cpu", "firmware", "run", "waves", "checks"};
+    for (auto&& [k, v] : root) {
+        (void)v;
+        const std::string key(k.str());
+        if (key == "stimulus" || key == "inputs") {
+            out.add(k.source(), key, "[" + key + "] is " + stimulus_message);
+        } else if (std::find(tables.begin(), tables.end(), key) == tables.end()) {
+            out.add(k.source(), key,
+                    "unknown table " + in_quotes(key) + hint(key, tables) + "; accepted: " + join(tables));
+        }
+    }
+
+    read_run(c, root);
+    if (ov.duration) s.run.duration = ov.duration;
+    if (ov.seed) s.run.seed = *ov.seed;
+    read_clocks(c, root, s.run.seed);
+    read_timers(c, root);
+    read_cpu(c, root);
+    if (s.cpu && ov.start_offset_cycles) s.cpu->start_offset_cycles = *ov.start_offset_cycles;
+    read_firmware(c, root, ov);
+    const std::vector<std::string> signals = s.signal_names();
+    read_waves(c, root, signals);
+    read_checks(c, root, signals);
+    out.raise_if_any();
+    choose_timescale(c, root);
+    return s;
+}
+
+}  // namespace harness::run

@@ -1,0 +1,235 @@
+// Running a scenario and writing its outputs; see scenario_runner.h.
+
+#include "harness/run/scenario_runner.h"
+
+#include "harness/firmware_context.h"
+#include "harness/firmware_library.h"
+#include "harness/platform.h"
+#include "harness/run/log_setup.h"
+#include "harness/run/progress_line.h"
+#include "harness/run/signal_fanout.h"
+#include "models/timer/timer_probe.h"
+#include "sim/checks/check_engine.h"
+#include "sim/clock_plan.h"
+#include "sim/report/checks_jsonl.h"
+#include "sim/report/junit_xml.h"
+#include "sim/report/summary_text.h"
+#include "sim/vcd_writer.h"
+
+#include <spdlog/spdlog.h>
+
+#include <algorithm>
+#include <cstring>
+#include <filesystem>
+#include <fstream>
+#include <memory>
+#include <optional>
+
+namespace harness::run {
+
+namespace {
+
+namespace fs = std::filesystem;
+
+const char* const output_names[] = {"waves.vcd", "checks.jsonl", "junit.xml", "summary.txt", "failure.txt"};
+
+// One record per distinct firmware check (name, file and line), in order of first evaluation: how
+// often it was evaluated and the first failure.
+std::vector<sim::check_result> firmware_results(const std::vector<firmware_check>& checks, sim::time_ps end) {
+    std::vector<sim::check_result> out;
+    std::vector<std::uint64_t> failures;
+    for (const firmware_check& c : checks) {
+        const std::string where = c.file + ":" + std::to_string(c.line);
+        auto it = std::find_if(out.begin(), out.end(),
+                               [&](const sim::check_result& r) { return r.name == c.name && r.signal == where; });
+        if (it == out.end()) {
+            sim::check_result r;
+            r.name = c.name;
+            r.kind = sim::check_kind::never;
+            r.kind_name = "firmware";
+            r.signal = where;
+            r.unit = "evaluations";
+            r.expected_text = "holds every time it is evaluated";
+            r.passed = true;
+            r.at = end;
+            out.push_back(r);
+            failures.push_back(0);
+            it = out.end() - 1;
+        }
+        sim::check_result& r = *it;
+        const std::size_t i = static_cast<std::size_t>(it - out.begin());
+        ++r.count;
+        if (!c.passed) {
+            if (failures[i] == 0) {
+                r.passed = false;
+                r.at = c.at;
+                r.detail = "failed at " + sim::format_time(c.at) + " (evaluation " + std::to_string(r.count) + ")";
+            }
+            ++failures[i];
+        }
+    }
+    for (std::size_t i = 0; i < out.size(); ++i) {
+        sim::check_result& r = out[i];
+        if (r.passed)
+            r.detail = "held in all " + std::to_string(r.count) + " evaluations";
+        else
+            r.detail += "; " + std::to_string(failures[i]) + " of " + std::to_string(r.count) + " evaluations failed";
+    }
+    return out;
+}
+
+// Everything a run keeps alive until the process ends (a failure exits from inside the kernel).
+struct run_state {
+    scenario s;
+    std::string out_dir;
+    std::ostream* out = nullptr;
+    std::unique_ptr<firmware_library> firmware;
+    std::unique_ptr<sim::check_engine> engine;
+    std::unique_ptr<sim::vcd_writer> vcd;
+    signal_fanout fanout;
+    std::vector<std::unique_ptr<models::timer_probe>> probes;
+    std::optional<failure_report> failure;
+    std::unique_ptr<progress_line> progress;
+    bool finished = false;
+
+    std::string path(const char* name) const { return (fs::path(out_dir) / name).string(); }
+
+    // Ends the sinks at `end` and writes the reports; returns the results.
+    std::vector<sim::check_result> finish(sim::time_ps end) {
+        if (progress) progress->erase();
+        finished = true;
+        fanout.end(end);
+        if (vcd && vcd->rounded_changes() != 0)
+            spdlog::warn("waves.vcd: {} changes moved to the nearest {} (set [waves] timescale = \"1 ps\" to keep "
+                         "every edge exact)",
+                         vcd->rounded_changes(), sim::vcd_writer::timescale_text(vcd->unit()));
+        std::vector<sim::check_result> results = engine->results();
+        const auto fw = firmware_results(firmware_context::get().checks, end);
+        results.insert(results.end(), fw.begin(), fw.end());
+        sim::write_checks_jsonl(path("checks.jsonl"), results);
+        sim::write_junit_xml(path("junit.xml"), results, s.name);
+        sim::write_summary(path("summary.txt"), results);
+        if (failure) {
+            std::ofstream f(path("failure.txt"), std::ios::binary);
+            f << failure->text();
+            if (!f) throw sim::output_error("cannot write " + path("failure.txt"));
+        }
+        *out << sim::summary_text(results);
+        if (failure) *out << "firmware " << to_string(failure->outcome) << ": see " << path("failure.txt") << "\n";
+        *out << "outputs in " << out_dir << "\n";
+        out->flush();
+        return results;
+    }
+};
+
+std::unique_ptr<firmware_library> load_firmware(const scenario& s) {
+    if (!s.firmware) return nullptr;
+    return std::make_unique<firmware_library>(s.firmware->library, s.firmware->entry);
+}
+
+}  // namespace
+
+run_summary run_scenario(const std::string& path, const run_options& options, std::ostream& out) {
+    // The platform and the run state live until the process ends: a firmware failure exits from
+    // inside the kernel, after the closers have used them.
+    // Neither is ever destroyed: SystemC modules must not be torn down after the kernel's own
+    // statics, and one process runs one scenario.
+    platform* const p = new platform();
+    run_state& state = *new run_state();
+    state.out = &out;
+    state.out_dir = options.out_dir;
+    state.s = load_scenario(path, p->clocks(), options.overrides);
+    scenario& s = state.s;
+    if (!s.run.duration)
+        throw sim::scenario_error(sim::scenario_finding{
+            path, 0, 0, "run.duration", "missing: give [run] duration = \"10 ms\" (a time), or --duration on the command line"});
+    const sim::time_ps duration = *s.run.duration;
+    state.firmware = load_firmware(s);
+
+    std::error_code ec;
+    fs::create_directories(state.out_dir, ec);
+    if (ec || !fs::is_directory(state.out_dir))
+        throw sim::output_error("cannot create the output folder '" + state.out_dir + "': " +
+                                (ec ? ec.message() : "not a folder"));
+    for (const char* name : output_names) fs::remove(state.path(name), ec);
+
+    firmware_context& ctx = firmware_context::get();
+    ctx.checks.clear();
+    if (s.firmware) ctx.params = s.firmware->parameters;
+
+    state.engine = std::make_unique<sim::check_engine>(s.checks);
+    state.fanout.add(*state.engine, {}, true);
+    if (s.waves.enabled) {
+        sim::vcd_options vo;
+        vo.unit_ps = s.waves.unit_ps;
+        // A fixed date: the same inputs give a byte-identical file.
+        vo.date = "not recorded (runs are reproducible)";
+        vo.version = std::string("tickbench ") + TICKBENCH_VERSION;
+        state.vcd = std::make_unique<sim::vcd_writer>(state.path("waves.vcd"), vo);
+        state.fanout.add(*state.vcd, s.waves.signals, false);
+    }
+    sim::signal_id id = 0;
+    for (timer_spec spec : s.timers) {
+        state.probes.push_back(std::make_unique<models::timer_probe>(spec.name, spec.layout.instance, state.fanout, id));
+        id = state.probes.back()->end_id();
+        spec.observers.push_back(state.probes.back().get());
+        p->add_timer(std::move(spec));
+    }
+    p->set_unmapped_policy(s.run.unmapped);
+    p->set_hang_wall_seconds(s.run.hang_wall_seconds);
+    if (s.firmware) {
+        p->set_map_peripherals(s.firmware->map_peripherals);
+        void (*entry)() = state.firmware->entry();
+        p->set_firmware(*s.cpu, [entry] { entry(); });
+    }
+    try {
+        p->build();
+    } catch (const std::exception& e) {
+        throw sim::scenario_error(sim::scenario_finding{path, 0, 0, "", std::string("cannot build the part: ") + e.what()});
+    }
+    state.fanout.begin();
+    p->on_failure([&state](const failure_report& r) { state.failure = r; });
+    p->on_close([&state] {
+        if (state.finished) return;
+        const sim::time_ps end = std::max(state.fanout.last_time(), state.failure ? state.failure->at : 0);
+        state.finish(end);
+    });
+    if (options.progress) {
+        state.progress = std::make_unique<progress_line>(duration);
+        state.progress->start();
+    }
+    spdlog::info("{}: running {} (seed {}), outputs in {}", path, sim::format_time(duration), s.run.seed,
+                 state.out_dir);
+    stamp_simulated_time(true);
+    p->run(duration);
+    const auto results = state.finish(duration);
+    stamp_simulated_time(false);
+    run_summary summary;
+    summary.checks = results.size();
+    for (const auto& r : results) summary.failed += r.passed ? 0 : 1;
+    return summary;
+}
+
+void check_scenario(const std::string& path, std::ostream& out) {
+    sim::clock_tree tree;
+    const scenario s = load_scenario(path, tree);
+    // Building every timeline catches what only shows when edges are computed.
+    tree.start();
+    const std::vector<sim::clock_plan_row> rows = tree.plan(0);
+    out << sim::clock_plan_text(rows);
+    for (const timer_spec& t : s.timers) {
+        char window[64];
+        std::snprintf(window, sizeof window, "0x%08llx..0x%08llx", static_cast<unsigned long long>(t.base),
+                      static_cast<unsigned long long>(t.base + t.layout.size - 1));
+        out << "timer " << t.name << ": layout " << t.layout.name << " at " << window << ", clock " << t.clock
+            << ", " << t.layout.instance.counter_bits << "-bit counter, " << t.layout.instance.channels
+            << " channels\n";
+    }
+    const auto fw = load_firmware(s);
+    if (fw) out << "firmware " << fw->path() << ": loads, entry " << s.firmware->entry << " found\n";
+    if (!s.run.duration) out << "no [run] duration: `tickbench run` needs --duration\n";
+    out << path << ": ok, " << rows.size() << " clocks, " << s.timers.size() << " timers, " << s.checks.size()
+        << " checks\n";
+}
+
+}  // namespace harness::run

@@ -1,0 +1,41 @@
+#pragma once
+// Running a scenario: the part it describes is built as a harness::platform, the timers' outputs
+// go through probes to a fan-out feeding the waveform writer and the check engine, the firmware
+// library is loaded and run, and the outputs are written into one folder (docs/cli.md, "run"):
+// waves.vcd (streamed), checks.jsonl, junit.xml, summary.txt and, when firmware fails, failure.txt.
+//
+// A firmware failure ends the process with exit code 3 (harness::platform::fail); before it does,
+// the outputs written so far are finished with the verdicts as they stand, so a crash still leaves
+// a readable waveform and assertion log behind.
+
+#include "harness/run/scenario.h"
+
+#include <ostream>
+#include <string>
+
+namespace harness::run {
+
+struct run_options {
+    std::string out_dir = "tickbench-out";
+    scenario_overrides overrides;
+    // Show the progress line on stderr (the command sets it when stderr is a terminal).
+    bool progress = false;
+};
+
+struct run_summary {
+    std::size_t checks = 0;
+    std::size_t failed = 0;
+    bool all_passed() const { return failed == 0; }
+};
+
+// Runs the scenario at `path`, writes the outputs and prints the summary on `out`. Throws
+// sim::scenario_error (bad scenario or layout), harness::firmware_load_error, sim::output_error
+// (the output folder or a file cannot be written). Does not return on a firmware failure.
+run_summary run_scenario(const std::string& path, const run_options& options, std::ostream& out);
+
+// Validates the scenario at `path` without running it: every table, layout and check, the clock
+// tree's timelines, and the firmware library (loaded, entry found). Prints the clock plan and a
+// verdict line on `out`. Throws like run_scenario.
+void check_scenario(const std::string& path, std::ostream& out);
+
+}  // namespace harness::run

@@ -1,0 +1,25 @@
+// The `run` subcommand; see commands.h.
+
+#include "sim/cli/commands.h"
+
+#include "harness/run/scenario_runner.h"
+#include "sim/quantity.h"
+
+namespace sim::cli {
+
+int run_scenario_command(const run_command_options& options, std::ostream& out) {
+    harness::run::run_options o;
+    o.out_dir = options.out_dir;
+    o.progress = options.progress;
+    o.overrides.firmware = options.firmware;
+    o.overrides.seed = options.seed;
+    o.overrides.start_offset_cycles = options.start_offset;
+    if (options.duration) {
+        o.overrides.duration = parse_time(*options.duration);
+        if (*o.overrides.duration == 0) throw quantity_error("--duration: expected a time above 0 ps");
+    }
+    const harness::run::run_summary summary = harness::run::run_scenario(options.file, o, out);
+    return summary.all_passed() ? exit_ok : exit_check_failed;
+}
+
+}  // namespace sim::cli
