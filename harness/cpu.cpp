@@ -28,6 +28,7 @@ cpu::cpu(const sc_core::sc_module_name& name, const cpu_config& cfg, sim::clock_
 void cpu::run() {
     current_ = this;
     state_ = firmware_state::running;
+    kernel_now_ = sc_core::sc_time_stamp().value();
     local_ = after_cycles(0, cfg_.start_offset_cycles);
     sync_if_far_ahead();
     in_firmware_ = true;
@@ -37,29 +38,54 @@ void cpu::run() {
     sync();
 }
 
-time_ps cpu::after_cycles(time_ps from, std::uint64_t n) const {
+time_ps cpu::after_cycles(time_ps from, std::uint64_t n) {
     try {
-        return clock_.time_of(clock_.tick_at(from) + n);
+        // Accesses follow one another from the edge the last one ended on: reuse its index.
+        const std::uint64_t k = from == edge_time_ ? edge_tick_ : clock_.tick_at(from);
+        const time_ps t = clock_.time_of(k + n);
+        edge_tick_ = k + n;
+        edge_time_ = t;
+        return t;
     } catch (const std::out_of_range&) {
-        const_cast<cpu*>(this)->fail("the CPU clock '" + cfg_.clock + "' stopped at " +
-                                     sim::format_time(from) + ": firmware cannot go on");
+        fail("the CPU clock '" + cfg_.clock + "' stopped at " + sim::format_time(from) +
+             ": firmware cannot go on");
         throw;
     }
 }
 
 void cpu::bring_models_to(time_ps t) {
     if (t < horizon_) return;
+    // Only the peripherals with something due by t need advancing; the others' next events stand.
     time_ps next = sim::max_time_ps;
-    for (models::timer_core_if* p : peripherals_) {
-        p->advance_to(t);
-        time_ps e;
-        if (p->next_event(e)) next = std::min(next, e);
+    for (watched& w : peripherals_) {
+        if (t >= w.next) {
+            w.model->advance_to(t);
+            if (!w.model->next_event(w.next)) w.next = sim::max_time_ps;
+        }
+        next = std::min(next, w.next);
     }
     horizon_ = next;
 }
 
+void cpu::forget_horizons() {
+    horizon_ = 0;
+    for (watched& w : peripherals_) w.next = 0;
+}
+
+time_ps cpu::interrupt_ready_at() {
+    // The earliest ready time over the lines that may preempt the running code decides both
+    // "may one enter now?" and "when could one?", and it changes only with the controller's state.
+    if (irqs_.changes() != irq_changes_seen_ || running_priority_ != irq_priority_seen_) {
+        const auto r = irqs_.next_ready(0, running_priority_);
+        irq_ready_ = r ? *r : sim::max_time_ps;
+        irq_changes_seen_ = irqs_.changes();
+        irq_priority_seen_ = running_priority_;
+    }
+    return irq_ready_;
+}
+
 void cpu::take_interrupts() {
-    for (;;) {
+    while (interrupt_ready_at() <= local_) {
         const auto d = irqs_.deliverable(local_, running_priority_);
         if (!d) return;
         void (*handler)() = d->line < handlers_.size() ? handlers_[d->line] : nullptr;
@@ -79,16 +105,20 @@ void cpu::take_interrupts() {
 }
 
 void cpu::sync() {
-    const time_ps now = sc_core::sc_time_stamp().value();
     const bool was = in_firmware_;
     in_firmware_ = false;
-    if (local_ > now) sc_core::wait(sc_core::sc_time::from_value(local_ - now));
+    if (local_ > kernel_now_) sc_core::wait(sc_core::sc_time::from_value(local_ - kernel_now_));
+    kernel_now_ = sc_core::sc_time_stamp().value();
     in_firmware_ = was;
     current_ = this;
+    // The kernel has run: stimulus and clock changes may have moved the peripherals' next events
+    // and the CPU clock's future edges.
+    forget_horizons();
+    edge_time_ = sim::max_time_ps;
 }
 
 void cpu::sync_if_far_ahead() {
-    if (local_ - sc_core::sc_time_stamp().value() >= cfg_.quantum) sync();
+    if (local_ - kernel_now_ >= cfg_.quantum) sync();
 }
 
 void cpu::fail(const std::string& why) {
@@ -118,7 +148,7 @@ std::uint32_t cpu::transport(bool is_write, std::uint32_t address, unsigned size
     payload_.set_byte_enable_ptr(nullptr);
     payload_.set_dmi_allowed(false);
     payload_.set_response_status(tlm::TLM_INCOMPLETE_RESPONSE);
-    const time_ps now = sc_core::sc_time_stamp().value();
+    const time_ps now = kernel_now_;
     sc_core::sc_time delay = sc_core::sc_time::from_value(local_ - now);
     socket->b_transport(payload_, delay);
     local_ = std::max<time_ps>(local_, now + delay.value());
@@ -140,7 +170,7 @@ std::uint32_t cpu::transport(bool is_write, std::uint32_t address, unsigned size
 // then write to them at that time, and a model never sees time go backwards.
 
 std::uint32_t cpu::read(std::uint32_t address, unsigned size) {
-    ++heartbeat_;
+    beat();
     bring_models_to(local_);
     take_interrupts();
     local_ = after_cycles(local_, cfg_.access_cycles);
@@ -149,26 +179,26 @@ std::uint32_t cpu::read(std::uint32_t address, unsigned size) {
 }
 
 void cpu::write(std::uint32_t address, unsigned size, std::uint32_t value) {
-    ++heartbeat_;
+    beat();
     bring_models_to(local_);
     take_interrupts();
     local_ = after_cycles(local_, cfg_.access_cycles);
     sync_if_far_ahead();
     transport(true, address, size, value);
     // A write can bring a peripheral's next event closer: look again before the next access.
-    horizon_ = 0;
+    forget_horizons();
 }
 
 void cpu::cycles(std::uint64_t n) {
-    ++heartbeat_;
+    beat();
     // Interrupts may enter during the stretch: walk it from one instant that matters to the next.
     std::uint64_t remaining = n;
     for (;;) {
         bring_models_to(local_);
-        if (irqs_.deliverable(local_, running_priority_)) take_interrupts();
+        if (interrupt_ready_at() <= local_) take_interrupts();
         const time_ps end = after_cycles(local_, remaining);
         time_ps next = horizon_;
-        if (const auto r = irqs_.next_ready(local_, running_priority_)) next = std::min(next, *r);
+        if (const time_ps r = interrupt_ready_at(); r != sim::max_time_ps) next = std::min(next, std::max(r, local_));
         if (next >= end || remaining == 0) {
             local_ = end;
             break;
@@ -177,7 +207,7 @@ void cpu::cycles(std::uint64_t n) {
         const std::uint64_t used = std::min(remaining, clock_.tick_at(std::max(next, local_)) - k0);
         local_ = clock_.time_of(k0 + used);
         remaining -= used;
-        if (used == 0 && !irqs_.deliverable(local_, running_priority_)) {
+        if (used == 0 && interrupt_ready_at() > local_) {
             // The instant that matters is now: let the models process it.
             horizon_ = std::min(horizon_, local_);
             bring_models_to(local_);
@@ -187,19 +217,19 @@ void cpu::cycles(std::uint64_t n) {
 }
 
 void cpu::wait_for_interrupt() {
-    ++heartbeat_;
+    beat();
     for (;;) {
         bring_models_to(local_);
-        if (irqs_.deliverable(local_, running_priority_)) {
+        if (interrupt_ready_at() <= local_) {
             take_interrupts();
             return;
         }
         time_ps next = horizon_;
-        if (const auto r = irqs_.next_ready(local_, running_priority_)) next = std::min(next, *r);
+        if (const time_ps r = interrupt_ready_at(); r != sim::max_time_ps) next = std::min(next, std::max(r, local_));
         if (next == sim::max_time_ps) {
             // Nothing is scheduled anywhere the cpu can see: let the kernel run a quantum (stimulus
             // from outside may arrive) and look again.
-            local_ = after_cycles(sc_core::sc_time_stamp().value() + cfg_.quantum, 0);
+            local_ = after_cycles(kernel_now_ + cfg_.quantum, 0);
             sync();
             continue;
         }
@@ -210,18 +240,18 @@ void cpu::wait_for_interrupt() {
 }
 
 bool cpu::irq_disable() {
-    ++heartbeat_;
+    beat();
     return irqs_.set_global_enable(false);
 }
 
 void cpu::irq_enable() {
-    ++heartbeat_;
+    beat();
     irqs_.set_global_enable(true);
     take_interrupts();
 }
 
 void cpu::irq_line_enable(unsigned line, bool enable) {
-    ++heartbeat_;
+    beat();
     if (line >= irqs_.line_count()) {
         fail("firmware enabled interrupt line " + std::to_string(line) + ", but the part has " +
              std::to_string(irqs_.line_count()) + " lines");

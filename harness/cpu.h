@@ -61,7 +61,7 @@ public:
 
     // Peripherals whose state firmware can see: brought up to the cpu's local time before each
     // access, so that their interrupt requests are known in time.
-    void watch(models::timer_core_if& peripheral) { peripherals_.push_back(&peripheral); }
+    void watch(models::timer_core_if& peripheral) { peripherals_.push_back({&peripheral, 0}); }
     // Called with an error text when firmware fails (a bus error with the error policy, an
     // unknown line...). The platform ends the run with a report.
     void on_failure(std::function<void(const std::string&)> f) { on_failure_ = std::move(f); }
@@ -96,13 +96,25 @@ public:
     interrupt_controller& interrupts() { return irqs_; }
 
 private:
+    // A watched peripheral and its next event (0: not known, ask it).
+    struct watched {
+        models::timer_core_if* model;
+        time_ps next;
+    };
+
     void run();
     // Local time after `n` more CPU cycles from `from`.
-    time_ps after_cycles(time_ps from, std::uint64_t n) const;
+    time_ps after_cycles(time_ps from, std::uint64_t n);
     void bring_models_to(time_ps t);
+    // Forgets every peripheral's next event: a write or the kernel may have moved it.
+    void forget_horizons();
+    // The earliest time at which an interrupt may enter over the running code (max_time_ps: none),
+    // recomputed only when the controller's state or the running priority changed.
+    time_ps interrupt_ready_at();
     void take_interrupts();
     void sync_if_far_ahead();
     void sync();
+    void beat() { heartbeat_.store(heartbeat_.load(std::memory_order_relaxed) + 1, std::memory_order_relaxed); }
     std::uint32_t transport(bool write, std::uint32_t address, unsigned size, std::uint32_t value);
     void fail(const std::string& why);
 
@@ -112,11 +124,22 @@ private:
     interrupt_controller& irqs_;
     std::function<void()> entry_;
     std::function<void(const std::string&)> on_failure_;
-    std::vector<models::timer_core_if*> peripherals_;
+    std::vector<watched> peripherals_;
     std::array<void (*)(), 64> handlers_{};
 
     time_ps local_ = 0;
     time_ps horizon_ = 0;  // earliest next event of any watched peripheral
+    // The kernel's time, which moves only while this thread waits in sync(): kept here so the hot
+    // path asks the kernel nothing.
+    time_ps kernel_now_ = 0;
+    // The last CPU clock edge after_cycles() returned (its index and time): the next access starts
+    // there, so its tick index need not be searched again. Forgotten at every sync (the kernel may
+    // have changed the clock's future).
+    std::uint64_t edge_tick_ = 0;
+    time_ps edge_time_ = sim::max_time_ps;
+    std::uint64_t irq_changes_seen_ = ~std::uint64_t{0};
+    unsigned irq_priority_seen_ = 0;
+    time_ps irq_ready_ = sim::max_time_ps;
     unsigned running_priority_ = idle_priority;
     std::uint64_t accesses_ = 0;
     std::uint64_t stalled_accesses_ = 0;

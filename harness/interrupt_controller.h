@@ -54,7 +54,10 @@ public:
     // Global interrupt mask; returns the previous state.
     bool set_global_enable(bool enabled);
     bool global_enable() const { return global_enable_; }
-    void set_priority(unsigned line, unsigned priority) { lines_.at(line).cfg.priority = priority; }
+    void set_priority(unsigned line, unsigned priority) {
+        lines_.at(line).cfg.priority = priority;
+        ++changes_;
+    }
 
     // The most urgent interrupt that may enter at local time `now` over code running at
     // `running_priority`: enabled, unmasked, pending (line high), more urgent than the running code,

@@ -26,6 +26,8 @@ struct firmware_settings {
     std::string entry = "tick_firmware_main";
     bool map_peripherals = false;
     std::map<std::string, std::string> parameters;
+    // Where the library was named, for messages: "FILE:LINE:COLUMN: firmware.library" or "--firmware".
+    std::string origin;
 };
 
 // The [run] table.
@@ -67,6 +69,7 @@ struct scenario_overrides {
     std::optional<time_ps> duration;      // --duration
     std::optional<std::uint64_t> seed;    // --seed
     std::optional<std::uint64_t> start_offset_cycles;  // --start-offset
+    std::map<std::string, std::string> parameters;      // --param NAME=VALUE (firmware parameters)
 };
 
 // Reads the scenario at `path` and adds its clocks to `tree` (which should be empty). Throws

@@ -112,10 +112,10 @@ void read_run(context& c, const toml::table& root) {
 
 // ---- [clocks] ------------------------------------------------------------------------------
 
-void read_clocks(context& c, const toml::table& root, std::uint64_t seed) {
-    // The run's seed is the default jitter seed of every crystal that names none.
-    toml::table copy = root;
-    if (toml::table* clocks = copy["clocks"].as_table()) {
+void read_clocks(context& c, toml::table& root, std::uint64_t seed) {
+    // The run's seed is the default jitter seed of every crystal that names none. The key is added
+    // in place: a copy of the document would lose the source positions the messages need.
+    if (toml::table* clocks = root["clocks"].as_table()) {
         for (auto&& [name, node] : *clocks) {
             (void)name;
             toml::table* t = node.as_table();
@@ -126,7 +126,7 @@ void read_clocks(context& c, const toml::table& root, std::uint64_t seed) {
         }
     }
     try {
-        sim::load_clocks(copy, c.file, c.tree);
+        sim::load_clocks(root, c.file, c.tree);
         c.clocks_ok = true;
     } catch (const sim::scenario_error& e) {
         c.out.add_own(e.findings());
@@ -137,7 +137,8 @@ void read_clocks(context& c, const toml::table& root, std::uint64_t seed) {
 bool known_clock(context& c, table_reader& r, const std::string& key, const std::string& name) {
     if (!c.clocks_ok) return false;  // the clock tree's own findings say what is wrong
     if (c.tree.has_node(name)) return true;
-    const auto names = c.tree.node_names();
+    auto names = c.tree.node_names();
+    std::sort(names.begin(), names.end());
     r.report(key, "unknown clock " + in_quotes(name) + hint(name, names) + "; accepted: one of " + join(names));
     return false;
 }
@@ -297,8 +298,11 @@ void read_firmware(context& c, const toml::table& root, const scenario_overrides
         table_reader r(c.out, *t, "firmware");
         r.reject_unknown_keys({"library", "entry", "map-peripherals", "parameters"}, "[firmware]");
         if (auto lib = r.string("library", !ov.firmware,
-                                "the path of the firmware's shared library, relative to the scenario file"))
+                                "the path of the firmware's shared library, relative to the scenario file")) {
             fw.library = resolve(c.dir, *lib);
+            const auto& b = t->get("library")->source().begin;
+            fw.origin = c.file + ":" + std::to_string(b.line) + ":" + std::to_string(b.column) + ": firmware.library";
+        }
         if (auto e = r.string("entry", false, "the name of a C function `void NAME(void)`")) fw.entry = *e;
         if (auto m = r.boolean("map-peripherals")) fw.map_peripherals = *m;
         if (const toml::node* p = t->get("parameters")) {
@@ -315,7 +319,10 @@ void read_firmware(context& c, const toml::table& root, const scenario_overrides
             }
         }
     }
-    if (ov.firmware) fw.library = *ov.firmware;
+    if (ov.firmware) {
+        fw.library = *ov.firmware;
+        fw.origin = "--firmware";
+    }
     if (!c.s.cpu)
         c.out.add(t ? t->source() : root.source(), "firmware",
                   "firmware needs a processor: add a table [cpu] with at least `clock`");
@@ -479,7 +486,7 @@ std::optional<std::uint64_t> check_value(table_reader& r, const std::string& key
                 break;
         }
     } catch (const sim::quantity_error& e) {
-        r.report(key, std::string(e.what()) + "; accepted: " + expected);
+        r.report(key, std::string(e.what()) + "; expected " + expected);
         return std::nullopt;
     }
     r.wrong(*n, key, expected);
@@ -540,7 +547,8 @@ void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
         }
         if (!c.clocks_ok) return;
         if (!c.tree.has_node(clock)) {
-            const auto names = c.tree.node_names();
+            auto names = c.tree.node_names();
+    std::sort(names.begin(), names.end());
             r.report("tolerance", "tolerance " + in_quotes(text) + ": unknown clock " + in_quotes(clock) +
                                       hint(clock, names) + "; accepted: one of " + join(names));
             return;
@@ -555,7 +563,7 @@ void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
             spec.tol = sim::tolerance::ticks_of(tol.amount, clock, row.freq);
         }
     } catch (const sim::quantity_error& e) {
-        r.report("tolerance", std::string(e.what()) + "; accepted: " + accepted);
+        r.report("tolerance", std::string(e.what()) + "; expected " + accepted);
     }
 }
 
@@ -671,7 +679,7 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
                 r.report(key, "mixes times and angles; accepted: all values of a phase check as times, or all as angles");
                 ok = false;
             }
-            angle = a;
+            if (!angle) angle = a;
         }
         spec.phase_as_angle = angle.value_or(false);
     }
@@ -690,7 +698,7 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
                 else
                     r.wrong(*n, "expected", detail::frequency_words);
             } catch (const sim::quantity_error& e) {
-                r.report("expected", std::string(e.what()) + "; accepted: " + detail::frequency_words);
+                r.report("expected", std::string(e.what()) + "; expected " + detail::frequency_words);
             }
             if (!spec.expected_frequency) ok = false;
         } else {
@@ -760,7 +768,7 @@ std::vector<std::string> scenario::signal_names() const {
 }
 
 scenario load_scenario(const std::string& path, sim::clock_tree& tree, const scenario_overrides& ov) {
-    const toml::table root = sim::read_toml_file(path);
+    toml::table root = sim::read_toml_file(path);
     scenario s;
     s.file = path;
     s.name = fs::path(path).stem().string();
@@ -787,6 +795,9 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree, const sce
     read_cpu(c, root);
     if (s.cpu && ov.start_offset_cycles) s.cpu->start_offset_cycles = *ov.start_offset_cycles;
     read_firmware(c, root, ov);
+    // Command-line firmware parameters replace the file's (and may add new ones).
+    if (s.firmware)
+        for (const auto& [name, value] : ov.parameters) s.firmware->parameters[name] = value;
     const std::vector<std::string> signals = s.signal_names();
     read_waves(c, root, signals);
     read_checks(c, root, signals);

@@ -96,7 +96,7 @@ struct run_state {
 
     // Ends the sinks at `end` and writes the reports; returns the results.
     std::vector<sim::check_result> finish(sim::time_ps end) {
-        if (progress) progress->erase();
+        if (progress) progress->stop();
         finished = true;
         fanout.end(end);
         if (vcd && vcd->rounded_changes() != 0)
@@ -124,7 +124,11 @@ struct run_state {
 
 std::unique_ptr<firmware_library> load_firmware(const scenario& s) {
     if (!s.firmware) return nullptr;
-    return std::make_unique<firmware_library>(s.firmware->library, s.firmware->entry);
+    try {
+        return std::make_unique<firmware_library>(s.firmware->library, s.firmware->entry);
+    } catch (const firmware_load_error& e) {
+        throw firmware_load_error(s.firmware->origin + ": " + e.what());
+    }
 }
 
 }  // namespace
@@ -156,6 +160,8 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     firmware_context& ctx = firmware_context::get();
     ctx.checks.clear();
     if (s.firmware) ctx.params = s.firmware->parameters;
+    // The log line is stamped with the firmware's time already (log_setup.h).
+    ctx.on_log = [](sim::time_ps, const std::string& line) { spdlog::info("firmware: {}", line); };
 
     state.engine = std::make_unique<sim::check_engine>(s.checks);
     state.fanout.add(*state.engine, {}, true);
@@ -195,7 +201,7 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
         state.finish(end);
     });
     if (options.progress) {
-        state.progress = std::make_unique<progress_line>(duration);
+        state.progress = std::make_unique<progress_line>(duration, [&state] { return state.fanout.reached(); });
         state.progress->start();
     }
     spdlog::info("{}: running {} (seed {}), outputs in {}", path, sim::format_time(duration), s.run.seed,

@@ -25,7 +25,10 @@ void signal_fanout::begin() {
 }
 
 void signal_fanout::change(sim::signal_id id, bool level, sim::time_ps at) {
-    if (at > last_) last_ = at;
+    if (at > last_) {
+        last_ = at;
+        reached_.store(at, std::memory_order_relaxed);
+    }
     for (target& t : targets_) {
         const sim::signal_id local = id < t.local.size() ? t.local[id] : none_;
         if (local != none_) t.sink->change(local, level, at);

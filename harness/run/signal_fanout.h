@@ -5,6 +5,7 @@
 
 #include "sim/signal_sink.h"
 
+#include <atomic>
 #include <string>
 #include <vector>
 
@@ -23,6 +24,8 @@ public:
 
     // The latest change time seen (0 before any).
     sim::time_ps last_time() const { return last_; }
+    // The same, safe to read from another thread while changes arrive (for progress displays).
+    sim::time_ps reached() const { return reached_.load(std::memory_order_relaxed); }
     bool ended() const { return ended_; }
 
 private:
@@ -36,6 +39,7 @@ private:
     };
     std::vector<target> targets_;
     sim::time_ps last_ = 0;
+    std::atomic<sim::time_ps> reached_{0};
     bool ended_ = false;
 };
 

@@ -50,6 +50,8 @@ int run(int argc, char** argv) {
     run_cmd->add_option("--seed", run_opts.seed, "Seed of the run (replaces [run] seed)");
     run_cmd->add_option("--start-offset", run_opts.start_offset,
                         "CPU cycles after time 0 at which the firmware starts (replaces [cpu] start-offset)");
+    run_cmd->add_option("--param", run_opts.params,
+                        "Firmware parameter NAME=VALUE (replaces or adds to [firmware.parameters]); repeatable");
 
     std::string check_file;
     CLI::App* check_cmd =

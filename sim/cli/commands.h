@@ -7,6 +7,7 @@
 #include <optional>
 #include <ostream>
 #include <string>
+#include <vector>
 
 namespace sim::cli {
 
@@ -43,6 +44,7 @@ struct run_command_options {
     std::optional<std::string> duration;  // a time such as "10 ms"
     std::optional<std::uint64_t> seed;
     std::optional<std::uint64_t> start_offset;
+    std::vector<std::string> params;  // NAME=VALUE
     bool progress = false;
 };
 

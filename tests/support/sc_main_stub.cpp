@@ -2,4 +2,4 @@
 // the shared library's own main() refers to sc_main, and sanitizer builds link without
 // --as-needed, so the reference must resolve. It is never called.
 
-int sc_main(int, char*[]) { return 0; }
+extern "C" int sc_main(int, char*[]) { return 0; }
