@@ -1,0 +1,130 @@
+// Metrics of a whole run (issue: the tickbench command), measured side by side in this run.
+//
+// - vcd_overhead: wall time of the 3-channel 25 kHz PWM workload (timer_bench.cpp's) with its pins
+//   probed into the streamed VCD writer, over the same with the probe feeding a sink that drops
+//   everything: the cost of the waveform. Best of interleaved rounds, each in its own process.
+// - rss_growth_ratio: peak resident memory of `tickbench run` on the fan controller example for
+//   100 s simulated over the same for 10 s. Nothing in a run may grow with its length: waveforms
+//   and checks stream, histories are forgotten.
+
+#include "models/timer/timer_module.h"
+#include "models/timer/timer_probe.h"
+#include "sim/clock_tree.h"
+#include "sim/vcd_writer.h"
+#include "tests/bench/isolated_run.h"
+#include "tests/bench/metric.h"
+
+#include <systemc>
+
+#include <algorithm>
+#include <chrono>
+#include <cstdio>
+#include <stdexcept>
+#include <string>
+#include <sys/resource.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+namespace {
+
+using models::timer_field;
+
+// A sink that declares and drops: the probe's own cost without any output.
+struct null_sink final : sim::signal_sink {
+    std::uint64_t changes = 0;
+    void declare(sim::signal_id, const sim::signal_info&) override {}
+    void begin() override {}
+    void change(sim::signal_id, bool, sim::time_ps) override { ++changes; }
+    void end(sim::time_ps) override {}
+};
+
+// The PWM workload with its pins probed into `sink`; wall seconds of the run. Child process only.
+double probed_pwm(sim::signal_sink& sink, sim::time_ps simulated) {
+    constexpr std::uint64_t hz = 48'000'000;
+    sim::clock_tree tree;
+    sim::crystal_params x;
+    x.nominal = sim::frequency::hz(hz);
+    tree.add_crystal("kernel", x);
+    models::timer_config cfg;
+    cfg.counter_bits = 32;
+    cfg.channels = 3;
+    models::timer_module timer("pwm", cfg, tree, "kernel");
+    models::timer_probe probe("pwm", cfg, sink, 0);
+    timer.add_observer(&probe);
+    tree.start();
+    sink.begin();
+    const std::uint32_t period = hz / 25'000;
+    auto w = [&](timer_field f, unsigned c, std::uint32_t v) { timer.write(f, c, v, 0); };
+    w(timer_field::period, 0, period - 1);
+    for (unsigned c = 0; c < 3; ++c) {
+        w(timer_field::compare, c, period * (c + 1) / 4);
+        w(timer_field::action, c, static_cast<std::uint32_t>(models::output_action::pwm_below));
+        w(timer_field::main_enable, c, 1);
+    }
+    w(timer_field::enable, 0, 1);
+    sc_core::sc_start(sc_core::SC_ZERO_TIME);
+    const auto t0 = std::chrono::steady_clock::now();
+    sc_core::sc_start(sc_core::sc_time::from_value(simulated));
+    timer.advance_to(simulated);
+    sink.end(simulated);
+    return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+
+double vcd_overhead(bool quick) {
+    const sim::time_ps simulated = quick ? 20'000'000'000 : 10'000'000'000'000;  // 20 ms / 10 s
+    const std::string path = "/tmp/tickbench-bench-" + std::to_string(getpid()) + ".vcd";
+    double on = 1e30, off = 1e30;
+    for (int round = 0; round < (quick ? 1 : 5); ++round) {
+        off = std::min(off, bench::run_isolated([&] {
+            null_sink sink;
+            return probed_pwm(sink, simulated);
+        }));
+        on = std::min(on, bench::run_isolated([&] {
+            sim::vcd_options o;
+            o.date = "bench";
+            sim::vcd_writer vcd(path, o);
+            return probed_pwm(vcd, simulated);
+        }));
+    }
+    std::remove(path.c_str());
+    return on / off;
+}
+
+// Peak resident set size in KiB of `tickbench run` on the fan controller for `duration`.
+double peak_rss_kib(const std::string& duration) {
+    const std::string out = "/tmp/tickbench-bench-rss-" + std::to_string(getpid());
+    const pid_t pid = fork();
+    if (pid < 0) throw std::runtime_error("fork failed");
+    if (pid == 0) {
+        std::freopen("/dev/null", "w", stdout);
+        std::freopen("/dev/null", "w", stderr);
+        execl(TICKBENCH_COMMAND, TICKBENCH_COMMAND, "run", TICKBENCH_FAN_SCENARIO, "--firmware",
+              TICKBENCH_FAN_FIRMWARE, "--duration", duration.c_str(), "--out", out.c_str(),
+              static_cast<char*>(nullptr));
+        _exit(127);
+    }
+    int status = 0;
+    struct rusage usage {};
+    wait4(pid, &status, 0, &usage);
+    std::system(("rm -rf " + out).c_str());
+    if (!WIFEXITED(status) || WEXITSTATUS(status) != 0)
+        throw std::runtime_error("tickbench run --duration " + duration + " failed (status " +
+                                 std::to_string(status) + ")");
+    return static_cast<double>(usage.ru_maxrss);
+}
+
+double rss_growth_ratio(bool quick) {
+    const double short_run = peak_rss_kib(quick ? "10 ms" : "10 s");
+    const double long_run = peak_rss_kib(quick ? "100 ms" : "100 s");
+    return long_run / short_run;
+}
+
+const bench::add_metric vcd{{"vcd_overhead", "x",
+                             "wall time with the VCD writer / with a sink that drops, 3-channel "
+                             "25 kHz PWM at 48 MHz, 10 s simulated",
+                             nullptr, 0, vcd_overhead}};
+const bench::add_metric rss{{"rss_growth_ratio", "x",
+                             "peak RSS of tickbench run on the fan controller, 100 s / 10 s simulated",
+                             nullptr, 0, rss_growth_ratio}};
+
+}  // namespace
