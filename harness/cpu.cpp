@@ -56,14 +56,19 @@ time_ps cpu::after_cycles(time_ps from, std::uint64_t n) {
 void cpu::bring_models_to(time_ps t) {
     if (t < horizon_) return;
     // Only the peripherals with something due by t need advancing; the others' next events stand.
-    time_ps next = sim::max_time_ps;
-    for (watched& w : peripherals_) {
-        if (t >= w.next) {
-            w.model->advance_to(t);
-            if (!w.model->next_event(w.next)) w.next = sim::max_time_ps;
-        }
-        next = std::min(next, w.next);
+    // The earliest-due one goes first, one instant at a time, so that what the peripherals report
+    // reaches shared observers (waveforms, checks) in time order across peripherals.
+    for (;;) {
+        watched* first = nullptr;
+        for (watched& w : peripherals_)
+            if (w.next <= t && (!first || w.next < first->next)) first = &w;
+        if (!first) break;
+        first->model->advance_to(first->next);
+        time_ps e;
+        first->next = first->model->next_event(e) ? std::max(e, first->next + 1) : sim::max_time_ps;
     }
+    time_ps next = sim::max_time_ps;
+    for (const watched& w : peripherals_) next = std::min(next, w.next);
     horizon_ = next;
 }
 
@@ -105,6 +110,9 @@ void cpu::take_interrupts() {
 }
 
 void cpu::sync() {
+    // Peripherals first reach the time the kernel is asked to run to, in order (see
+    // bring_models_to), so kernel-side watchers never see them behind.
+    bring_models_to(local_);
     const bool was = in_firmware_;
     in_firmware_ = false;
     if (local_ > kernel_now_) sc_core::wait(sc_core::sc_time::from_value(local_ - kernel_now_));
@@ -175,6 +183,9 @@ std::uint32_t cpu::read(std::uint32_t address, unsigned size) {
     take_interrupts();
     local_ = after_cycles(local_, cfg_.access_cycles);
     sync_if_far_ahead();
+    // Every peripheral up to the access's time first, so the one accessed reports nothing ahead
+    // of the others.
+    bring_models_to(local_);
     return transport(false, address, size, 0);
 }
 
@@ -184,6 +195,7 @@ void cpu::write(std::uint32_t address, unsigned size, std::uint32_t value) {
     take_interrupts();
     local_ = after_cycles(local_, cfg_.access_cycles);
     sync_if_far_ahead();
+    bring_models_to(local_);
     transport(true, address, size, value);
     // A write can bring a peripheral's next event closer: look again before the next access.
     forget_horizons();

@@ -58,8 +58,8 @@ static uint32_t compare_for(uint32_t duty_percent) {
     return period_ticks * duty_percent / 100u + DEAD_TIME_TICKS;
 }
 
-static void set_period(uint32_t ticks) {
-    period_ticks = ticks;
+static void set_period(uint32_t period) {
+    period_ticks = period;
     tick_write16(fans + FANS_LIMIT, (uint16_t)(period_ticks - 1u));
 }
 

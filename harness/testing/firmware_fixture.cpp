@@ -4,10 +4,10 @@
 #include "models/layout/register_layout.h"
 #include "tickbench/firmware.h"
 
+#include <unistd.h>
 #include <cstdio>
 #include <fstream>
 #include <sstream>
-#include <unistd.h>
 
 // The firmware linked into the test binary, if any: a weak reference, so a test binary without one
 // still links and run_firmware_main() can say what is missing.
@@ -98,7 +98,8 @@ bool read_results(const std::string& path, firmware_run& r) {
 }  // namespace
 
 ::testing::AssertionResult firmware_run::passed() const {
-    if (outcome == run_outcome::completed && failed_checks().empty()) return ::testing::AssertionSuccess();
+    if (outcome == run_outcome::completed && failed_checks().empty())
+        return ::testing::AssertionSuccess();
     return ::testing::AssertionFailure() << *this;
 }
 
@@ -124,12 +125,15 @@ bool firmware_run::logged(const std::string& text) const {
 std::ostream& operator<<(std::ostream& out, const firmware_run& run) {
     out << "firmware run " << to_string(run.outcome) << " (exit code " << run.exit_code;
     if (run.signal != 0) out << ", killed by signal " << run.signal;
-    out << ") at " << sim::format_time(run.firmware_time) << " after " << run.accesses << " bus accesses\n";
+    out << ") at " << sim::format_time(run.firmware_time) << " after " << run.accesses
+        << " bus accesses\n";
     for (const firmware_check& c : run.checks)
-        out << "  check " << (c.passed ? "passed" : "FAILED") << " at " << sim::format_time(c.at) << ": '"
-            << c.name << "' (" << c.file << ":" << c.line << ")\n";
-    for (const firmware_log_line& l : run.log) out << "  log " << sim::format_time(l.at) << ": " << l.text << "\n";
-    if (!run.report.empty()) out << run.report;
+        out << "  check " << (c.passed ? "passed" : "FAILED") << " at " << sim::format_time(c.at)
+            << ": '" << c.name << "' (" << c.file << ":" << c.line << ")\n";
+    for (const firmware_log_line& l : run.log)
+        out << "  log " << sim::format_time(l.at) << ": " << l.text << "\n";
+    if (!run.report.empty())
+        out << run.report;
     else if (run.outcome != run_outcome::completed && !run.output.empty())
         out << "child output:\n" << run.output;
     return out;
@@ -147,8 +151,8 @@ void firmware_fixture::add_crystal_clock(const std::string& name, std::uint64_t 
     cpu_clock_chosen_ = true;
 }
 
-void firmware_fixture::add_pll_clock(const std::string& name, std::uint64_t crystal_hz, std::uint64_t multiplier,
-                                     std::uint64_t divider) {
+void firmware_fixture::add_pll_clock(const std::string& name, std::uint64_t crystal_hz,
+                                     std::uint64_t multiplier, std::uint64_t divider) {
     clock_steps_.push_back([name, crystal_hz, multiplier, divider](sim::clock_tree& tree) {
         sim::crystal_params x;
         x.nominal = sim::frequency::hz(crystal_hz);
@@ -168,8 +172,10 @@ void firmware_fixture::describe_clocks(std::function<void(sim::clock_tree&)> f) 
 
 timer_spec& firmware_fixture::add_timer(const std::string& name, const std::string& layout,
                                         const std::string& clock, std::uint64_t base) {
-    const bool is_path = layout.find('/') != std::string::npos || layout.find(".toml") != std::string::npos;
-    const std::string path = is_path ? layout : std::string(TICKBENCH_LAYOUT_DIR) + "/" + layout + ".toml";
+    const bool is_path =
+        layout.find('/') != std::string::npos || layout.find(".toml") != std::string::npos;
+    const std::string path =
+        is_path ? layout : std::string(TICKBENCH_LAYOUT_DIR) + "/" + layout + ".toml";
     timer_spec t;
     t.name = name;
     t.layout = models::load_register_layout_file(path);
@@ -179,9 +185,10 @@ timer_spec& firmware_fixture::add_timer(const std::string& name, const std::stri
     return timers_.back();
 }
 
-const firmware_run& firmware_fixture::run_firmware(std::function<void()> firmware, time_ps duration) {
-    const std::string path = ::testing::TempDir() + "tickbench_fixture_" + std::to_string(getpid()) + "_" +
-                             std::to_string(runs_++);
+const firmware_run& firmware_fixture::run_firmware(std::function<void()> firmware,
+                                                   time_ps duration) {
+    const std::string path = ::testing::TempDir() + "tickbench_fixture_" +
+                             std::to_string(getpid()) + "_" + std::to_string(runs_++);
     std::remove(path.c_str());
     last_ = firmware_run{};
     const child_result child = run_in_child(
@@ -213,13 +220,15 @@ const firmware_run& firmware_fixture::run_firmware(std::function<void()> firmwar
                 p.set_firmware(cpu_, firmware);
                 p.set_map_peripherals(map_peripherals_);
                 p.set_hang_wall_seconds(hang_wall_seconds_);
-                p.on_failure([&](const failure_report& report) { finish(report.outcome, report.text()); });
+                p.on_failure(
+                    [&](const failure_report& report) { finish(report.outcome, report.text()); });
                 p.build();
                 if (before_run_) before_run_(p);
                 p.run(duration);
                 if (after_run_) after_run_(p);
             } catch (const std::exception& e) {
-                finish(run_outcome::failed, std::string("the run could not go on: ") + e.what() + "\n");
+                finish(run_outcome::failed,
+                       std::string("the run could not go on: ") + e.what() + "\n");
                 return 1;
             }
             finish(run_outcome::completed, "");
@@ -232,7 +241,8 @@ const firmware_run& firmware_fixture::run_firmware(std::function<void()> firmwar
     if (!read_results(path, last_)) {
         last_.outcome = run_outcome::failed;
         last_.report = "the run's child process ended without a result (exit code " +
-                       std::to_string(child.exit_code) + ", signal " + std::to_string(child.signal) + ")\n";
+                       std::to_string(child.exit_code) + ", signal " +
+                       std::to_string(child.signal) + ")\n";
     }
     std::remove(path.c_str());
     return last_;

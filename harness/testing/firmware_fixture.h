@@ -49,15 +49,15 @@ struct firmware_log_line {
 // What a run of firmware produced, as the test process sees it.
 struct firmware_run {
     run_outcome outcome = run_outcome::failed;
-    int exit_code = -1;              // the child's exit code (0 completed, 3 firmware failure)
-    int signal = 0;                  // the signal that killed the child outright (should not happen)
-    std::string report;              // the failure report text; empty when the run completed
-    std::string output;              // everything the child wrote to stdout and stderr
-    std::vector<firmware_check> checks;      // every tick_check()/TICK_ASSERT, in order
-    std::vector<firmware_log_line> log;      // every tick_log() line, in order
-    time_ps firmware_time = 0;       // the firmware's local time when the run ended
-    std::uint64_t accesses = 0;      // bus accesses the firmware made
-    bool firmware_returned = false;  // the entry function returned before the run's end
+    int exit_code = -1;  // the child's exit code (0 completed, 3 firmware failure)
+    int signal = 0;      // the signal that killed the child outright (should not happen)
+    std::string report;  // the failure report text; empty when the run completed
+    std::string output;  // everything the child wrote to stdout and stderr
+    std::vector<firmware_check> checks;  // every tick_check()/TICK_ASSERT, in order
+    std::vector<firmware_log_line> log;  // every tick_log() line, in order
+    time_ps firmware_time = 0;           // the firmware's local time when the run ended
+    std::uint64_t accesses = 0;          // bus accesses the firmware made
+    bool firmware_returned = false;      // the entry function returned before the run's end
 
     // Success when the run completed and every firmware check passed; otherwise the failure says
     // how the run ended, which checks failed and where, and the report.
@@ -93,8 +93,8 @@ protected:
     // now, so a bad one fails the test here. Its interrupt line is named after it; lines are
     // numbered in the order timers are added. The returned spec may be adjusted until the next run
     // (priority, injected interrupt delay, counter start value, running at start, access latency).
-    timer_spec& add_timer(const std::string& name, const std::string& layout, const std::string& clock,
-                          std::uint64_t base);
+    timer_spec& add_timer(const std::string& name, const std::string& layout,
+                          const std::string& clock, std::uint64_t base);
     // The cpu's set-up: its clock (by default the first clock added with the helpers above), bus
     // access cost, interrupt entry and exit latencies, quantum, start offset, hang limit.
     cpu_config& cpu() { return cpu_; }
@@ -124,7 +124,8 @@ protected:
 
 private:
     std::vector<std::function<void(sim::clock_tree&)>> clock_steps_;
-    std::deque<timer_spec> timers_;  // a deque: add_timer() hands out references that must stay valid
+    std::deque<timer_spec>
+        timers_;  // a deque: add_timer() hands out references that must stay valid
     cpu_config cpu_;
     bool cpu_clock_chosen_ = false;
     std::map<std::string, std::string> params_;

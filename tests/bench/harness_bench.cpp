@@ -1,15 +1,16 @@
 // Metrics of the firmware harness (issue: firmware harness), each run in a child process of its own
-// (isolated_run.h) on the same part: an 8 MHz crystal and a PLL to a 72 MHz system clock that clocks
-// the CPU and both timers, a 32-bit timer "tick" (layout timer32_dual) at 0x4000_0000 on interrupt
-// line 0 and a 16-bit timer "pwm" (layout timer16_quad) at 0x4000_1000 on line 1.
+// (isolated_run.h) on the same part: an 8 MHz crystal and a PLL to a 72 MHz system clock that
+// clocks the CPU and both timers, a 32-bit timer "tick" (layout timer32_dual) at 0x4000_0000 on
+// interrupt line 0 and a 16-bit timer "pwm" (layout timer16_quad) at 0x4000_1000 on line 1.
 //
 // - bus_access_ns: wall ns per tick_read16() of the 16-bit counter, in a loop of reads that never
 //   needs the kernel (the counter runs, nothing can interrupt); median of several runs.
 // - trapped_access_us: the same read done by unmodified code through a volatile pointer into the
 //   mapped peripheral page (one fault per access); median of several runs.
 // - firmware_realtime_factor: simulated seconds per wall second of firmware that sleeps in
-//   tick_wait_for_interrupt() and, on a 1 kHz reload interrupt of the 32-bit timer, writes new duties
-//   to a 3-channel 25 kHz PWM on the 16-bit timer (preloaded compares); median of several runs.
+//   tick_wait_for_interrupt() and, on a 1 kHz reload interrupt of the 32-bit timer, writes new
+//   duties to a 3-channel 25 kHz PWM on the 16-bit timer (preloaded compares); median of several
+//   runs.
 
 #include "harness/platform.h"
 #include "models/layout/register_layout.h"
@@ -143,8 +144,10 @@ void tick_and_pwm_firmware() {
     // PWM: up counting, channels 0..2 active below their compare, compare preload on.
     tick_write16(pwm_base + pwm_reg::limit, pwm_period - 1);
     for (std::uint32_t c = 0; c < 3; ++c)
-        tick_write16(pwm_base + pwm_reg::match_a + 2 * c, static_cast<std::uint16_t>(pwm_period * (c + 1) / 4));
-    constexpr std::uint16_t shape = 6 | 1 << 3 | 1 << 4;  // pwm_below, compare preload, main output on
+        tick_write16(pwm_base + pwm_reg::match_a + 2 * c,
+                     static_cast<std::uint16_t>(pwm_period * (c + 1) / 4));
+    constexpr std::uint16_t shape =
+        6 | 1 << 3 | 1 << 4;  // pwm_below, compare preload, main output on
     tick_write16(pwm_base + pwm_reg::shape_ab, shape | shape << 8);
     tick_write16(pwm_base + pwm_reg::shape_cd, shape);
     tick_write16(pwm_base + pwm_reg::run, 1);
@@ -166,22 +169,25 @@ double tick_and_pwm_factor(sim::time_ps simulated) {
     p.run(simulated);
     const double wall = seconds_since(t0);
     const std::uint64_t expected = simulated / 1'000'000'000;  // one tick per ms
-    if (ticks + 1 < expected) throw std::runtime_error("the tick handler ran " + std::to_string(ticks) +
-                                                       " times, expected about " + std::to_string(expected));
+    if (ticks + 1 < expected)
+        throw std::runtime_error("the tick handler ran " + std::to_string(ticks) +
+                                 " times, expected about " + std::to_string(expected));
     return static_cast<double>(simulated) / static_cast<double>(sim::ps_per_second) / wall;
 }
 
 double bus_access_ns(bool quick) {
     std::vector<double> runs;
     for (int i = 0; i < (quick ? 1 : 5); ++i)
-        runs.push_back(bench::run_isolated([&] { return api_read_ns(quick ? 10'000 : 1'000'000); }));
+        runs.push_back(
+            bench::run_isolated([&] { return api_read_ns(quick ? 10'000 : 1'000'000); }));
     return median(runs);
 }
 
 double trapped_access_us(bool quick) {
     std::vector<double> runs;
     for (int i = 0; i < (quick ? 1 : 5); ++i)
-        runs.push_back(bench::run_isolated([&] { return trapped_read_us(quick ? 1'000 : 20'000); }));
+        runs.push_back(
+            bench::run_isolated([&] { return trapped_read_us(quick ? 1'000 : 20'000); }));
     return median(runs);
 }
 
@@ -202,9 +208,10 @@ const bench::add_metric trapped_access{{"trapped_access_us", "us",
                                         "one volatile read of the same register through a mapped "
                                         "page (20 000 reads per run, median of 5 runs)",
                                         nullptr, 0, trapped_access_us}};
-const bench::add_metric realtime{{"firmware_realtime_factor", "x",
-                                  "simulated / wall seconds: 1 kHz tick interrupt updating a 3-channel "
-                                  "25 kHz PWM, firmware asleep between ticks (2 s simulated, median of 3)",
-                                  nullptr, 0, firmware_realtime_factor}};
+const bench::add_metric realtime{
+    {"firmware_realtime_factor", "x",
+     "simulated / wall seconds: 1 kHz tick interrupt updating a 3-channel "
+     "25 kHz PWM, firmware asleep between ticks (2 s simulated, median of 3)",
+     nullptr, 0, firmware_realtime_factor}};
 
 }  // namespace

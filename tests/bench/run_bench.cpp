@@ -107,7 +107,8 @@ double peak_rss_kib(const std::string& duration) {
     struct rusage usage {};
     wait4(pid, &status, 0, &usage);
     std::system(("rm -rf " + out).c_str());
-    if (!WIFEXITED(status) || WEXITSTATUS(status) != 0)
+    // Exit 1 only says a check failed (a short run leaves the late checks without data).
+    if (!WIFEXITED(status) || WEXITSTATUS(status) > 1)
         throw std::runtime_error("tickbench run --duration " + duration + " failed (status " +
                                  std::to_string(status) + ")");
     return static_cast<double>(usage.ru_maxrss);

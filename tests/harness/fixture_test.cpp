@@ -99,7 +99,8 @@ TEST_F(fixture_test, interrupts_parameters_and_after_run_inspection) {
     const harness::firmware_run& r = run_firmware(
         [] {
             ticks = 0;
-            const unsigned wanted = static_cast<unsigned>(std::atoi(tick_param("ticks_wanted", "1")));
+            const unsigned wanted =
+                static_cast<unsigned>(std::atoi(tick_param("ticks_wanted", "1")));
             const int line = tick_irq_line("tick");
             TICK_ASSERT(line == 0);
             tick_irq_set_handler(static_cast<unsigned>(line), [] {
