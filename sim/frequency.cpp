@@ -18,7 +18,9 @@ frequency from_wide(u128 num, u128 den) {
     return frequency(static_cast<std::uint64_t>(num), static_cast<std::uint64_t>(den));
 }
 
-std::string u128_to_string(u128 v) {
+}  // namespace
+
+std::string u128_text(u128 v) {
     if (v == 0) return "0";
     std::string s;
     while (v != 0) {
@@ -27,7 +29,6 @@ std::string u128_to_string(u128 v) {
     }
     return s;
 }
-}  // namespace
 
 u128 gcd128(u128 a, u128 b) {
     while (b != 0) {
@@ -80,10 +81,10 @@ std::string frequency::decimal_string() const {
         ++w;
         frac = 0;
     }
-    std::string f = u128_to_string(frac);
+    std::string f = u128_text(frac);
     f.insert(f.begin(), 6 - f.size(), '0');
     while (!f.empty() && f.back() == '0') f.pop_back();
-    return f.empty() ? u128_to_string(w) : u128_to_string(w) + "." + f;
+    return f.empty() ? u128_text(w) : u128_text(w) + "." + f;
 }
 
 std::string frequency::pretty() const {

@@ -37,16 +37,6 @@ std::string_view trim(std::string_view s) {
     return s;
 }
 
-std::string u128_text(u128 v) {
-    if (v == 0) return "0";
-    std::string s;
-    while (v != 0) {
-        s.insert(s.begin(), static_cast<char>('0' + static_cast<int>(v % 10)));
-        v /= 10;
-    }
-    return s;
-}
-
 // Splits "  -1.25 ms " into sign, digits and unit; `what` names the quantity for messages
 // ("a frequency"), `example` is a good value, `accepted` lists the units.
 decimal split(std::string_view original, const char* what, const char* example, const std::string& accepted) {

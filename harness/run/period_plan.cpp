@@ -33,16 +33,6 @@ u128 add(u128 a, u128 b) {
     return r;
 }
 
-std::string u128_text(u128 v) {
-    if (v == 0) return "0";
-    std::string s;
-    while (v != 0) {
-        s.insert(s.begin(), static_cast<char>('0' + static_cast<int>(v % 10)));
-        v /= 10;
-    }
-    return s;
-}
-
 // a/b < c/d for errors (all positive denominators).
 bool less_error(const plan_choice& x, const plan_choice& y) {
     return mul(x.error_num, y.error_den) < mul(y.error_num, x.error_den);
@@ -59,9 +49,9 @@ std::string plan_choice::error_ppm_text() const {
     const u128 whole = error_num / error_den;
     const u128 rest = error_num % error_den;
     const u128 scaled = add(mul(whole, 1'000'000'000), (mul(rest, 2'000'000'000) / error_den + 1) / 2);
-    std::string frac = u128_text(scaled % 1000);
+    std::string frac = sim::u128_text(scaled % 1000);
     frac.insert(frac.begin(), 3 - frac.size(), '0');
-    return std::string(below && scaled != 0 ? "-" : "+") + u128_text(scaled / 1000) + "." + frac;
+    return std::string(below && scaled != 0 ? "-" : "+") + sim::u128_text(scaled / 1000) + "." + frac;
 }
 
 std::string plan_choice::resolution_bits_text() const {

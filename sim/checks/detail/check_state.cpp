@@ -11,16 +11,6 @@ namespace sim::detail {
 
 namespace {
 
-std::string u128_text(u128 v) {
-    if (v == 0) return "0";
-    std::string s;
-    while (v != 0) {
-        s.insert(s.begin(), static_cast<char>('0' + static_cast<int>(v % 10)));
-        v /= 10;
-    }
-    return s;
-}
-
 bool is_angle(const check_spec& s) { return s.kind == check_kind::phase && s.phase_as_angle; }
 
 }  // namespace
