@@ -6,6 +6,7 @@
 // point at the table of the node they name.
 
 #include "sim/clock_tree_loader.h"
+#include "sim/toml_text.h"
 #include "sim/clock_tree_loader_toml.h"
 #include "sim/quantity.h"
 
@@ -49,60 +50,8 @@ const char* const ratio_words = "a ratio such as \"20 ppm\" (units ppb, ppm, %)"
 const char* const tempco_words = "a coefficient such as \"-34 ppb/C2\" (units ppb/C2, ppm/C2)";
 const char* const range_words = "two frequencies [low, high] such as [\"1 MHz\", \"2 MHz\"], \"0 Hz\" leaving a side open";
 
-std::string in_quotes(std::string_view s) { return "\"" + std::string(s) + "\""; }
-
 std::string range_words_int(std::int64_t lo, std::int64_t hi) {
     return "a whole number from " + std::to_string(lo) + " to " + std::to_string(hi);
-}
-
-// How a value reads in a message: strings quoted, numbers as written, containers by their kind.
-std::string got(const toml::node& n) {
-    std::ostringstream s;
-    switch (n.type()) {
-        case toml::node_type::string: return in_quotes(n.as_string()->get());
-        case toml::node_type::integer: return std::to_string(n.as_integer()->get());
-        case toml::node_type::boolean: return n.as_boolean()->get() ? "true" : "false";
-        case toml::node_type::floating_point: s << *n.as_floating_point(); return s.str() + " (a floating-point number)";
-        case toml::node_type::array: return n.as_array()->empty() ? "an empty array" : "an array";
-        case toml::node_type::table: return "a table";
-        case toml::node_type::date: s << *n.as_date(); return "the date " + s.str();
-        case toml::node_type::time: s << *n.as_time(); return "the time of day " + s.str();
-        case toml::node_type::date_time: s << *n.as_date_time(); return "the date-time " + s.str();
-        case toml::node_type::none: break;
-    }
-    return "nothing";
-}
-
-// Levenshtein distance, for "did you mean" hints on misspelt keys and clock names.
-std::size_t edit_distance(const std::string& a, const std::string& b) {
-    std::vector<std::size_t> row(b.size() + 1);
-    for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
-    for (std::size_t i = 1; i <= a.size(); ++i) {
-        std::size_t diag = row[0];
-        row[0] = i;
-        for (std::size_t j = 1; j <= b.size(); ++j) {
-            const std::size_t up = row[j];
-            row[j] = std::min({row[j] + 1, row[j - 1] + 1, diag + (a[i - 1] == b[j - 1] ? 0 : 1)});
-            diag = up;
-        }
-    }
-    return row[b.size()];
-}
-
-// " (did you mean "x"?)" when one candidate is close to `s`, else "".
-std::string hint(const std::string& s, const std::vector<std::string>& candidates) {
-    std::string best;
-    std::size_t best_d = 3;
-    for (const std::string& c : candidates) {
-        const std::size_t d = edit_distance(s, c);
-        // One edit on short words, two on longer ones: "pll" is not a typo of "pin".
-        const std::size_t allowed = std::min(s.size(), c.size()) <= 4 ? 1 : 2;
-        if (d <= allowed && d < best_d) {
-            best_d = d;
-            best = c;
-        }
-    }
-    return best.empty() ? "" : " (did you mean " + in_quotes(best) + "?)";
 }
 
 // An exact signed percentage of a ppb value, e.g. "-10.25 %".
@@ -112,12 +61,6 @@ std::string percent_text(std::int64_t ppb) {
     frac.insert(frac.begin(), 7 - frac.size(), '0');
     while (!frac.empty() && frac.back() == '0') frac.pop_back();
     return (ppb < 0 ? "-" : "") + std::to_string(a / 10'000'000) + (frac.empty() ? "" : "." + frac) + " %";
-}
-
-std::string join(const std::vector<std::string>& v) {
-    std::string s;
-    for (const auto& x : v) s += (s.empty() ? "" : ", ") + x;
-    return s;
 }
 
 bool valid_clock_name(const std::string& n) {

@@ -1,9 +1,10 @@
 #pragma once
 // Private to the scenario loader: a findings list for one file and a reader of one TOML table that
 // checks each key's type and range and says what would be accepted. Same message style as the
-// clock tree loader (sim/clock_tree_loader.cpp), whose helpers are private to that file.
+// clock tree loader (sim/clock_tree_loader.cpp); the wording helpers both use are in sim/toml_text.h.
 
 #include "sim/scenario_error.h"
+#include "sim/toml_text.h"
 
 #include <toml++/toml.h>
 
@@ -15,12 +16,10 @@
 
 namespace harness::run::detail {
 
-std::string in_quotes(const std::string& s);
-// How a value reads in a message: strings quoted, numbers as written, containers by their kind.
-std::string got(const toml::node& n);
-// " (did you mean "x"?)" when one candidate is close to `s`, else "".
-std::string hint(const std::string& s, const std::vector<std::string>& candidates);
-std::string join(const std::vector<std::string>& v, const std::string& separator = ", ");
+using sim::got;
+using sim::hint;
+using sim::in_quotes;
+using sim::join;
 
 // The findings of one file.
 class findings_list {
