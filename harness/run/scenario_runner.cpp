@@ -138,8 +138,10 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     // inside the kernel, after the closers have used them.
     // Neither is ever destroyed: SystemC modules must not be torn down after the kernel's own
     // statics, and one process runs one scenario.
-    platform* const p = new platform();
-    run_state& state = *new run_state();
+    // Held through statics so that they stay reachable: leak checkers see no leak on any path.
+    static platform* const p = new platform();
+    static run_state* const state_ptr = new run_state();
+    run_state& state = *state_ptr;
     state.out = &out;
     state.out_dir = options.out_dir;
     state.s = load_scenario(path, p->clocks(), options.overrides);

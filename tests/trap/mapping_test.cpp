@@ -31,6 +31,11 @@ TEST(mapping_test, maps_common_peripheral_windows_in_the_low_4_gib) {
     // Common practice, no source: peripheral windows start at 0x4000_0000, 0x5000_0000 and
     // 0xe000_0000 on many 32-bit parts; a PIE test binary leaves the low 4 GiB free.
     for (std::uint64_t base : {0x4000'0000u, 0x5000'0000u, 0xe000'0000u, 0x2000'0000u}) {
+#if defined(__SANITIZE_ADDRESS__)
+        // AddressSanitizer keeps [0x8fff7000, 0x2008fff6fff) unmapped as its shadow gap (x86-64
+        // layout, from memory): a window there cannot be mapped in a sanitizer build.
+        if (base >= 0x8fff'7000u) continue;
+#endif
         EXPECT_EQ(map_error(base, 0x400), "") << std::hex << base;
     }
 }
