@@ -99,9 +99,8 @@ void register_file::write_fields(const register_entry& r, std::uint32_t value, s
     }
 }
 
-access_outcome register_file::write(std::uint32_t offset, unsigned length, std::uint32_t value, sim::time_ps t) {
-    check_length(length);
-    t = clamp(t);
+template <typename Visit>
+bool register_file::for_each_overlap(std::uint32_t offset, unsigned length, Visit visit) const {
     const std::uint64_t end = std::uint64_t(offset) + length;
     bool touched = false;
     for (const auto& r : registers_) {
@@ -112,12 +111,21 @@ access_outcome register_file::write(std::uint32_t offset, unsigned length, std::
         touched = true;
         const auto lo = std::max<std::uint64_t>(offset, reg.offset);
         const auto hi = std::min<std::uint64_t>(end, rend);
-        const std::uint32_t covered = byte_mask(unsigned(lo - reg.offset), unsigned(hi - reg.offset));
-        const std::uint64_t wide = value & low_mask(8 * length);
-        const std::uint64_t aligned =
-            reg.offset >= offset ? wide >> (8 * (reg.offset - offset)) : wide << (8 * (offset - reg.offset));
-        write_fields(r, static_cast<std::uint32_t>(aligned) & covered, covered, t, false);
+        visit(r, byte_mask(unsigned(lo - reg.offset), unsigned(hi - reg.offset)));
     }
+    return touched;
+}
+
+access_outcome register_file::write(std::uint32_t offset, unsigned length, std::uint32_t value, sim::time_ps t) {
+    check_length(length);
+    t = clamp(t);
+    const std::uint64_t wide = value & low_mask(8 * length);
+    const bool touched = for_each_overlap(offset, length, [&](const register_entry& r, std::uint32_t covered) {
+        const std::uint32_t reg_offset = r.reg->offset;
+        const std::uint64_t aligned =
+            reg_offset >= offset ? wide >> (8 * (reg_offset - offset)) : wide << (8 * (offset - reg_offset));
+        write_fields(r, static_cast<std::uint32_t>(aligned) & covered, covered, t, false);
+    });
     if (!touched) return reserved(true, offset, length, t);
     return {};
 }
@@ -126,19 +134,9 @@ access_outcome register_file::read(std::uint32_t offset, unsigned length, std::u
     check_length(length);
     t = clamp(t);
     value = 0;
-    const std::uint64_t end = std::uint64_t(offset) + length;
-    bool touched = false;
     std::uint32_t clears = 0;
     std::uint64_t result = 0;
-    for (const auto& r : registers_) {
-        const auto& reg = *r.reg;
-        const std::uint64_t rend = std::uint64_t(reg.offset) + reg.bytes();
-        if (reg.offset >= end) break;
-        if (rend <= offset) continue;
-        touched = true;
-        const auto lo = std::max<std::uint64_t>(offset, reg.offset);
-        const auto hi = std::min<std::uint64_t>(end, rend);
-        const std::uint32_t covered = byte_mask(unsigned(lo - reg.offset), unsigned(hi - reg.offset));
+    const bool touched = for_each_overlap(offset, length, [&](const register_entry& r, std::uint32_t covered) {
         std::uint32_t regval = 0;
         for (const auto& fe : r.fields) {
             const auto& f = fe.map;
@@ -150,8 +148,9 @@ access_outcome register_file::read(std::uint32_t offset, unsigned length, std::u
             if (f.access == access_kind::clear_on_read) clears |= (v & ((covered & fm) >> f.bit)) << f.value_bit;
         }
         const std::uint64_t part = regval & covered;
-        result |= reg.offset >= offset ? part << (8 * (reg.offset - offset)) : part >> (8 * (offset - reg.offset));
-    }
+        const std::uint32_t reg_offset = r.reg->offset;
+        result |= reg_offset >= offset ? part << (8 * (reg_offset - offset)) : part >> (8 * (offset - reg_offset));
+    });
     if (clears != 0) core_.clear_flags(clears, t);
     if (!touched) return reserved(false, offset, length, t);
     value = static_cast<std::uint32_t>(result & low_mask(8 * length));

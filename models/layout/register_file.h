@@ -87,6 +87,10 @@ private:
     std::string peripheral_;
     unmapped_policy policy_;
     std::uint64_t base_;
+    // Calls visit(entry, covered bytes mask) for each register the access [offset, offset + length)
+    // overlaps, in offset order; false when it overlaps none (a reserved location).
+    template <typename Visit>
+    bool for_each_overlap(std::uint32_t offset, unsigned length, Visit visit) const;
     std::vector<register_entry> registers_;  // offset order, parallel to layout_.registers
     sim::time_ps last_ = 0;
 };

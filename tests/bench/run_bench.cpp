@@ -13,6 +13,7 @@
 #include "sim/vcd_writer.h"
 #include "tests/bench/isolated_run.h"
 #include "tests/bench/metric.h"
+#include "tests/bench/pwm_workload.h"
 
 #include <systemc>
 
@@ -26,8 +27,6 @@
 #include <unistd.h>
 
 namespace {
-
-using models::timer_field;
 
 // A sink that declares and drops: the probe's own cost without any output.
 struct null_sink final : sim::signal_sink {
@@ -45,23 +44,13 @@ double probed_pwm(sim::signal_sink& sink, sim::time_ps simulated) {
     sim::crystal_params x;
     x.nominal = sim::frequency::hz(hz);
     tree.add_crystal("kernel", x);
-    models::timer_config cfg;
-    cfg.counter_bits = 32;
-    cfg.channels = 3;
+    const models::timer_config cfg = bench::pwm_config();
     models::timer_module timer("pwm", cfg, tree, "kernel");
     models::timer_probe probe("pwm", cfg, sink, 0);
     timer.add_observer(&probe);
     tree.start();
     sink.begin();
-    const std::uint32_t period = hz / 25'000;
-    auto w = [&](timer_field f, unsigned c, std::uint32_t v) { timer.write(f, c, v, 0); };
-    w(timer_field::period, 0, period - 1);
-    for (unsigned c = 0; c < 3; ++c) {
-        w(timer_field::compare, c, period * (c + 1) / 4);
-        w(timer_field::action, c, static_cast<std::uint32_t>(models::output_action::pwm_below));
-        w(timer_field::main_enable, c, 1);
-    }
-    w(timer_field::enable, 0, 1);
+    bench::program_pwm(hz, [&](models::timer_field f, unsigned c, std::uint32_t v) { timer.write(f, c, v, 0); });
     sc_core::sc_start(sc_core::SC_ZERO_TIME);
     const auto t0 = std::chrono::steady_clock::now();
     sc_core::sc_start(sc_core::sc_time::from_value(simulated));

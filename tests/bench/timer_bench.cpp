@@ -18,6 +18,7 @@
 #include "sim/clock_tree.h"
 #include "tests/bench/isolated_run.h"
 #include "tests/bench/metric.h"
+#include "tests/bench/pwm_workload.h"
 
 #include <systemc>
 
@@ -30,31 +31,12 @@ namespace {
 using models::timer_field;
 using clock_type = std::chrono::steady_clock;
 
-constexpr std::uint64_t pwm_hz = 25'000;
-
 double seconds_since(clock_type::time_point t0) {
     return std::chrono::duration<double>(clock_type::now() - t0).count();
 }
 
-// Programs the 3-channel PWM through a timer_core_if at time 0.
-template <typename Write>
-void program_pwm(std::uint64_t kernel_hz, Write write) {
-    const std::uint32_t period = static_cast<std::uint32_t>(kernel_hz / pwm_hz);  // ticks per period
-    write(timer_field::period, 0, period - 1);
-    for (unsigned c = 0; c < 3; ++c) {
-        write(timer_field::compare, c, period * (c + 1) / 4);
-        write(timer_field::action, c, static_cast<std::uint32_t>(models::output_action::pwm_below));
-        write(timer_field::main_enable, c, 1);
-    }
-    write(timer_field::enable, 0, 1);
-}
-
-models::timer_config pwm_config() {
-    models::timer_config cfg;
-    cfg.counter_bits = 32;
-    cfg.channels = 3;
-    return cfg;
-}
+using bench::program_pwm;
+using bench::pwm_config;
 
 // Counts pin edges: the fast model's observer.
 struct edge_counter final : models::timer_observer {
