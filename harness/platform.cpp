@@ -267,9 +267,7 @@ std::string platform::describe_address(std::uint64_t address) const {
             return s.name + "." + r->name;
         return s.name + ".(reserved)";
     }
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "(unmapped)");
-    return buf;
+    return "(unmapped)";
 }
 
 void platform::fail(run_outcome outcome, const std::string& message, std::vector<std::string> backtrace) {

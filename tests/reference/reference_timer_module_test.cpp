@@ -44,7 +44,3 @@ TEST(reference_timer_module_test, drives_pins_from_clock_edges) {
 
 }  // namespace
 }  // namespace tickbench::test_reference
-
-// The shared SystemC library refers to sc_main from its own main(); this binary's main is
-// GoogleTest's, so sc_main only has to exist.
-int sc_main(int, char*[]) { return 0; }
