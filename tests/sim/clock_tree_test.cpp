@@ -82,8 +82,8 @@ TEST(clock_tree_test, watch_crystal_is_two_to_the_fifteen) {
     // A 32.768 kHz watch crystal is 2^15 Hz, so a 15-stage binary divider gives 1 Hz
     // (common practice, no source).
     sim::clock_tree t;
-    t.add_crystal("lse", crystal(32'768));
-    t.add_divider("one_hz", "lse", 1u << 15);
+    t.add_crystal("watch_xtal", crystal(32'768));
+    t.add_divider("one_hz", "watch_xtal", 1u << 15);
     t.start();
     const auto& d = t.domain("one_hz");
     EXPECT_EQ(d.freq_at(0), frequency::hz(1));
@@ -254,18 +254,18 @@ TEST(clock_tree_test, rc_deviation_outside_tolerance_is_rejected) {
 
 TEST(clock_tree_test, plan_lists_nodes_sources_first_with_what_they_feed) {
     sim::clock_tree t;
-    t.add_divider("apb", "sys", 2);
+    t.add_divider("bus", "sys", 2);
     t.add_crystal("xtal", crystal(8'000'000));
     sim::pll_params p;
     p.multiplier = 9;
     t.add_pll("pll", "xtal", p);
     t.add_mux("sys", {"xtal", "pll"}, 1);
-    t.subscribe("apb", "timer1", nullptr);
+    t.subscribe("bus", "timer1", nullptr);
     t.start();
     const auto rows = t.plan();
     ASSERT_EQ(rows.size(), 4u);
     EXPECT_EQ(rows[0].name, "xtal");
-    EXPECT_EQ(rows.back().name, "apb");
+    EXPECT_EQ(rows.back().name, "bus");
     EXPECT_EQ(rows.back().freq, frequency::hz(36'000'000));
     EXPECT_EQ(rows.back().feeds, std::vector<std::string>{"timer1"});
     EXPECT_EQ(rows[0].feeds, (std::vector<std::string>{"pll", "sys"}));
