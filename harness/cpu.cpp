@@ -18,7 +18,8 @@ cpu::cpu(const sc_core::sc_module_name& name, const cpu_config& cfg, sim::clock_
       irqs_(irqs),
       entry_(std::move(entry)) {
     if (sc_core::sc_get_time_resolution() != sc_core::sc_time(1, sc_core::SC_PS))
-        throw std::logic_error(std::string(basename()) + ": the kernel time resolution must be 1 ps");
+        throw std::logic_error(std::string(basename()) +
+                               ": the kernel time resolution must be 1 ps");
     SC_HAS_PROCESS(cpu);
     SC_THREAD(run);
     // Firmware stacks: drivers and their interrupt handlers nest; 1 MiB is ample for host code.
@@ -136,7 +137,8 @@ void cpu::fail(const std::string& why) {
     throw std::runtime_error(why);
 }
 
-std::uint32_t cpu::transport(bool is_write, std::uint32_t address, unsigned size, std::uint32_t value) {
+std::uint32_t cpu::transport(bool is_write, std::uint32_t address, unsigned size,
+                             std::uint32_t value) {
     ++accesses_;
     if (local_ == last_progress_) {
         if (++stalled_accesses_ > cfg_.hang_accesses)
@@ -210,7 +212,8 @@ void cpu::cycles(std::uint64_t n) {
         if (interrupt_ready_at() <= local_) take_interrupts();
         const time_ps end = after_cycles(local_, remaining);
         time_ps next = horizon_;
-        if (const time_ps r = interrupt_ready_at(); r != sim::max_time_ps) next = std::min(next, std::max(r, local_));
+        if (const time_ps r = interrupt_ready_at(); r != sim::max_time_ps)
+            next = std::min(next, std::max(r, local_));
         if (next >= end || remaining == 0) {
             local_ = end;
             break;
@@ -237,7 +240,8 @@ void cpu::wait_for_interrupt() {
             return;
         }
         time_ps next = horizon_;
-        if (const time_ps r = interrupt_ready_at(); r != sim::max_time_ps) next = std::min(next, std::max(r, local_));
+        if (const time_ps r = interrupt_ready_at(); r != sim::max_time_ps)
+            next = std::min(next, std::max(r, local_));
         if (next == sim::max_time_ps) {
             // Nothing is scheduled anywhere the cpu can see: let the kernel run a quantum (stimulus
             // from outside may arrive) and look again.
@@ -285,7 +289,8 @@ void cpu::set_handler(unsigned line, void (*handler)()) {
 std::vector<access_record> cpu::last_accesses() const {
     std::vector<access_record> v;
     const std::uint64_t n = std::min<std::uint64_t>(accesses_, ring_.size());
-    for (std::uint64_t i = accesses_ - n + 1; i <= accesses_; ++i) v.push_back(ring_[i % ring_.size()]);
+    for (std::uint64_t i = accesses_ - n + 1; i <= accesses_; ++i)
+        v.push_back(ring_[i % ring_.size()]);
     return v;
 }
 

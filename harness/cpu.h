@@ -2,21 +2,22 @@
 // The processor that runs host-compiled firmware against the models (DESIGN section 7).
 //
 // Firmware runs on a SystemC thread of its own and keeps a local time ahead of the kernel (TLM-2.0
-// temporal decoupling). Its local time is a count of CPU clock cycles on the clock tree's CPU clock:
-// every bus access costs `access_cycles`, tick_cycles() what it says. Before each access the cpu
-// brings the peripheral models up to its local time (they compute what firmware would see, and when
-// their interrupt lines rise), lets any deliverable interrupt enter first, then performs the access
-// through its TLM-2.0 initiator socket with the local offset as annotated delay. It hands control to
-// the kernel only when it must: every `quantum` of run-ahead, and when it waits for an interrupt
-// with nothing left to compute locally. So a register read costs no context switch at all.
+// temporal decoupling). Its local time is a count of CPU clock cycles on the clock tree's CPU
+// clock: every bus access costs `access_cycles`, tick_cycles() what it says. Before each access the
+// cpu brings the peripheral models up to its local time (they compute what firmware would see, and
+// when their interrupt lines rise), lets any deliverable interrupt enter first, then performs the
+// access through its TLM-2.0 initiator socket with the local offset as annotated delay. It hands
+// control to the kernel only when it must: every `quantum` of run-ahead, and when it waits for an
+// interrupt with nothing left to compute locally. So a register read costs no context switch at
+// all.
 
 #include "harness/interrupt_controller.h"
 #include "models/timer/timer_types.h"
 #include "sim/clock_tree.h"
 
+#include <tlm_utils/simple_initiator_socket.h>
 #include <systemc>
 #include <tlm>
-#include <tlm_utils/simple_initiator_socket.h>
 
 #include <array>
 #include <atomic>
@@ -29,11 +30,11 @@ namespace harness {
 
 struct cpu_config {
     std::string clock = "cpu";        // clock-tree node that clocks the CPU
-    unsigned access_cycles = 2;        // cost of one bus access
-    unsigned irq_entry_cycles = 12;    // from an interrupt's arrival to its handler's first line
-    unsigned irq_exit_cycles = 10;     // from a handler's return to the interrupted code
-    time_ps quantum = 1'000'000'000;   // longest run-ahead of the kernel (1 ms)
-    std::uint64_t start_offset_cycles = 0;  // firmware starts this many CPU cycles after time 0
+    unsigned access_cycles = 2;       // cost of one bus access
+    unsigned irq_entry_cycles = 12;   // from an interrupt's arrival to its handler's first line
+    unsigned irq_exit_cycles = 10;    // from a handler's return to the interrupted code
+    time_ps quantum = 1'000'000'000;  // longest run-ahead of the kernel (1 ms)
+    std::uint64_t start_offset_cycles = 0;     // firmware starts this many CPU cycles after time 0
     std::uint64_t hang_accesses = 50'000'000;  // accesses without simulated time moving = hang
 };
 
@@ -114,7 +115,9 @@ private:
     void take_interrupts();
     void sync_if_far_ahead();
     void sync();
-    void beat() { heartbeat_.store(heartbeat_.load(std::memory_order_relaxed) + 1, std::memory_order_relaxed); }
+    void beat() {
+        heartbeat_.store(heartbeat_.load(std::memory_order_relaxed) + 1, std::memory_order_relaxed);
+    }
     std::uint32_t transport(bool write, std::uint32_t address, unsigned size, std::uint32_t value);
     void fail(const std::string& why);
 

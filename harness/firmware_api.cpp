@@ -47,7 +47,9 @@ int tick_irq_disable(void) { return harness::running().irq_disable() ? 1 : 0; }
 void tick_irq_enable(void) { harness::running().irq_enable(); }
 void tick_irq_line_enable(unsigned line) { harness::running().irq_line_enable(line, true); }
 void tick_irq_line_disable(unsigned line) { harness::running().irq_line_enable(line, false); }
-void tick_irq_set_handler(unsigned line, tick_irq_handler_fn h) { harness::running().set_handler(line, h); }
+void tick_irq_set_handler(unsigned line, tick_irq_handler_fn h) {
+    harness::running().set_handler(line, h);
+}
 int tick_irq_line(const char* name) {
     try {
         return static_cast<int>(harness::running().interrupts().find(name));
@@ -72,8 +74,10 @@ void tick_log(const char* format, ...) {
     va_end(args);
     auto& ctx = harness::firmware_context::get();
     const sim::time_ps at = harness::running().now();
-    if (ctx.on_log) ctx.on_log(at, buf);
-    else spdlog::info("[{}] firmware: {}", sim::format_time(at), buf);
+    if (ctx.on_log)
+        ctx.on_log(at, buf);
+    else
+        spdlog::info("[{}] firmware: {}", sim::format_time(at), buf);
 }
 
 void tick_check(int passed, const char* name, const char* file, int line) {

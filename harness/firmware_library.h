@@ -22,7 +22,8 @@ public:
     // Opens `path` (RTLD_NOW: every symbol resolved now, so a missing one is an error here, not a
     // crash mid-run) and finds `entry`. Throws firmware_load_error naming the file and the loader's
     // own message.
-    explicit firmware_library(const std::string& path, const std::string& entry = "tick_firmware_main");
+    explicit firmware_library(const std::string& path,
+                              const std::string& entry = "tick_firmware_main");
     ~firmware_library();
     firmware_library(const firmware_library&) = delete;
     firmware_library& operator=(const firmware_library&) = delete;

@@ -45,7 +45,8 @@ time_ps interrupt_controller::ready_at(const line_state& l) const {
     return std::max(rise, l.enabled_at);
 }
 
-std::optional<interrupt_delivery> interrupt_controller::deliverable(time_ps now, unsigned running_priority) const {
+std::optional<interrupt_delivery> interrupt_controller::deliverable(
+    time_ps now, unsigned running_priority) const {
     if (!global_enable_) return std::nullopt;
     std::optional<interrupt_delivery> best;
     unsigned best_priority = running_priority;
@@ -60,7 +61,8 @@ std::optional<interrupt_delivery> interrupt_controller::deliverable(time_ps now,
     return best;
 }
 
-std::optional<time_ps> interrupt_controller::next_ready(time_ps now, unsigned running_priority) const {
+std::optional<time_ps> interrupt_controller::next_ready(time_ps now,
+                                                        unsigned running_priority) const {
     if (!global_enable_) return std::nullopt;
     std::optional<time_ps> best;
     for (const line_state& l : lines_) {

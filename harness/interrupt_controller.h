@@ -3,11 +3,12 @@
 // nesting, as firmware sees them.
 //
 // Peripheral models report their request lines' changes with exact times, often ahead of the
-// SystemC kernel (the firmware runs ahead in local time and the models compute what it sees). So the
-// controller is plain C++ keyed by time: it remembers when each line rose, and the processor model
-// asks "what may interrupt me at local time T, running at priority P?". Lines are level-sensitive:
-// a line stays pending while the peripheral holds it high, so a handler that does not clear its
-// flag runs again. An injected delivery delay per line reproduces late interrupts on purpose.
+// SystemC kernel (the firmware runs ahead in local time and the models compute what it sees). So
+// the controller is plain C++ keyed by time: it remembers when each line rose, and the processor
+// model asks "what may interrupt me at local time T, running at priority P?". Lines are
+// level-sensitive: a line stays pending while the peripheral holds it high, so a handler that does
+// not clear its flag runs again. An injected delivery delay per line reproduces late interrupts on
+// purpose.
 
 #include "sim/clock_domain.h"
 
@@ -24,7 +25,7 @@ using sim::time_ps;
 inline constexpr unsigned idle_priority = 0xffff;
 
 struct interrupt_line_config {
-    std::string name;      // e.g. the peripheral's name
+    std::string name;  // e.g. the peripheral's name
     unsigned priority = 8;
     time_ps extra_delay = 0;  // injected delivery delay (edge-case reproduction)
 };
@@ -60,8 +61,8 @@ public:
     }
 
     // The most urgent interrupt that may enter at local time `now` over code running at
-    // `running_priority`: enabled, unmasked, pending (line high), more urgent than the running code,
-    // and ready (rise + injected delay, and enable time, at or before `now`).
+    // `running_priority`: enabled, unmasked, pending (line high), more urgent than the running
+    // code, and ready (rise + injected delay, and enable time, at or before `now`).
     std::optional<interrupt_delivery> deliverable(time_ps now, unsigned running_priority) const;
     // The earliest time after `now` at which some interrupt becomes deliverable over
     // `running_priority` if nothing else changes, or nothing.

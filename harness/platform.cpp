@@ -5,34 +5,41 @@
 
 #include <spdlog/spdlog.h>
 
+#include <unistd.h>
 #include <atomic>
 #include <chrono>
 #include <condition_variable>
-#include <mutex>
 #include <cstdio>
 #include <iostream>
+#include <mutex>
 #include <sstream>
 #include <stdexcept>
 #include <thread>
-#include <unistd.h>
 
 namespace harness {
 
 const char* to_string(run_outcome o) {
     switch (o) {
-        case run_outcome::completed: return "completed";
-        case run_outcome::crashed: return "crashed";
-        case run_outcome::aborted: return "aborted";
-        case run_outcome::check_failed: return "firmware-check-failed";
-        case run_outcome::hung: return "hung";
-        case run_outcome::failed: return "failed";
+        case run_outcome::completed:
+            return "completed";
+        case run_outcome::crashed:
+            return "crashed";
+        case run_outcome::aborted:
+            return "aborted";
+        case run_outcome::check_failed:
+            return "firmware-check-failed";
+        case run_outcome::hung:
+            return "hung";
+        case run_outcome::failed:
+            return "failed";
     }
     return "?";
 }
 
 std::string failure_report::text() const {
     std::ostringstream s;
-    s << "firmware " << to_string(outcome) << " at " << sim::format_time(at) << ": " << message << "\n";
+    s << "firmware " << to_string(outcome) << " at " << sim::format_time(at) << ": " << message
+      << "\n";
     if (!last_accesses.empty()) {
         s << "last " << last_accesses.size() << " bus accesses (oldest first):\n";
         for (std::size_t i = 0; i < last_accesses.size(); ++i) {
@@ -65,7 +72,8 @@ struct irq_forwarder final : models::timer_observer {
 // Stands in for the cpu on the bus when a part runs without firmware.
 struct platform::idle_initiator : sc_core::sc_module {
     tlm_utils::simple_initiator_socket<idle_initiator> socket;
-    explicit idle_initiator(const sc_core::sc_module_name& n) : sc_core::sc_module(n), socket("socket") {}
+    explicit idle_initiator(const sc_core::sc_module_name& n)
+        : sc_core::sc_module(n), socket("socket") {}
 };
 
 struct platform::timer_slot {
@@ -137,24 +145,27 @@ void platform::set_firmware(const cpu_config& cfg, std::function<void()> entry) 
 void platform::build() {
     clocks_.start();
     std::vector<interrupt_line_config> lines;
-    for (const auto& t : timers_) lines.push_back({t->spec.name, t->spec.irq_priority, t->spec.irq_extra_delay});
+    for (const auto& t : timers_)
+        lines.push_back({t->spec.name, t->spec.irq_priority, t->spec.irq_extra_delay});
     irqs_ = std::make_unique<interrupt_controller>(lines);
     std::vector<models::address_range> ranges;
     for (std::size_t i = 0; i < timers_.size(); ++i) {
         timer_slot& t = *timers_[i];
         const models::timer_config& cfg = t.spec.layout.instance;
-        t.module = std::make_unique<models::timer_module>(t.spec.name.c_str(), cfg, clocks_, t.spec.clock);
+        t.module =
+            std::make_unique<models::timer_module>(t.spec.name.c_str(), cfg, clocks_, t.spec.clock);
         t.irq.irqs = irqs_.get();
         t.irq.line = static_cast<unsigned>(i);
         for (models::timer_observer* o : t.spec.observers) t.module->add_observer(o);
         t.module->add_observer(&t.irq);
-        t.registers = std::make_unique<models::register_file>(t.spec.layout, *t.module, cfg, t.spec.name,
-                                                              policy_, t.spec.base);
+        t.registers = std::make_unique<models::register_file>(t.spec.layout, *t.module, cfg,
+                                                              t.spec.name, policy_, t.spec.base);
         t.registers->apply_reset(0);
-        if (t.spec.counter_start) t.module->write(models::timer_field::counter, 0, *t.spec.counter_start, 0);
+        if (t.spec.counter_start)
+            t.module->write(models::timer_field::counter, 0, *t.spec.counter_start, 0);
         if (t.spec.running_at_start) t.module->write(models::timer_field::enable, 0, 1, 0);
-        t.target = std::make_unique<models::timer_target>((t.spec.name + "_bus").c_str(), *t.registers,
-                                                          t.spec.access_latency);
+        t.target = std::make_unique<models::timer_target>((t.spec.name + "_bus").c_str(),
+                                                          *t.registers, t.spec.access_latency);
         ranges.push_back({t.spec.base, t.spec.layout.size, t.spec.name, &t.spec.layout});
     }
     router_ = std::make_unique<models::address_router>("bus", ranges, policy_);
@@ -167,8 +178,8 @@ void platform::build() {
             fail(why.rfind("firmware hang", 0) == 0 ? run_outcome::hung : run_outcome::failed, why);
         });
         firmware_context::get().on_failed_check = [this](const firmware_check& c) {
-            fail(run_outcome::check_failed,
-                 "firmware check '" + c.name + "' failed at " + c.file + ":" + std::to_string(c.line));
+            fail(run_outcome::check_failed, "firmware check '" + c.name + "' failed at " + c.file +
+                                                ":" + std::to_string(c.line));
         };
     } else {
         // No firmware: the router still needs its target socket bound. A part without a processor
@@ -210,7 +221,8 @@ void platform::run(time_ps duration) {
     if (!built_) build();
     // Crashes in firmware (or anywhere while it runs) become a report, like every other failure.
     trap_engine::instance().set_crash_hook([this](const crash_info& c) {
-        const run_outcome o = c.signal_name == "SIGABRT" ? run_outcome::aborted : run_outcome::crashed;
+        const run_outcome o =
+            c.signal_name == "SIGABRT" ? run_outcome::aborted : run_outcome::crashed;
         fail(o, c.signal_name + (c.message.empty() ? "" : ": " + c.message), c.backtrace);
     });
     trap_engine::ensure_alt_stack();
@@ -225,7 +237,8 @@ void platform::run(time_ps duration) {
                     const unsigned first = a.width > 4 ? 4 : a.width;
                     if (a.is_write) {
                         c->write(address, first, static_cast<std::uint32_t>(a.value));
-                        if (a.width > 4) c->write(address + 4, 4, static_cast<std::uint32_t>(a.value >> 32));
+                        if (a.width > 4)
+                            c->write(address + 4, 4, static_cast<std::uint32_t>(a.value >> 32));
                     } else {
                         a.value = c->read(address, first);
                         if (a.width > 4) a.value |= std::uint64_t{c->read(address + 4, 4)} << 32;
@@ -270,7 +283,8 @@ std::string platform::describe_address(std::uint64_t address) const {
     return "(unmapped)";
 }
 
-void platform::fail(run_outcome outcome, const std::string& message, std::vector<std::string> backtrace) {
+void platform::fail(run_outcome outcome, const std::string& message,
+                    std::vector<std::string> backtrace) {
     static std::atomic<bool> failing{false};
     if (failing.exchange(true)) _exit(3);  // a second failure while reporting the first
     failure_report r;

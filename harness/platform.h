@@ -2,8 +2,8 @@
 // A simulated part ready to run firmware: clock tree, timers behind their register layouts, the
 // address router, the interrupt controller and the cpu, wired the way DESIGN sections 3, 6 and 7
 // describe. Both the GoogleTest fixture and the tickbench command build one; it is also the place
-// where a run's failures (crash, abort, failed firmware check, hang) become a report and exit code 3
-// after every output has been flushed and closed.
+// where a run's failures (crash, abort, failed firmware check, hang) become a report and exit code
+// 3 after every output has been flushed and closed.
 
 #include "harness/cpu.h"
 #include "harness/interrupt_controller.h"
@@ -24,14 +24,14 @@ namespace harness {
 
 // One timer instance of the part.
 struct timer_spec {
-    std::string name;                  // instance name, also its interrupt line's name
-    models::register_layout layout;    // its registers (and instance configuration)
-    std::string clock;                 // clock-tree node of its kernel clock
-    std::uint64_t base = 0;            // bus address of its register window
+    std::string name;                // instance name, also its interrupt line's name
+    models::register_layout layout;  // its registers (and instance configuration)
+    std::string clock;               // clock-tree node of its kernel clock
+    std::uint64_t base = 0;          // bus address of its register window
     unsigned irq_priority = 8;
-    time_ps irq_extra_delay = 0;       // injected interrupt delivery delay
+    time_ps irq_extra_delay = 0;                 // injected interrupt delivery delay
     std::optional<std::uint32_t> counter_start;  // counter value at time 0 (edge-case set-up)
-    bool running_at_start = false;     // counting from time 0, before firmware touches it
+    bool running_at_start = false;               // counting from time 0, before firmware touches it
     sc_core::sc_time access_latency = sc_core::SC_ZERO_TIME;  // added per bus access
     // Watchers of the timer's outputs (waveform and check probes), attached before the reset
     // values are applied so they see every output change from time 0. They must outlive the run.
@@ -51,10 +51,10 @@ const char* to_string(run_outcome o);
 struct failure_report {
     run_outcome outcome = run_outcome::failed;
     std::string message;
-    time_ps at = 0;                          // the firmware's simulated time
+    time_ps at = 0;  // the firmware's simulated time
     std::vector<access_record> last_accesses;
-    std::vector<std::string> access_names;   // register name of each access ("fan_timer.limit")
-    std::vector<std::string> backtrace;      // crashes only
+    std::vector<std::string> access_names;  // register name of each access ("fan_timer.limit")
+    std::vector<std::string> backtrace;     // crashes only
     // A readable, multi-line rendering.
     std::string text() const;
 };

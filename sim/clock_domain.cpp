@@ -103,10 +103,10 @@ bool clock_segment::continues(const clock_segment& prev) const {
     if (!running_ || !prev.running_ || first_tick_ < prev.first_tick_) return false;
     const std::uint64_t n = first_tick_ - prev.first_tick_;
     return step_num_ == prev.step_num_ && step_den_ == prev.step_den_ && freq_ == prev.freq_ &&
-           base_ == prev.base_ + static_cast<u128>(n) * prev.step_num_ &&
-           factor_ == prev.factor_ && source_tick_ == prev.source_tick_ + n * prev.factor_ &&
-           jitter_ == prev.jitter_ && jitter_seed_ == prev.jitter_seed_ &&
-           jitter_step_ == prev.jitter_step_ && jitter_base_ == prev.jitter_base_ + n * prev.jitter_step_;
+           base_ == prev.base_ + static_cast<u128>(n) * prev.step_num_ && factor_ == prev.factor_ &&
+           source_tick_ == prev.source_tick_ + n * prev.factor_ && jitter_ == prev.jitter_ &&
+           jitter_seed_ == prev.jitter_seed_ && jitter_step_ == prev.jitter_step_ &&
+           jitter_base_ == prev.jitter_base_ + n * prev.jitter_step_;
 }
 
 time_ps clock_segment::time_of(std::uint64_t k) const {
@@ -132,12 +132,12 @@ time_ps clock_segment::nominal_time_of(std::uint64_t k) const {
     // round half up of x / d as (2x + d) / (2d); x < 2^64 * d keeps 2x + d inside 128 bits.
     const u128 d = step_den_;
     const u128 x_limit = u64_max * d + d / 2;  // largest x whose rounding still fits 64 bits
-    if (base_ > x_limit || (n != 0 && n > (x_limit - base_) / step_num_))
-        throw_limit("clock edge");
+    if (base_ > x_limit || (n != 0 && n > (x_limit - base_) / step_num_)) throw_limit("clock edge");
     const u128 x = base_ + n * step_num_;
     const u128 num = 2 * x + d;
     // Most edges fit a 64-bit division, several times faster than a 128-bit one.
-    if ((num >> 64) == 0) return static_cast<time_ps>(static_cast<std::uint64_t>(num) / (2 * step_den_));
+    if ((num >> 64) == 0)
+        return static_cast<time_ps>(static_cast<std::uint64_t>(num) / (2 * step_den_));
     return static_cast<time_ps>(num / (2 * d));
 }
 
@@ -163,11 +163,13 @@ clock_domain::clock_domain(const frequency& f, time_ps origin) {
 }
 
 std::size_t clock_domain::segment_of_tick(std::uint64_t k) const {
-    if (segments_.empty()) throw std::out_of_range("clock edge " + std::to_string(k) + " never happens");
+    if (segments_.empty())
+        throw std::out_of_range("clock edge " + std::to_string(k) + " never happens");
     const std::size_t last = segments_.size() - 1;
     if (segments_[last].first_tick() <= k) return last;
-    auto it = std::upper_bound(segments_.begin(), segments_.end(), k,
-                               [](std::uint64_t v, const clock_segment& s) { return v < s.first_tick(); });
+    auto it = std::upper_bound(
+        segments_.begin(), segments_.end(), k,
+        [](std::uint64_t v, const clock_segment& s) { return v < s.first_tick(); });
     if (it == segments_.begin())
         throw std::out_of_range("clock edge " + std::to_string(k) + " was forgotten");
     return static_cast<std::size_t>(it - segments_.begin()) - 1;
@@ -186,7 +188,8 @@ const clock_segment& clock_domain::segment_at(time_ps t) const {
 time_ps clock_domain::time_of(std::uint64_t k) const {
     const clock_segment& s = segments_[segment_of_tick(k)];
     if (!s.is_running())
-        throw std::out_of_range("clock edge " + std::to_string(k) + " never happens: the clock is stopped");
+        throw std::out_of_range("clock edge " + std::to_string(k) +
+                                " never happens: the clock is stopped");
     return s.time_of(k);
 }
 
@@ -194,7 +197,8 @@ std::optional<clock_edge> clock_domain::edge_at_or_after(time_ps t) const {
     // Find the segment in force at t; if it is stopped, the next running segment's first edge.
     auto it = std::upper_bound(segments_.begin(), segments_.end(), t,
                                [](time_ps v, const clock_segment& s) { return v < s.start(); });
-    std::size_t i = it == segments_.begin() ? 0 : static_cast<std::size_t>(it - segments_.begin()) - 1;
+    std::size_t i =
+        it == segments_.begin() ? 0 : static_cast<std::size_t>(it - segments_.begin()) - 1;
     for (; i < segments_.size(); ++i) {
         const clock_segment& s = segments_[i];
         if (!s.is_running()) continue;
@@ -283,8 +287,10 @@ std::string format_time(time_ps t) {
         const char* name;
         int digits;
     };
-    static const unit units[] = {{ps_per_second, "s", 12}, {1'000'000'000ULL, "ms", 9},
-                                 {1'000'000ULL, "us", 6}, {1'000ULL, "ns", 3}};
+    static const unit units[] = {{ps_per_second, "s", 12},
+                                 {1'000'000'000ULL, "ms", 9},
+                                 {1'000'000ULL, "us", 6},
+                                 {1'000ULL, "ns", 3}};
     for (const unit& u : units) {
         if (t < u.scale) continue;
         std::string frac = std::to_string(t % u.scale);

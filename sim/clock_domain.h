@@ -5,18 +5,18 @@
 // timeline of segments; within a segment edge k lies at
 //     round((base + (k - first_tick) * step_num) / step_den)  picoseconds,
 // where step_num/step_den is the exact period in ps and base is the exact (sub-picosecond) time of
-// the segment's first edge scaled by step_den. All of it is 128-bit integer arithmetic, so the error
-// of any edge is under half a picosecond however long the run. Tick indices run on across segments:
-// a frequency change or a stop does not restart the count. tick_at() and time_of() are the only
-// conversions between time and tick index in the project (DESIGN section 2).
+// the segment's first edge scaled by step_den. All of it is 128-bit integer arithmetic, so the
+// error of any edge is under half a picosecond however long the run. Tick indices run on across
+// segments: a frequency change or a stop does not restart the count. tick_at() and time_of() are
+// the only conversions between time and tick index in the project (DESIGN section 2).
 
 #include "sim/frequency.h"
 
 #include <cstdint>
 #include <limits>
 #include <optional>
-#include <string>
 #include <stdexcept>
+#include <string>
 #include <vector>
 
 namespace sim {
@@ -67,24 +67,28 @@ public:
     std::uint64_t source_tick() const { return source_tick_; }
     std::uint64_t factor() const { return factor_; }
     // Parent tick of edge k (k >= first_tick) of a derived segment.
-    std::uint64_t source_tick_of(std::uint64_t k) const { return source_tick_ + (k - first_tick_) * factor_; }
+    std::uint64_t source_tick_of(std::uint64_t k) const {
+        return source_tick_ + (k - first_tick_) * factor_;
+    }
     time_ps jitter() const { return jitter_; }
     // Exact period in ps as a fraction (numerator, denominator); 0/1 when stopped.
     std::uint64_t period_num() const { return step_num_; }
     std::uint64_t period_den() const { return step_den_; }
-    // Same timing, tick numbering and parentage: used to skip propagating a change that changed nothing.
+    // Same timing, tick numbering and parentage: used to skip propagating a change that changed
+    // nothing.
     bool same_as(const clock_segment& o) const;
     // True when this running segment only restates `prev`: the same edges, numbering and parentage
     // from its first tick on, so appending it would change nothing.
     bool continues(const clock_segment& prev) const;
 
-    // Time of edge k (k >= first_tick) of a running segment; throws time_limit_error past the limit.
+    // Time of edge k (k >= first_tick) of a running segment; throws time_limit_error past the
+    // limit.
     time_ps time_of(std::uint64_t k) const;
     // Index of the first edge at or after t of a running segment (first_tick if t <= start).
     std::uint64_t tick_at(time_ps t) const;
 
 private:
-        time_ps nominal_time_of(std::uint64_t k) const;
+    time_ps nominal_time_of(std::uint64_t k) const;
     std::uint64_t nominal_tick_at(time_ps t) const;
     std::uint64_t source_tick_ = 0;
     std::uint64_t factor_ = 1;

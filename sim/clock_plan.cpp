@@ -14,12 +14,14 @@ std::string join(const std::vector<std::string>& v) {
     return s.empty() ? "-" : s;
 }
 std::string exact_hz(const frequency& f) {
-    return f.den() == 1 ? std::to_string(f.num()) : std::to_string(f.num()) + "/" + std::to_string(f.den());
+    return f.den() == 1 ? std::to_string(f.num())
+                        : std::to_string(f.num()) + "/" + std::to_string(f.den());
 }
 }  // namespace
 
 std::string clock_plan_text(const std::vector<clock_plan_row>& rows) {
-    const std::vector<std::string> head = {"clock", "kind", "frequency (Hz)", "exact (Hz)", "settings", "feeds"};
+    const std::vector<std::string> head = {"clock",      "kind",     "frequency (Hz)",
+                                           "exact (Hz)", "settings", "feeds"};
     std::vector<std::vector<std::string>> cells;
     for (const auto& r : rows)
         cells.push_back({r.name, to_string(r.kind), r.running ? r.freq.decimal_string() : "stopped",
@@ -35,8 +37,10 @@ std::string clock_plan_text(const std::vector<clock_plan_row>& rows) {
         for (std::size_t c = 0; c < row.size(); ++c) {
             std::string cell = row[c];
             // Right-align the numbers, left-align the words; the last column is not padded.
-            if (c == 2 || c == 3) cell.insert(cell.begin(), w[c] - cell.size(), ' ');
-            else if (c + 1 < row.size()) cell.append(w[c] - cell.size(), ' ');
+            if (c == 2 || c == 3)
+                cell.insert(cell.begin(), w[c] - cell.size(), ' ');
+            else if (c + 1 < row.size())
+                cell.append(w[c] - cell.size(), ' ');
             l += (c ? "  " : "") + cell;
         }
         out << l << '\n';

@@ -9,13 +9,20 @@ namespace sim {
 
 const char* to_string(clock_kind k) {
     switch (k) {
-        case clock_kind::crystal: return "crystal";
-        case clock_kind::rc_oscillator: return "rc-oscillator";
-        case clock_kind::external: return "external";
-        case clock_kind::pll: return "pll";
-        case clock_kind::divider: return "divider";
-        case clock_kind::mux: return "mux";
-        case clock_kind::gate: return "gate";
+        case clock_kind::crystal:
+            return "crystal";
+        case clock_kind::rc_oscillator:
+            return "rc-oscillator";
+        case clock_kind::external:
+            return "external";
+        case clock_kind::pll:
+            return "pll";
+        case clock_kind::divider:
+            return "divider";
+        case clock_kind::mux:
+            return "mux";
+        case clock_kind::gate:
+            return "gate";
     }
     return "?";
 }
@@ -87,7 +94,8 @@ clock_tree::node& clock_tree::add(const std::string& name, clock_kind k) {
     n->kind = k;
     n->history.emplace_back(0, settings{});
     nodes_.push_back(std::move(n));
-    by_name_.emplace(name, nodes_.size() - 1);  // a duplicate keeps the first; problems() reports it
+    by_name_.emplace(name,
+                     nodes_.size() - 1);  // a duplicate keeps the first; problems() reports it
     return *nodes_.back();
 }
 
@@ -105,7 +113,8 @@ void clock_tree::add_pll(const std::string& name, const std::string& input, cons
     n.input_names = {input};
     n.history.back().second.pll = p;
 }
-void clock_tree::add_divider(const std::string& name, const std::string& input, std::uint64_t factor) {
+void clock_tree::add_divider(const std::string& name, const std::string& input,
+                             std::uint64_t factor) {
     node& n = add(name, clock_kind::divider);
     n.input_names = {input};
     n.history.back().second.factor = factor;
@@ -181,11 +190,13 @@ std::vector<frequency> settled(const std::vector<std::size_t>& topo,
                     f[id] = c.rc.nominal.offset_ppb(ppb);
                 break;
             }
-            case clock_kind::external: f[id] = c.external; break;
+            case clock_kind::external:
+                f[id] = c.external;
+                break;
             case clock_kind::pll:
                 if (c.pll.enabled && c.pll.input_divider != 0 && c.pll.output_divider != 0)
                     f[id] = f[inputs[id][0]].scaled(c.pll.multiplier,
-                                                     c.pll.input_divider * c.pll.output_divider);
+                                                    c.pll.input_divider * c.pll.output_divider);
                 break;
             case clock_kind::divider:
                 if (c.factor != 0) f[id] = f[inputs[id][0]].scaled(1, c.factor);
@@ -223,7 +234,8 @@ std::string pll_rule_broken(const pll_params& p, const frequency& in) {
                std::to_string(p.multiplier) + ") is " + vco.pretty() + ", outside the allowed " +
                range(p.vco_range);
     if (!p.output_range.contains(out))
-        return "output frequency is " + out.pretty() + ", outside the allowed " + range(p.output_range);
+        return "output frequency is " + out.pretty() + ", outside the allowed " +
+               range(p.output_range);
     return {};
 }
 }  // namespace
@@ -278,7 +290,8 @@ std::vector<std::string> clock_tree::problems() const {
                     out.push_back(who + ": trim range is empty (minimum above maximum)");
                 else if (s.rc.trim < s.rc.trim_min || s.rc.trim > s.rc.trim_max)
                     out.push_back(who + ": trim " + std::to_string(s.rc.trim) + " is outside " +
-                                  std::to_string(s.rc.trim_min) + ".." + std::to_string(s.rc.trim_max));
+                                  std::to_string(s.rc.trim_min) + ".." +
+                                  std::to_string(s.rc.trim_max));
                 break;
             case clock_kind::divider:
                 if (s.factor == 0) out.push_back(who + ": divide factor is 0; accepted: 1 or more");
@@ -289,7 +302,8 @@ std::vector<std::string> clock_tree::problems() const {
                                   " does not exist; accepted: 0.." +
                                   std::to_string(n->input_names.size() - 1));
                 break;
-            default: break;
+            default:
+                break;
         }
     }
     if (!inputs_ok) return out;
@@ -315,7 +329,8 @@ std::vector<std::string> clock_tree::problems() const {
             std::string loop;
             for (std::size_t i = 0; i < nodes_.size(); ++i)
                 if (pending[i] != 0) loop += (loop.empty() ? "" : ", ") + nodes_[i]->name;
-            out.push_back("clock loop: " + loop + " feed each other; a clock's inputs must not depend on it");
+            out.push_back("clock loop: " + loop +
+                          " feed each other; a clock's inputs must not depend on it");
             return out;
         }
     }
@@ -381,7 +396,8 @@ void clock_tree::start() {
 
 namespace {
 // Segments of a timeline that start at or after t.
-std::vector<clock_segment>::const_iterator first_from(const std::vector<clock_segment>& segs, time_ps t) {
+std::vector<clock_segment>::const_iterator first_from(const std::vector<clock_segment>& segs,
+                                                      time_ps t) {
     return std::lower_bound(segs.begin(), segs.end(), t,
                             [](const clock_segment& s, time_ps v) { return s.start() < v; });
 }
@@ -413,7 +429,8 @@ std::vector<time_ps> clock_tree::event_times(std::size_t id, time_ps from) const
         for (auto s = first_from(segs, from); s != segs.end(); ++s) t.push_back(s->start());
     }
     if (n.kind == clock_kind::pll) {
-        // Each disturbance from `from` on, and the last one before it, may end in a lock after `from`.
+        // Each disturbance from `from` on, and the last one before it, may end in a lock after
+        // `from`.
         std::vector<time_ps> disturbances = t;
         if (from > 0) disturbances.push_back(last_disturbance(id, from - 1));
         for (time_ps d : disturbances) {
@@ -452,28 +469,32 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
             return source(s.crystal.nominal.offset_ppb(crystal_ppb(s.crystal)), s.crystal.jitter,
                           s.crystal.seed);
         case clock_kind::rc_oscillator:
-            return source(s.rc.nominal.offset_ppb(s.rc.deviation_ppb + s.rc.trim * s.rc.trim_step_ppb),
-                          0, 0);
+            return source(
+                s.rc.nominal.offset_ppb(s.rc.deviation_ppb + s.rc.trim * s.rc.trim_step_ppb), 0, 0);
         case clock_kind::external:
             if (s.external.is_zero()) return stopped();
             return source(s.external, 0, 0);
         case clock_kind::gate:
             return s.enabled ? follow(n.inputs[0]) : stopped();
         case clock_kind::mux:
-            return s.selected < 0 ? stopped() : follow(n.inputs[static_cast<std::size_t>(s.selected)]);
+            return s.selected < 0 ? stopped()
+                                  : follow(n.inputs[static_cast<std::size_t>(s.selected)]);
         case clock_kind::divider: {
             const time_ps from = at == 0 ? 0 : after;
             const clock_segment& in = nodes_[n.inputs[0]]->out.segment_at(from);
             if (!in.is_running()) return stopped();
             std::uint64_t j = in.tick_at(from);
             if (next > 0) {
-                // Count on from the last output edge: its parent edge plus the factor then in force.
+                // Count on from the last output edge: its parent edge plus the factor then in
+                // force.
                 const std::uint64_t last = next - 1;
                 const auto& segs = n.out.segments();
-                auto it = std::upper_bound(segs.begin(), segs.end(), last,
-                                           [](std::uint64_t v, const clock_segment& c) { return v < c.first_tick(); });
+                auto it = std::upper_bound(
+                    segs.begin(), segs.end(), last,
+                    [](std::uint64_t v, const clock_segment& c) { return v < c.first_tick(); });
                 if (it != segs.begin() && (it - 1)->is_running())
-                    j = std::max(in.first_tick(), (it - 1)->source_tick_of(last) + (it - 1)->factor());
+                    j = std::max(in.first_tick(),
+                                 (it - 1)->source_tick_of(last) + (it - 1)->factor());
             }
             return clock_segment::derived(in, j, next, s.factor);
         }
@@ -485,11 +506,13 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
             if (at - d < lock || !s.pll.enabled || !in.is_running()) return stopped();
             const std::string rule = pll_rule_broken(s.pll, in.freq());
             if (!rule.empty())
-                throw clock_config_error("pll '" + n.name + "' at " + format_time(at) + ": " + rule);
+                throw clock_config_error("pll '" + n.name + "' at " + format_time(at) + ": " +
+                                         rule);
             // With no lock time the new output starts right after the disturbance's instant.
             const time_ps origin = (lock == 0 && at > 0) ? after : at;
             return clock_segment::running(
-                next, origin, in.freq().scaled(s.pll.multiplier, s.pll.input_divider * s.pll.output_divider));
+                next, origin,
+                in.freq().scaled(s.pll.multiplier, s.pll.input_divider * s.pll.output_divider));
         }
     }
     return clock_segment::stopped(next, at);
@@ -563,7 +586,8 @@ time_ps clock_tree::select(const std::string& mux, const std::string& input, tim
     if (pos == n.input_names.end()) {
         std::string accepted;
         for (const auto& i : n.input_names) accepted += (accepted.empty() ? "" : ", ") + i;
-        throw clock_config_error("mux '" + mux + "' has no input '" + input + "'; accepted: " + accepted);
+        throw clock_config_error("mux '" + mux + "' has no input '" + input +
+                                 "'; accepted: " + accepted);
     }
     const std::int64_t want = pos - n.input_names.begin();
     settings s = begin_change(n, at);
@@ -630,9 +654,9 @@ time_ps clock_tree::set_trim(const std::string& rc, std::int64_t trim, time_ps a
     node& n = find(rc, clock_kind::rc_oscillator);
     settings s = begin_change(n, at);
     if (trim < s.rc.trim_min || trim > s.rc.trim_max)
-        throw clock_config_error("rc-oscillator '" + rc + "' at " + format_time(at) + ": trim " +
-                                 std::to_string(trim) + " is outside " + std::to_string(s.rc.trim_min) +
-                                 ".." + std::to_string(s.rc.trim_max));
+        throw clock_config_error(
+            "rc-oscillator '" + rc + "' at " + format_time(at) + ": trim " + std::to_string(trim) +
+            " is outside " + std::to_string(s.rc.trim_min) + ".." + std::to_string(s.rc.trim_max));
     s.rc.trim = trim;
     put(n, at, s);
     rebuild_and_propagate(by_name_.at(rc), at);
@@ -656,7 +680,8 @@ time_ps clock_tree::set_temperature(const std::string& crystal, std::int64_t cel
     s.crystal.temperature_c = celsius;
     if (std::llabs(crystal_ppb(s.crystal)) >= ppb_limit)
         throw clock_config_error("crystal '" + crystal + "' at " + format_time(at) + ": offset " +
-                                 ppm_text(crystal_ppb(s.crystal)) + " at " + std::to_string(celsius) +
+                                 ppm_text(crystal_ppb(s.crystal)) + " at " +
+                                 std::to_string(celsius) +
                                  " C is implausible; accepted: within +/-100000 ppm");
     put(n, at, s);
     rebuild_and_propagate(by_name_.at(crystal), at);
@@ -670,7 +695,8 @@ void clock_tree::forget_before(time_ps t) {
         // Keep the settings in force at t and everything after.
         std::size_t keep = 0;
         while (keep + 1 < n->history.size() && n->history[keep + 1].first <= t) ++keep;
-        n->history.erase(n->history.begin(), n->history.begin() + static_cast<std::ptrdiff_t>(keep));
+        n->history.erase(n->history.begin(),
+                         n->history.begin() + static_cast<std::ptrdiff_t>(keep));
     }
 }
 
@@ -717,25 +743,36 @@ std::vector<clock_plan_row> clock_tree::plan(time_ps at) const {
         std::ostringstream d;
         switch (n.kind) {
             case clock_kind::crystal:
-                d << "nominal " << c.crystal.nominal.pretty() << ", offset " << ppm_text(crystal_ppb(c.crystal));
+                d << "nominal " << c.crystal.nominal.pretty() << ", offset "
+                  << ppm_text(crystal_ppb(c.crystal));
                 if (c.crystal.jitter) d << ", jitter " << c.crystal.jitter << " ps";
                 break;
             case clock_kind::rc_oscillator:
-                d << "nominal " << c.rc.nominal.pretty() << ", deviation " << ppm_text(c.rc.deviation_ppb)
-                  << ", trim " << c.rc.trim << " x " << ppm_text(c.rc.trim_step_ppb);
+                d << "nominal " << c.rc.nominal.pretty() << ", deviation "
+                  << ppm_text(c.rc.deviation_ppb) << ", trim " << c.rc.trim << " x "
+                  << ppm_text(c.rc.trim_step_ppb);
                 break;
-            case clock_kind::external: d << (c.external.is_zero() ? "not driven" : "driven"); break;
+            case clock_kind::external:
+                d << (c.external.is_zero() ? "not driven" : "driven");
+                break;
             case clock_kind::pll:
-                if (!c.pll.enabled) d << "disabled";
+                if (!c.pll.enabled)
+                    d << "disabled";
                 else
                     d << "input / " << c.pll.input_divider << " x " << c.pll.multiplier << " / "
                       << c.pll.output_divider << ", lock " << format_time(c.pll.lock_time);
                 break;
-            case clock_kind::divider: d << "divide by " << c.factor; break;
-            case clock_kind::mux:
-                d << "selects " << (c.selected >= 0 ? n.input_names[static_cast<std::size_t>(c.selected)] : "nothing (switching)");
+            case clock_kind::divider:
+                d << "divide by " << c.factor;
                 break;
-            case clock_kind::gate: d << (c.enabled ? "open" : "closed"); break;
+            case clock_kind::mux:
+                d << "selects "
+                  << (c.selected >= 0 ? n.input_names[static_cast<std::size_t>(c.selected)]
+                                      : "nothing (switching)");
+                break;
+            case clock_kind::gate:
+                d << (c.enabled ? "open" : "closed");
+                break;
         }
         r.settings = d.str();
         rows.push_back(std::move(r));

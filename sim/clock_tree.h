@@ -6,9 +6,10 @@
 // Each node's output is a pure function of its inputs' timelines and its own time-stamped settings.
 // A run-time change (a multiplexer switch, a divider or PLL reprogrammed, a gate opened) adds a
 // setting at the instant it takes effect; the node then rebuilds its timeline from that instant and
-// the change flows downstream in topological order. A rebuild that reproduces the same timeline stops
-// the flow, so consumers hear only of real changes. Nothing here needs a running SystemC kernel: the
-// kernel shell and the peripheral models ask this tree, and unit tests drive it directly.
+// the change flows downstream in topological order. A rebuild that reproduces the same timeline
+// stops the flow, so consumers hear only of real changes. Nothing here needs a running SystemC
+// kernel: the kernel shell and the peripheral models ask this tree, and unit tests drive it
+// directly.
 
 #include "sim/clock_domain.h"
 #include "sim/frequency.h"
@@ -43,12 +44,13 @@ struct crystal_params {
     std::int64_t tempco_ppb_per_c2 = 0;
     std::int64_t turnover_c = 25;
     std::int64_t temperature_c = 25;
-    time_ps jitter = 0;          // peak phase jitter per edge, seeded, under half a period
+    time_ps jitter = 0;  // peak phase jitter per edge, seeded, under half a period
     std::uint64_t seed = 0;
 };
 
 // An RC oscillator: nominal frequency, off by `deviation_ppb` (which must lie inside the tolerance
-// band), corrected by trim * trim_step_ppb; trim is settable at run time within [trim_min, trim_max].
+// band), corrected by trim * trim_step_ppb; trim is settable at run time within [trim_min,
+// trim_max].
 struct rc_params {
     frequency nominal;
     std::int64_t tolerance_ppb = 0;
@@ -111,7 +113,8 @@ public:
     void add_pll(const std::string& name, const std::string& input, const pll_params& p);
     void add_divider(const std::string& name, const std::string& input, std::uint64_t factor);
     // selected is an index into inputs.
-    void add_mux(const std::string& name, const std::vector<std::string>& inputs, std::size_t selected);
+    void add_mux(const std::string& name, const std::vector<std::string>& inputs,
+                 std::size_t selected);
     void add_gate(const std::string& name, const std::string& input, bool enabled);
 
     // A consumer (a peripheral, a probe) listening to a node. With needs_running, the node must be

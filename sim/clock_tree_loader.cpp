@@ -2,13 +2,13 @@
 //
 // Reading goes in two passes. The first checks each table against the schema of its kind and
 // collects every finding rather than stopping at the first, so one run shows all the typos. Only
-// when the tables are sound is the tree built and its own rules (problems()) checked; those findings
-// point at the table of the node they name.
+// when the tables are sound is the tree built and its own rules (problems()) checked; those
+// findings point at the table of the node they name.
 
 #include "sim/clock_tree_loader.h"
-#include "sim/toml_text.h"
 #include "sim/clock_tree_loader_toml.h"
 #include "sim/quantity.h"
+#include "sim/toml_text.h"
 
 #include <algorithm>
 #include <cctype>
@@ -21,8 +21,8 @@
 #include <limits>
 #include <map>
 #include <optional>
-#include <tuple>
 #include <sstream>
+#include <tuple>
 #include <vector>
 
 namespace sim {
@@ -31,24 +31,26 @@ namespace {
 
 constexpr std::int64_t int64_max = std::numeric_limits<std::int64_t>::max();
 // Integer settings are bounded so that products of them cannot overflow 64 bits.
-constexpr std::int64_t max_ratio_factor = 1'000'000;      // PLL multiplier and dividers
+constexpr std::int64_t max_ratio_factor = 1'000'000;       // PLL multiplier and dividers
 constexpr std::int64_t max_divide_factor = 1'000'000'000;  // divider nodes
 constexpr std::int64_t max_trim = 1'000'000;
 constexpr std::int64_t min_celsius = -273;
 constexpr std::int64_t max_celsius = 1000;
 constexpr std::int64_t max_ratio_ppb = 1'000'000'000;  // 100 %
 constexpr std::int64_t max_tempco_ppb = 1'000'000;     // 1000 ppm/C2
-// The clock tree treats an RC oscillator trimmed 10 % or more off nominal as stopped (its ppb_limit);
-// the loader refuses such a setting instead of letting it pass as a silent 0 Hz.
+// The clock tree treats an RC oscillator trimmed 10 % or more off nominal as stopped (its
+// ppb_limit); the loader refuses such a setting instead of letting it pass as a silent 0 Hz.
 constexpr std::int64_t rc_offset_limit_ppb = 100'000'000;
 
 const char* const kind_names = "crystal, rc-oscillator, external, pll, divider, mux, gate";
 
-const char* const frequency_words = "a frequency such as \"8 MHz\" (units Hz, kHz, MHz, GHz) or a whole number of hertz";
+const char* const frequency_words =
+    "a frequency such as \"8 MHz\" (units Hz, kHz, MHz, GHz) or a whole number of hertz";
 const char* const time_words = "a time such as \"200 us\" (units ps, ns, us, \xC2\xB5s, ms, s)";
 const char* const ratio_words = "a ratio such as \"20 ppm\" (units ppb, ppm, %)";
 const char* const tempco_words = "a coefficient such as \"-34 ppb/C2\" (units ppb/C2, ppm/C2)";
-const char* const range_words = "two frequencies [low, high] such as [\"1 MHz\", \"2 MHz\"], \"0 Hz\" leaving a side open";
+const char* const range_words =
+    "two frequencies [low, high] such as [\"1 MHz\", \"2 MHz\"], \"0 Hz\" leaving a side open";
 
 std::string range_words_int(std::int64_t lo, std::int64_t hi) {
     return "a whole number from " + std::to_string(lo) + " to " + std::to_string(hi);
@@ -60,7 +62,8 @@ std::string percent_text(std::int64_t ppb) {
     std::string frac = std::to_string(a % 10'000'000);
     frac.insert(frac.begin(), 7 - frac.size(), '0');
     while (!frac.empty() && frac.back() == '0') frac.pop_back();
-    return (ppb < 0 ? "-" : "") + std::to_string(a / 10'000'000) + (frac.empty() ? "" : "." + frac) + " %";
+    return (ppb < 0 ? "-" : "") + std::to_string(a / 10'000'000) +
+           (frac.empty() ? "" : "." + frac) + " %";
 }
 
 bool valid_clock_name(const std::string& n) {
@@ -75,13 +78,15 @@ class findings_list {
 public:
     explicit findings_list(std::string file) : file_(std::move(file)) {}
     void add(const toml::source_region& where, std::string key, std::string message) {
-        list_.push_back({file_, where.begin.line, where.begin.column, std::move(key), std::move(message)});
+        list_.push_back(
+            {file_, where.begin.line, where.begin.column, std::move(key), std::move(message)});
     }
     bool empty() const { return list_.empty(); }
     [[noreturn]] void raise() {
-        std::stable_sort(list_.begin(), list_.end(), [](const scenario_finding& a, const scenario_finding& b) {
-            return std::tie(a.line, a.column) < std::tie(b.line, b.column);
-        });
+        std::stable_sort(list_.begin(), list_.end(),
+                         [](const scenario_finding& a, const scenario_finding& b) {
+                             return std::tie(a.line, a.column) < std::tie(b.line, b.column);
+                         });
         throw scenario_error(list_);
     }
 
@@ -109,7 +114,7 @@ struct node_spec {
     std::uint64_t factor = 1;
     std::vector<clock_ref> inputs;
     std::optional<clock_ref> select;  // mux: the selected input by name
-    bool enabled = true;               // gate
+    bool enabled = true;              // gate
 };
 
 // Reads the keys of one node table, each with its type and range, reporting what is wrong.
@@ -127,7 +132,8 @@ public:
             const std::string key(k.str());
             if (std::find(allowed.begin(), allowed.end(), key) != allowed.end()) continue;
             out_.add(k.source(), key_path(key),
-                     "unknown key " + in_quotes(key) + " for " + what + hint(key, allowed) + "; accepted: " + join(allowed));
+                     "unknown key " + in_quotes(key) + " for " + what + hint(key, allowed) +
+                         "; accepted: " + join(allowed));
         }
     }
 
@@ -135,7 +141,8 @@ public:
     const toml::node* get(const std::string& key, bool required, const std::string& expected) {
         const toml::node* n = t_.get(key);
         if (!n && required)
-            out_.add(t_.source(), path_, "missing key " + in_quotes(key) + "; accepted: " + expected);
+            out_.add(t_.source(), path_,
+                     "missing key " + in_quotes(key) + "; accepted: " + expected);
         return n;
     }
 
@@ -143,7 +150,8 @@ public:
         out_.add(n.source(), key_path(key), "expected " + expected + ", got " + got(n));
     }
 
-    std::optional<std::int64_t> integer(const std::string& key, std::int64_t lo, std::int64_t hi, bool required) {
+    std::optional<std::int64_t> integer(const std::string& key, std::int64_t lo, std::int64_t hi,
+                                        bool required) {
         const std::string expected = range_words_int(lo, hi);
         const toml::node* n = get(key, required, expected);
         if (!n) return std::nullopt;
@@ -167,7 +175,8 @@ public:
 
     // A quantity string parsed by `parse`; quantity errors are reported with their own message.
     template <typename T>
-    std::optional<T> quantity(const toml::node& n, const std::string& key, const std::string& expected,
+    std::optional<T> quantity(const toml::node& n, const std::string& key,
+                              const std::string& expected,
                               const std::function<T(std::string_view)>& parse) {
         if (!n.is_string()) {
             wrong(n, key, expected);
@@ -202,7 +211,8 @@ public:
 
     // A ratio in ppb; `lo` bounds it from below (0 for a tolerance, else -100 %).
     std::optional<std::int64_t> ratio(const std::string& key, std::int64_t lo) {
-        const std::string expected = std::string(ratio_words) + (lo == 0 ? " from 0 to 100 %" : " from -100 % to 100 %");
+        const std::string expected =
+            std::string(ratio_words) + (lo == 0 ? " from 0 to 100 %" : " from -100 % to 100 %");
         const toml::node* n = get(key, false, expected);
         if (!n) return std::nullopt;
         const auto v = quantity<std::int64_t>(*n, key, expected, parse_ppb);
@@ -214,7 +224,8 @@ public:
     }
 
     std::optional<std::int64_t> tempco(const std::string& key) {
-        const std::string expected = std::string(tempco_words) + " from -1000 ppm/C2 to 1000 ppm/C2";
+        const std::string expected =
+            std::string(tempco_words) + " from -1000 ppm/C2 to 1000 ppm/C2";
         const toml::node* n = get(key, false, expected);
         if (!n) return std::nullopt;
         const auto v = quantity<std::int64_t>(*n, key, expected, parse_ppb_per_c2);
@@ -237,7 +248,8 @@ public:
     }
 
     std::optional<std::vector<clock_ref>> clock_names(const std::string& key) {
-        const std::string expected = "a list of one or more clock names such as [\"rc_fast\", \"pll\"]";
+        const std::string expected =
+            "a list of one or more clock names such as [\"rc_fast\", \"pll\"]";
         const toml::node* n = get(key, true, expected);
         if (!n) return std::nullopt;
         const toml::array* a = n->as_array();
@@ -275,15 +287,19 @@ public:
         if (!lo || !hi) return std::nullopt;
         if (!lo->is_zero() && !hi->is_zero() && *lo > *hi) {
             out_.add(n->source(), key_path(key),
-                     "low end " + lo->pretty() + " is above high end " + hi->pretty() + "; accepted: " + range_words);
+                     "low end " + lo->pretty() + " is above high end " + hi->pretty() +
+                         "; accepted: " + range_words);
             return std::nullopt;
         }
         return frequency_range{*lo, *hi};
     }
 
     // An optional [min, max] pair of whole numbers, each within [lo, hi].
-    std::optional<std::pair<std::int64_t, std::int64_t>> int_pair(const std::string& key, std::int64_t lo, std::int64_t hi) {
-        const std::string expected = "two whole numbers [min, max] from " + std::to_string(lo) + " to " + std::to_string(hi);
+    std::optional<std::pair<std::int64_t, std::int64_t>> int_pair(const std::string& key,
+                                                                  std::int64_t lo,
+                                                                  std::int64_t hi) {
+        const std::string expected =
+            "two whole numbers [min, max] from " + std::to_string(lo) + " to " + std::to_string(hi);
         const toml::node* n = get(key, false, expected);
         if (!n) return std::nullopt;
         const toml::array* a = n->as_array();
@@ -310,25 +326,32 @@ private:
 
 const std::map<std::string, clock_kind>& kinds_by_name() {
     static const std::map<std::string, clock_kind> m = {
-        {"crystal", clock_kind::crystal}, {"rc-oscillator", clock_kind::rc_oscillator},
+        {"crystal", clock_kind::crystal},   {"rc-oscillator", clock_kind::rc_oscillator},
         {"external", clock_kind::external}, {"pll", clock_kind::pll},
-        {"divider", clock_kind::divider}, {"mux", clock_kind::mux}, {"gate", clock_kind::gate}};
+        {"divider", clock_kind::divider},   {"mux", clock_kind::mux},
+        {"gate", clock_kind::gate}};
     return m;
 }
 
 std::vector<std::string> keys_of(clock_kind k) {
     switch (k) {
         case clock_kind::crystal:
-            return {"kind", "frequency", "offset", "temperature-coefficient", "turnover", "temperature", "jitter", "seed"};
+            return {"kind",     "frequency",   "offset", "temperature-coefficient",
+                    "turnover", "temperature", "jitter", "seed"};
         case clock_kind::rc_oscillator:
-            return {"kind", "frequency", "tolerance", "deviation", "trim-step", "trim-range", "trim"};
-        case clock_kind::external: return {"kind", "frequency"};
+            return {"kind",      "frequency",  "tolerance", "deviation",
+                    "trim-step", "trim-range", "trim"};
+        case clock_kind::external:
+            return {"kind", "frequency"};
         case clock_kind::pll:
-            return {"kind", "input", "input-divider", "multiplier", "output-divider", "lock-time", "enabled",
-                    "input-range", "vco-range", "output-range"};
-        case clock_kind::divider: return {"kind", "input", "factor"};
-        case clock_kind::mux: return {"kind", "inputs", "select"};
-        case clock_kind::gate: return {"kind", "input", "enabled"};
+            return {"kind",      "input",   "input-divider", "multiplier", "output-divider",
+                    "lock-time", "enabled", "input-range",   "vco-range",  "output-range"};
+        case clock_kind::divider:
+            return {"kind", "input", "factor"};
+        case clock_kind::mux:
+            return {"kind", "inputs", "select"};
+        case clock_kind::gate:
+            return {"kind", "input", "enabled"};
     }
     return {};
 }
@@ -360,17 +383,21 @@ bool read_node(findings_list& out, const std::string& name, const toml::table& t
         return static_cast<bool>(v);
     };
     auto take = [&ok, &t](const std::string& key, const auto& v, auto& into) {
-        if (v) into = *v;
-        else if (t.get(key)) ok = false;
+        if (v)
+            into = *v;
+        else if (t.get(key))
+            ok = false;
     };
     switch (spec.kind) {
         case clock_kind::crystal: {
             auto& c = spec.crystal;
             if (auto f = r.freq("frequency", true); need(f)) c.nominal = *f;
             take("offset", r.ratio("offset", -max_ratio_ppb), c.offset_ppb);
-            take("temperature-coefficient", r.tempco("temperature-coefficient"), c.tempco_ppb_per_c2);
+            take("temperature-coefficient", r.tempco("temperature-coefficient"),
+                 c.tempco_ppb_per_c2);
             take("turnover", r.integer("turnover", min_celsius, max_celsius, false), c.turnover_c);
-            take("temperature", r.integer("temperature", min_celsius, max_celsius, false), c.temperature_c);
+            take("temperature", r.integer("temperature", min_celsius, max_celsius, false),
+                 c.temperature_c);
             take("jitter", r.time("jitter"), c.jitter);
             std::int64_t seed = 0;
             take("seed", r.integer("seed", 0, int64_max, false), seed);
@@ -391,7 +418,8 @@ bool read_node(findings_list& out, const std::string& name, const toml::table& t
             const std::int64_t total = c.deviation_ppb + c.trim * c.trim_step_ppb;
             if (ok && (total >= rc_offset_limit_ppb || total <= -rc_offset_limit_ppb)) {
                 r.report(t.get("trim") ? "trim" : "deviation",
-                         "deviation plus trim x trim-step puts the oscillator " + percent_text(total) +
+                         "deviation plus trim x trim-step puts the oscillator " +
+                             percent_text(total) +
                              " off nominal; accepted: less than 10 % either way");
                 ok = false;
             }
@@ -441,8 +469,10 @@ bool read_node(findings_list& out, const std::string& name, const toml::table& t
 
 // The node a problem() line is about: the first quoted name that is one of ours, or the first
 // name of a "clock loop: a, b feed each other" line.
-const node_spec* problem_subject(const std::string& problem, const std::map<std::string, const node_spec*>& by_name) {
-    for (std::size_t open = problem.find('\''); open != std::string::npos; open = problem.find('\'', open + 1)) {
+const node_spec* problem_subject(const std::string& problem,
+                                 const std::map<std::string, const node_spec*>& by_name) {
+    for (std::size_t open = problem.find('\''); open != std::string::npos;
+         open = problem.find('\'', open + 1)) {
         const std::size_t close = problem.find('\'', open + 1);
         if (close == std::string::npos) break;
         const auto it = by_name.find(problem.substr(open + 1, close - open - 1));
@@ -465,7 +495,8 @@ toml::table read_toml_text(std::string_view text, const std::string& file) {
         return toml::parse(text, file);
     } catch (const toml::parse_error& e) {
         const auto& b = e.source().begin;
-        throw scenario_error(scenario_finding{file, b.line, b.column, "", "TOML syntax: " + std::string(e.description())});
+        throw scenario_error(scenario_finding{file, b.line, b.column, "",
+                                              "TOML syntax: " + std::string(e.description())});
     }
 }
 
@@ -474,7 +505,8 @@ toml::table read_toml_file(const std::string& path) {
         return scenario_error(scenario_finding{path, 0, 0, "", "cannot read the file: " + why});
     };
     std::error_code ec;
-    if (std::filesystem::is_directory(path, ec)) throw fail("it is a directory; accepted: a TOML file");
+    if (std::filesystem::is_directory(path, ec))
+        throw fail("it is a directory; accepted: a TOML file");
     errno = 0;
     std::ifstream in(path, std::ios::binary);
     if (!in) throw fail(errno ? std::strerror(errno) : "cannot open it");
@@ -487,13 +519,15 @@ void load_clocks(const toml::table& root, const std::string& file, clock_tree& t
     findings_list out(file);
     const toml::node* clocks_node = root.get("clocks");
     if (!clocks_node) {
-        out.add(root.source(), "clocks", "missing table [clocks]; accepted: one table [clocks.NAME] per clock");
+        out.add(root.source(), "clocks",
+                "missing table [clocks]; accepted: one table [clocks.NAME] per clock");
         out.raise();
     }
     const toml::table* clocks = clocks_node->as_table();
     if (!clocks || clocks->empty()) {
         out.add(clocks_node->source(), "clocks",
-                "expected one table [clocks.NAME] per clock, got " + (clocks ? std::string("an empty table") : got(*clocks_node)));
+                "expected one table [clocks.NAME] per clock, got " +
+                    (clocks ? std::string("an empty table") : got(*clocks_node)));
         out.raise();
     }
 
@@ -512,19 +546,23 @@ void load_clocks(const toml::table& root, const std::string& file, clock_tree& t
         const std::string name(k->str());
         if (!valid_clock_name(name)) {
             out.add(k->source(), "clocks.\"" + name + "\"",
-                    "clock name " + in_quotes(name) + " is not accepted; accepted: a letter followed by letters, digits, "
-                    "\"_\" or \"-\"");
+                    "clock name " + in_quotes(name) +
+                        " is not accepted; accepted: a letter followed by letters, digits, "
+                        "\"_\" or \"-\"");
             ok = false;
             continue;
         }
         if (!v->is_table()) {
-            out.add(v->source(), "clocks." + name, "expected a table [clocks." + name + "] describing a clock, got " + got(*v));
+            out.add(v->source(), "clocks." + name,
+                    "expected a table [clocks." + name + "] describing a clock, got " + got(*v));
             ok = false;
             continue;
         }
         node_spec spec;
-        if (read_node(out, name, *v->as_table(), spec)) specs.push_back(std::move(spec));
-        else ok = false;
+        if (read_node(out, name, *v->as_table(), spec))
+            specs.push_back(std::move(spec));
+        else
+            ok = false;
     }
 
     // Names used as inputs must be clocks of this file or already in the tree.
@@ -535,7 +573,8 @@ void load_clocks(const toml::table& root, const std::string& file, clock_tree& t
         for (const clock_ref& in : s.inputs) {
             if (std::binary_search(known.begin(), known.end(), in.name)) continue;
             out.add(in.where->source(), in.key,
-                    "unknown clock " + in_quotes(in.name) + hint(in.name, known) + "; accepted: one of " + join(known));
+                    "unknown clock " + in_quotes(in.name) + hint(in.name, known) +
+                        "; accepted: one of " + join(known));
             ok = false;
         }
         if (s.select) {
@@ -545,8 +584,8 @@ void load_clocks(const toml::table& root, const std::string& file, clock_tree& t
                 std::vector<std::string> shown;
                 for (const auto& n : names) shown.push_back(in_quotes(n));
                 out.add(s.select->where->source(), s.select->key,
-                        "expected one of this mux's inputs " + join(shown) + hint(s.select->name, names) + ", got " +
-                            in_quotes(s.select->name));
+                        "expected one of this mux's inputs " + join(shown) +
+                            hint(s.select->name, names) + ", got " + in_quotes(s.select->name));
                 ok = false;
             }
         }
@@ -557,20 +596,32 @@ void load_clocks(const toml::table& root, const std::string& file, clock_tree& t
     for (const node_spec& s : specs) {
         by_name.emplace(s.name, &s);
         switch (s.kind) {
-            case clock_kind::crystal: tree.add_crystal(s.name, s.crystal); break;
-            case clock_kind::rc_oscillator: tree.add_rc_oscillator(s.name, s.rc); break;
-            case clock_kind::external: tree.add_external(s.name, s.external); break;
-            case clock_kind::pll: tree.add_pll(s.name, s.inputs[0].name, s.pll); break;
-            case clock_kind::divider: tree.add_divider(s.name, s.inputs[0].name, s.factor); break;
-            case clock_kind::gate: tree.add_gate(s.name, s.inputs[0].name, s.enabled); break;
+            case clock_kind::crystal:
+                tree.add_crystal(s.name, s.crystal);
+                break;
+            case clock_kind::rc_oscillator:
+                tree.add_rc_oscillator(s.name, s.rc);
+                break;
+            case clock_kind::external:
+                tree.add_external(s.name, s.external);
+                break;
+            case clock_kind::pll:
+                tree.add_pll(s.name, s.inputs[0].name, s.pll);
+                break;
+            case clock_kind::divider:
+                tree.add_divider(s.name, s.inputs[0].name, s.factor);
+                break;
+            case clock_kind::gate:
+                tree.add_gate(s.name, s.inputs[0].name, s.enabled);
+                break;
             case clock_kind::mux: {
                 std::vector<std::string> names;
                 for (const clock_ref& in : s.inputs) names.push_back(in.name);
                 // The first input of that name; without `select`, the first input.
                 std::size_t selected = 0;
                 if (s.select)
-                    selected = static_cast<std::size_t>(std::find(names.begin(), names.end(), s.select->name) -
-                                                        names.begin());
+                    selected = static_cast<std::size_t>(
+                        std::find(names.begin(), names.end(), s.select->name) - names.begin());
                 tree.add_mux(s.name, names, selected);
                 break;
             }
@@ -592,7 +643,8 @@ void load_clocks(const toml::table& root, const std::string& file, clock_tree& t
         }
         // "pll 'x': VCO ..." is shown as "clocks.x: VCO ...": the key path already names the node.
         std::string message = p;
-        const std::string prefix = std::string(to_string(subject->kind)) + " '" + subject->name + "': ";
+        const std::string prefix =
+            std::string(to_string(subject->kind)) + " '" + subject->name + "': ";
         if (message.compare(0, prefix.size(), prefix) == 0) message.erase(0, prefix.size());
         out.add(subject->table->source(), "clocks." + subject->name, message);
     }

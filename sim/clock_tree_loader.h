@@ -13,10 +13,11 @@
 
 namespace sim {
 
-// Reads the TOML file at `path` and adds the clocks of its [clocks] table to `tree` (other top-level
-// tables are left to other loaders). Throws scenario_error for an unreadable file, TOML syntax,
-// schema mistakes and clock rule violations. The tree is untouched when the tables themselves are
-// wrong; after a clock rule violation it holds the new nodes and should be discarded.
+// Reads the TOML file at `path` and adds the clocks of its [clocks] table to `tree` (other
+// top-level tables are left to other loaders). Throws scenario_error for an unreadable file, TOML
+// syntax, schema mistakes and clock rule violations. The tree is untouched when the tables
+// themselves are wrong; after a clock rule violation it holds the new nodes and should be
+// discarded.
 void load_clock_tree_file(const std::string& path, clock_tree& tree);
 
 // The same from TOML text already in memory; `file` is the name used in messages.

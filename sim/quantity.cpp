@@ -39,12 +39,15 @@ std::string_view trim(std::string_view s) {
 
 // Splits "  -1.25 ms " into sign, digits and unit; `what` names the quantity for messages
 // ("a frequency"), `example` is a good value, `accepted` lists the units.
-decimal split(std::string_view original, const char* what, const char* example, const std::string& accepted) {
+decimal split(std::string_view original, const char* what, const char* example,
+              const std::string& accepted) {
     const std::string_view s = trim(original);
     const std::string bad_number = in_quotes(original) + ": expected " + what +
                                    " as a decimal number and a unit, e.g. \"" + example +
                                    "\"; accepted units: " + accepted;
-    if (s.empty()) throw quantity_error(in_quotes(original) + ": empty; expected " + what + ", e.g. \"" + example + "\"");
+    if (s.empty())
+        throw quantity_error(in_quotes(original) + ": empty; expected " + what + ", e.g. \"" +
+                             example + "\"");
     decimal d;
     std::size_t i = 0;
     if (s[i] == '+' || s[i] == '-') d.negative = s[i++] == '-';
@@ -76,8 +79,9 @@ decimal split(std::string_view original, const char* what, const char* example, 
     for (char c : d.unit)
         if (is_space(c) || (c >= '0' && c <= '9' && d.unit.find('/') == std::string_view::npos))
             throw quantity_error(bad_number);
-    if (!d.unit.empty() && (d.unit.front() == '/' || d.unit.front() == '.' || d.unit.front() == 'e' ||
-                            d.unit.front() == 'E' || d.unit.front() == '_'))
+    if (!d.unit.empty() &&
+        (d.unit.front() == '/' || d.unit.front() == '.' || d.unit.front() == 'e' ||
+         d.unit.front() == 'E' || d.unit.front() == '_'))
         throw quantity_error(bad_number);
     return d;
 }
@@ -89,14 +93,16 @@ std::string unit_list(std::initializer_list<unit> units) {
 }
 
 // The scale of d's unit among `units`; an empty unit means `bare` (0: a unit is required).
-u128 scale_of(std::string_view original, const decimal& d, std::initializer_list<unit> units, u128 bare) {
+u128 scale_of(std::string_view original, const decimal& d, std::initializer_list<unit> units,
+              u128 bare) {
     if (d.unit.empty()) {
         if (bare != 0) return bare;
         throw quantity_error(in_quotes(original) + ": missing unit; accepted: " + unit_list(units));
     }
     for (const unit& u : units)
         if (u.name == d.unit) return u.scale;
-    throw quantity_error(in_quotes(original) + ": unknown unit " + in_quotes(d.unit) + "; accepted: " + unit_list(units));
+    throw quantity_error(in_quotes(original) + ": unknown unit " + in_quotes(d.unit) +
+                         "; accepted: " + unit_list(units));
 }
 
 // d in target units (whole), or a quantity_error naming the target unit.
@@ -109,10 +115,12 @@ u128 whole_value(std::string_view original, const decimal& d, u128 scale, const 
     return scaled / d.divisor;
 }
 
-std::int64_t signed_value(std::string_view original, const decimal& d, u128 v, const char* unit_name) {
+std::int64_t signed_value(std::string_view original, const decimal& d, u128 v,
+                          const char* unit_name) {
     const u128 limit = static_cast<u128>(std::numeric_limits<std::int64_t>::max());
     if (v > limit)
-        throw quantity_error(in_quotes(original) + ": too large; accepted: up to " + u128_text(limit) + " " + unit_name);
+        throw quantity_error(in_quotes(original) + ": too large; accepted: up to " +
+                             u128_text(limit) + " " + unit_name);
     const auto s = static_cast<std::int64_t>(v);
     return d.negative ? -s : s;
 }
@@ -120,11 +128,13 @@ std::int64_t signed_value(std::string_view original, const decimal& d, u128 v, c
 }  // namespace
 
 frequency parse_frequency(std::string_view text) {
-    const std::initializer_list<unit> units = {{"Hz", 1}, {"kHz", 1'000}, {"MHz", 1'000'000}, {"GHz", 1'000'000'000}};
+    const std::initializer_list<unit> units = {
+        {"Hz", 1}, {"kHz", 1'000}, {"MHz", 1'000'000}, {"GHz", 1'000'000'000}};
     const decimal d = split(text, "a frequency", "8 MHz", unit_list(units));
     const u128 scale = scale_of(text, d, units, 1);
     if (d.negative && d.mantissa != 0)
-        throw quantity_error(in_quotes(text) + ": a frequency cannot be negative; accepted: 0 Hz or more");
+        throw quantity_error(in_quotes(text) +
+                             ": a frequency cannot be negative; accepted: 0 Hz or more");
     u128 num = d.mantissa * scale;
     u128 den = d.divisor;
     const u128 g = gcd128(num, den);
@@ -135,8 +145,9 @@ frequency parse_frequency(std::string_view text) {
     // frequency keeps 63-bit parts (see frequency.h).
     const u128 limit = u128{1} << 63;
     if (num >= limit || den >= limit)
-        throw quantity_error(in_quotes(text) + ": too large or too finely divided; accepted: up to about 9.2 EHz, "
-                                            "in steps no finer than about 1e-18 Hz");
+        throw quantity_error(in_quotes(text) +
+                             ": too large or too finely divided; accepted: up to about 9.2 EHz, "
+                             "in steps no finer than about 1e-18 Hz");
     return frequency(static_cast<std::uint64_t>(num), static_cast<std::uint64_t>(den));
 }
 
@@ -156,14 +167,18 @@ time_ps parse_time(std::string_view text) {
         scale = scale_of(text, d, units, 0);
     } catch (const quantity_error&) {
         // List the micro sign once, not in both of its Unicode spellings.
-        throw quantity_error(in_quotes(text) + (d.unit.empty() ? ": missing unit" : ": unknown unit " + in_quotes(d.unit)) +
-                             "; accepted: " + accepted);
+        throw quantity_error(
+            in_quotes(text) +
+            (d.unit.empty() ? ": missing unit" : ": unknown unit " + in_quotes(d.unit)) +
+            "; accepted: " + accepted);
     }
     if (d.negative && d.mantissa != 0)
-        throw quantity_error(in_quotes(text) + ": a time cannot be negative; accepted: 0 ps or more");
+        throw quantity_error(in_quotes(text) +
+                             ": a time cannot be negative; accepted: 0 ps or more");
     const u128 v = whole_value(text, d, scale, "picoseconds", "ps");
     if (v > max_time_ps)
-        throw quantity_error(in_quotes(text) + ": too long; accepted: up to " + format_time(max_time_ps));
+        throw quantity_error(in_quotes(text) + ": too long; accepted: up to " +
+                             format_time(max_time_ps));
     return static_cast<time_ps>(v);
 }
 

@@ -1,6 +1,6 @@
 #pragma once
-// The error raised for anything wrong in a scenario file: TOML syntax, an unknown or misspelt key, a
-// value of the wrong type or out of range, a missing key, or a clock rule broken by what the file
+// The error raised for anything wrong in a scenario file: TOML syntax, an unknown or misspelt key,
+// a value of the wrong type or out of range, a missing key, or a clock rule broken by what the file
 // describes. Each finding carries the file, line, column and key path it refers to and a message
 // that says what would be accepted, so the user can go straight to the spot:
 //     demo.toml:12:14: clocks.pll.multiplier: expected a whole number from 1 to 1000000, got "nine"

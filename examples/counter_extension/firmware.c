@@ -83,5 +83,6 @@ void tick_firmware_main(void) {
         }
         previous = t;
     }
-    tick_check(counter_extension_backwards == 0, "timestamps never go backwards", __FILE__, __LINE__);
+    tick_check(counter_extension_backwards == 0, "timestamps never go backwards", __FILE__,
+               __LINE__);
 }

@@ -4,8 +4,9 @@
  * pump driver on channel 4 through a complementary pair with dead time. The 32-bit timer "tick"
  * interrupts at 1 kHz; each tick the firmware moves fan 1's duty one step toward its target (a
  * ramp, so the fan does not jump), and at the tick given by `quiet_at_ms` it switches every fan to
- * a quiet-mode PWM period of 44 us, about 22.7 kHz (a period change at run time). All duty and period updates
- * go through preloaded registers, so they land at a reload event and never cut a period short.
+ * a quiet-mode PWM period of 44 us, about 22.7 kHz (a period change at run time). All duty and
+ * period updates go through preloaded registers, so they land at a reload event and never cut a
+ * period short.
  *
  * Parameters: fans_base, tick_base (register windows), ramp_from, ramp_to (fan 1 duty in %),
  * quiet_at_ms.
@@ -27,7 +28,8 @@
 /* run: enable (bit 0), period preload (bit 8). kick: force reload (bit 0). */
 #define RUN_ENABLE 0x0001u
 #define RUN_PERIOD_PRELOAD 0x0100u
-/* shape byte per channel: action (bits 0-2), compare preload (3), main enable (4), comp enable (6). */
+/* shape byte per channel: action (bits 0-2), compare preload (3), main enable (4), comp enable (6).
+ */
 #define SHAPE_PWM_BELOW 0x6u
 #define SHAPE_PRELOAD 0x08u
 #define SHAPE_MAIN 0x10u
@@ -74,8 +76,10 @@ static void set_duties(void) {
 static void on_tick(void) {
     (void)tick_read32(tick + TICK_TAKE); /* reading clears the reload flag */
     ticks = ticks + 1;
-    if (fan1_duty < fan1_target) fan1_duty++;
-    else if (fan1_duty > fan1_target) fan1_duty--;
+    if (fan1_duty < fan1_target)
+        fan1_duty++;
+    else if (fan1_duty > fan1_target)
+        fan1_duty--;
     if (ticks == quiet_at) set_period(QUIET_TICKS);
     set_duties();
     tick_cycles(40); /* the rest of the control loop's work */

@@ -21,15 +21,20 @@ std::atomic<bool> stamping{false};
 // The %* flag: "@ <simulated time>: " while a simulation runs, nothing before.
 class sim_time_flag final : public spdlog::custom_flag_formatter {
 public:
-    void format(const spdlog::details::log_msg&, const std::tm&, spdlog::memory_buf_t& dest) override {
+    void format(const spdlog::details::log_msg&, const std::tm&,
+                spdlog::memory_buf_t& dest) override {
         if (!stamping.load(std::memory_order_relaxed)) return;
-        // Firmware runs ahead of the kernel: while it logs, its own local time is the one that counts.
+        // Firmware runs ahead of the kernel: while it logs, its own local time is the one that
+        // counts.
         const harness::cpu* c = harness::cpu::current();
-        const sim::time_ps now = c != nullptr && c->in_firmware() ? c->now() : sc_core::sc_time_stamp().value();
+        const sim::time_ps now =
+            c != nullptr && c->in_firmware() ? c->now() : sc_core::sc_time_stamp().value();
         const std::string t = "@ " + sim::format_time(now) + ": ";
         dest.append(t.data(), t.data() + t.size());
     }
-    std::unique_ptr<custom_flag_formatter> clone() const override { return std::make_unique<sim_time_flag>(); }
+    std::unique_ptr<custom_flag_formatter> clone() const override {
+        return std::make_unique<sim_time_flag>();
+    }
 };
 
 }  // namespace

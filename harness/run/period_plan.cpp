@@ -48,10 +48,12 @@ std::string plan_choice::error_ppm_text() const {
     // ppm * 1000, rounded half up.
     const u128 whole = error_num / error_den;
     const u128 rest = error_num % error_den;
-    const u128 scaled = add(mul(whole, 1'000'000'000), (mul(rest, 2'000'000'000) / error_den + 1) / 2);
+    const u128 scaled =
+        add(mul(whole, 1'000'000'000), (mul(rest, 2'000'000'000) / error_den + 1) / 2);
     std::string frac = sim::u128_text(scaled % 1000);
     frac.insert(frac.begin(), 3 - frac.size(), '0');
-    return std::string(below && scaled != 0 ? "-" : "+") + sim::u128_text(scaled / 1000) + "." + frac;
+    return std::string(below && scaled != 0 ? "-" : "+") + sim::u128_text(scaled / 1000) + "." +
+           frac;
 }
 
 std::string plan_choice::resolution_bits_text() const {
@@ -62,15 +64,18 @@ std::string plan_choice::resolution_bits_text() const {
 }
 
 std::vector<plan_choice> plan_periods(const plan_request& rq) {
-    if (rq.clock.is_zero() || rq.target.is_zero()) throw std::invalid_argument("plan: clock and target must be above 0 Hz");
-    if (rq.counter_bits < 1 || rq.counter_bits > 32 || rq.prescaler_bits < 1 || rq.prescaler_bits > 32)
+    if (rq.clock.is_zero() || rq.target.is_zero())
+        throw std::invalid_argument("plan: clock and target must be above 0 Hz");
+    if (rq.counter_bits < 1 || rq.counter_bits > 32 || rq.prescaler_bits < 1 ||
+        rq.prescaler_bits > 32)
         throw std::invalid_argument("plan: counter and prescaler widths must be 1 to 32 bits");
     const u128 unit = rq.center ? 2 : 1;
     const u128 P = mul(rq.clock.num(), rq.target.den());
     const u128 Q = mul(mul(rq.target.num(), rq.clock.den()), unit);
     const u128 q_max = u128{1} << rq.prescaler_bits;  // prescaler + 1 ranges 1 .. q_max
     // Steps per period: n + 1 in 1 .. 2^bits (edge), n in 1 .. 2^bits - 1 (center).
-    const u128 steps_max = rq.center ? (u128{1} << rq.counter_bits) - 1 : u128{1} << rq.counter_bits;
+    const u128 steps_max =
+        rq.center ? (u128{1} << rq.counter_bits) - 1 : u128{1} << rq.counter_bits;
     const u128 m_max = mul(q_max, steps_max);
 
     auto choice_for = [&](u128 m, u128 q) {
@@ -105,7 +110,9 @@ std::vector<plan_choice> plan_periods(const plan_request& rq) {
             if (m % q == 0) out.push_back(choice_for(m, q));
     };
     // err(m1) <= err(m2) for m1 <= P/Q < m2: P (m1 + m2) <= 2 m1 m2 Q.
-    auto lower_first = [&](u128 m1, u128 m2) { return mul(P, add(m1, m2)) <= mul(mul(2, mul(m1, m2)), Q); };
+    auto lower_first = [&](u128 m1, u128 m2) {
+        return mul(P, add(m1, m2)) <= mul(mul(2, mul(m1, m2)), Q);
+    };
 
     std::vector<plan_choice> found;
     u128 lo = P / Q;  // candidates at or below P/Q walk down, above walk up

@@ -31,7 +31,7 @@ struct plan_choice {
     std::uint64_t prescaler = 0;  // register setting p
     std::uint64_t period = 0;     // register setting n
     sim::frequency achieved;
-    std::uint64_t steps = 0;      // compare steps per period
+    std::uint64_t steps = 0;  // compare steps per period
     // |achieved - target| / target = error_num / error_den exactly (reduced); `below` when the
     // achieved frequency is under the target.
     sim::u128 error_num = 0;

@@ -15,19 +15,23 @@ void progress_line::start() {
     begun_ = std::chrono::steady_clock::now();
     thread_ = std::thread([this] {
         std::unique_lock<std::mutex> lock(mutex_);
-        while (!wake_.wait_for(lock, std::chrono::milliseconds(250), [this] { return stopping_; })) draw();
+        while (!wake_.wait_for(lock, std::chrono::milliseconds(250), [this] { return stopping_; }))
+            draw();
     });
 }
 
 void progress_line::draw() {
     const sim::time_ps now = now_();
-    const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - begun_).count();
+    const double elapsed =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - begun_).count();
     const double sim_s = static_cast<double>(now) / static_cast<double>(sim::ps_per_second);
     const double factor = elapsed > 0 ? sim_s / elapsed : 0;
     const double left =
-        now > 0 && now < duration_ ? elapsed * static_cast<double>(duration_ - now) / static_cast<double>(now) : 0;
-    std::fprintf(stderr, "\r\033[Ksimulated %s of %s, %.3g x real time, %.0f s left", sim::format_time(now).c_str(),
-                 sim::format_time(duration_).c_str(), factor, left);
+        now > 0 && now < duration_
+            ? elapsed * static_cast<double>(duration_ - now) / static_cast<double>(now)
+            : 0;
+    std::fprintf(stderr, "\r\033[Ksimulated %s of %s, %.3g x real time, %.0f s left",
+                 sim::format_time(now).c_str(), sim::format_time(duration_).c_str(), factor, left);
     std::fflush(stderr);
     shown_ = true;
 }

@@ -26,7 +26,8 @@ struct firmware_settings {
     std::string entry = "tick_firmware_main";
     bool map_peripherals = false;
     std::map<std::string, std::string> parameters;
-    // Where the library was named, for messages: "FILE:LINE:COLUMN: firmware.library" or "--firmware".
+    // Where the library was named, for messages: "FILE:LINE:COLUMN: firmware.library" or
+    // "--firmware".
     std::string origin;
 };
 
@@ -69,14 +70,17 @@ struct scenario_overrides {
     std::optional<time_ps> duration;      // --duration
     std::optional<std::uint64_t> seed;    // --seed
     std::optional<std::uint64_t> start_offset_cycles;  // --start-offset
-    std::map<std::string, std::string> parameters;      // --param NAME=VALUE (firmware parameters)
+    std::map<std::string, std::string> parameters;     // --param NAME=VALUE (firmware parameters)
 };
 
 // Reads the scenario at `path` and adds its clocks to `tree` (which should be empty). Throws
 // sim::scenario_error listing every finding (those of a register layout file name that file).
-scenario load_scenario(const std::string& path, sim::clock_tree& tree, const scenario_overrides& overrides = {});
+scenario load_scenario(const std::string& path, sim::clock_tree& tree,
+                       const scenario_overrides& overrides = {});
 
-// The signals a timer named `timer` with instance `cfg` shows, in the order its probe declares them.
-std::vector<std::string> timer_signal_names(const std::string& timer, const models::timer_config& cfg);
+// The signals a timer named `timer` with instance `cfg` shows, in the order its probe declares
+// them.
+std::vector<std::string> timer_signal_names(const std::string& timer,
+                                            const models::timer_config& cfg);
 
 }  // namespace harness::run

@@ -36,7 +36,8 @@ namespace fs = std::filesystem;
 constexpr std::int64_t int64_max = std::numeric_limits<std::int64_t>::max();
 constexpr std::int64_t max_cycles = 1'000'000'000;
 const char* const stimulus_message =
-    "not supported yet (reserved for input stimulus, which a later version adds); remove this table";
+    "not supported yet (reserved for input stimulus, which a later version adds); remove this "
+    "table";
 
 bool valid_name(const std::string& n) {
     if (n.empty() || !std::isalpha(static_cast<unsigned char>(n[0]))) return false;
@@ -70,11 +71,13 @@ std::string resolve(const fs::path& dir, const std::string& p) {
 }
 
 // The table under `key` of `root`, or null with a finding when it is something else.
-const toml::table* sub_table(context& c, const toml::table& root, const std::string& key, const std::string& accepted) {
+const toml::table* sub_table(context& c, const toml::table& root, const std::string& key,
+                             const std::string& accepted) {
     const toml::node* n = root.get(key);
     if (!n) return nullptr;
     if (!n->is_table()) {
-        c.out.add(n->source(), key, "expected a table [" + key + "], got " + got(*n) + "; accepted: " + accepted);
+        c.out.add(n->source(), key,
+                  "expected a table [" + key + "], got " + got(*n) + "; accepted: " + accepted);
         return nullptr;
     }
     return n->as_table();
@@ -89,10 +92,12 @@ void read_run(context& c, const toml::table& root) {
     r.reject_unknown_keys({"duration", "seed", "resolution", "unmapped"}, "[run]");
     c.s.run.duration = r.time("duration");
     if (c.s.run.duration && *c.s.run.duration == 0) {
-        r.report("duration", "expected a time above 0 ps, got \"0\"; accepted: " + std::string(detail::time_words));
+        r.report("duration", "expected a time above 0 ps, got \"0\"; accepted: " +
+                                 std::string(detail::time_words));
         c.s.run.duration.reset();
     }
-    if (auto seed = r.integer("seed", 0, int64_max)) c.s.run.seed = static_cast<std::uint64_t>(*seed);
+    if (auto seed = r.integer("seed", 0, int64_max))
+        c.s.run.seed = static_cast<std::uint64_t>(*seed);
     if (const toml::node* res = r.get("resolution", false, "")) {
         bool ok = false;
         if (res->is_string()) {
@@ -103,7 +108,8 @@ void read_run(context& c, const toml::table& root) {
         }
         if (!ok)
             r.wrong(*res, "resolution",
-                    "\"1 ps\" (the only kernel time resolution supported for now: the models and the cpu "
+                    "\"1 ps\" (the only kernel time resolution supported for now: the models and "
+                    "the cpu "
                     "compute exact picosecond times)");
     }
     if (auto u = r.choice("unmapped", {"ignore", "warn", "error"}))
@@ -121,8 +127,10 @@ void read_clocks(context& c, toml::table& root, std::uint64_t seed) {
             toml::table* t = node.as_table();
             if (!t) continue;
             const toml::node* kind = t->get("kind");
-            if (kind && kind->is_string() && kind->as_string()->get() == "crystal" && !t->get("seed"))
-                t->insert("seed", static_cast<std::int64_t>(seed & static_cast<std::uint64_t>(int64_max)));
+            if (kind && kind->is_string() && kind->as_string()->get() == "crystal" &&
+                !t->get("seed"))
+                t->insert("seed",
+                          static_cast<std::int64_t>(seed & static_cast<std::uint64_t>(int64_max)));
         }
     }
     try {
@@ -139,14 +147,20 @@ bool known_clock(context& c, table_reader& r, const std::string& key, const std:
     if (c.tree.has_node(name)) return true;
     auto names = c.tree.node_names();
     std::sort(names.begin(), names.end());
-    r.report(key, "unknown clock " + in_quotes(name) + hint(name, names) + "; accepted: one of " + join(names));
+    r.report(key, "unknown clock " + in_quotes(name) + hint(name, names) + "; accepted: one of " +
+                      join(names));
     return false;
 }
 
 // ---- [timers.NAME] -------------------------------------------------------------------------
 
-const std::vector<std::string> timer_keys = {"layout",  "clock",           "base",          "interrupt-priority",
-                                             "interrupt-delay", "counter-start", "running-at-start",
+const std::vector<std::string> timer_keys = {"layout",
+                                             "clock",
+                                             "base",
+                                             "interrupt-priority",
+                                             "interrupt-delay",
+                                             "counter-start",
+                                             "running-at-start",
                                              "access-latency"};
 
 void read_timers(context& c, const toml::table& root) {
@@ -164,12 +178,14 @@ void read_timers(context& c, const toml::table& root) {
         if (!valid_name(name)) {
             c.out.add(k->source(), "timers.\"" + name + "\"",
                       "timer name " + in_quotes(name) +
-                          " is not accepted; accepted: a letter followed by letters, digits, \"_\" or \"-\"");
+                          " is not accepted; accepted: a letter followed by letters, digits, \"_\" "
+                          "or \"-\"");
             c.broken_timers.insert(name);
             continue;
         }
         if (!v->is_table()) {
-            c.out.add(v->source(), path, "expected a table [" + path + "] describing a timer, got " + got(*v));
+            c.out.add(v->source(), path,
+                      "expected a table [" + path + "] describing a timer, got " + got(*v));
             c.broken_timers.insert(name);
             continue;
         }
@@ -179,7 +195,9 @@ void read_timers(context& c, const toml::table& root) {
         timer_spec spec;
         spec.name = name;
         bool ok = true;
-        if (auto layout = r.string("layout", true, "the path of a register layout file, relative to the scenario file")) {
+        if (auto layout =
+                r.string("layout", true,
+                         "the path of a register layout file, relative to the scenario file")) {
             const std::string p = resolve(c.dir, *layout);
             std::error_code ec;
             if (!fs::is_regular_file(p, ec)) {
@@ -192,11 +210,13 @@ void read_timers(context& c, const toml::table& root) {
                     spec.layout = models::load_register_layout_file(p);
                     if (spec.layout.kind != "timer") {
                         r.report("layout", "layout " + in_quotes(*layout) + " describes a " +
-                                               in_quotes(spec.layout.kind) + " peripheral; accepted: a timer layout");
+                                               in_quotes(spec.layout.kind) +
+                                               " peripheral; accepted: a timer layout");
                         ok = false;
                     }
                 } catch (const sim::scenario_error& e) {
-                    r.report("layout", "layout file " + in_quotes(*layout) + " has mistakes (listed after this file's)");
+                    r.report("layout", "layout file " + in_quotes(*layout) +
+                                           " has mistakes (listed after this file's)");
                     c.out.add_foreign(e.findings());
                     ok = false;
                 }
@@ -210,16 +230,23 @@ void read_timers(context& c, const toml::table& root) {
         } else {
             ok = false;
         }
-        if (auto base = r.integer("base", 0, 0xffff'ffffLL, true)) spec.base = static_cast<std::uint64_t>(*base);
-        else ok = false;
-        if (auto p = r.integer("interrupt-priority", 0, 255)) spec.irq_priority = static_cast<unsigned>(*p);
-        else if (r.has("interrupt-priority")) ok = false;
-        if (auto d = r.time("interrupt-delay")) spec.irq_extra_delay = *d;
-        else if (r.has("interrupt-delay")) ok = false;
+        if (auto base = r.integer("base", 0, 0xffff'ffffLL, true))
+            spec.base = static_cast<std::uint64_t>(*base);
+        else
+            ok = false;
+        if (auto p = r.integer("interrupt-priority", 0, 255))
+            spec.irq_priority = static_cast<unsigned>(*p);
+        else if (r.has("interrupt-priority"))
+            ok = false;
+        if (auto d = r.time("interrupt-delay"))
+            spec.irq_extra_delay = *d;
+        else if (r.has("interrupt-delay"))
+            ok = false;
         if (auto v2 = r.integer("counter-start", 0, 0xffff'ffffLL)) {
             spec.counter_start = static_cast<std::uint32_t>(*v2);
             if (ok && *spec.counter_start > spec.layout.instance.counter_max()) {
-                r.report("counter-start", "counter start " + std::to_string(*v2) + " does not fit the " +
+                r.report("counter-start", "counter start " + std::to_string(*v2) +
+                                              " does not fit the " +
                                               std::to_string(spec.layout.instance.counter_bits) +
                                               "-bit counter; accepted: 0 to " +
                                               std::to_string(spec.layout.instance.counter_max()));
@@ -228,10 +255,14 @@ void read_timers(context& c, const toml::table& root) {
         } else if (r.has("counter-start")) {
             ok = false;
         }
-        if (auto b = r.boolean("running-at-start")) spec.running_at_start = *b;
-        else if (r.has("running-at-start")) ok = false;
-        if (auto l = r.time("access-latency")) spec.access_latency = sc_core::sc_time::from_value(*l);
-        else if (r.has("access-latency")) ok = false;
+        if (auto b = r.boolean("running-at-start"))
+            spec.running_at_start = *b;
+        else if (r.has("running-at-start"))
+            ok = false;
+        if (auto l = r.time("access-latency"))
+            spec.access_latency = sc_core::sc_time::from_value(*l);
+        else if (r.has("access-latency"))
+            ok = false;
         if (ok && spec.base + spec.layout.size > 0x1'0000'0000ULL) {
             r.report("base", "the window " + hex(spec.base) + " + " + hex(spec.layout.size) +
                                  " runs past the 32-bit address space; accepted: a base at most " +
@@ -252,8 +283,9 @@ void read_timers(context& c, const toml::table& root) {
             const timer_spec& b = c.s.timers[i];
             if (b.base < a.base + a.layout.size && a.base < b.base + b.layout.size) {
                 table_reader r(c.out, *windows[i], "timers." + b.name);
-                r.report("base", "the window " + hex(b.base) + ".." + hex(b.base + b.layout.size - 1) +
-                                     " overlaps timers." + a.name + " (" + hex(a.base) + ".." +
+                r.report("base", "the window " + hex(b.base) + ".." +
+                                     hex(b.base + b.layout.size - 1) + " overlaps timers." +
+                                     a.name + " (" + hex(a.base) + ".." +
                                      hex(a.base + a.layout.size - 1) +
                                      "); accepted: a base whose window overlaps no other timer's");
             }
@@ -266,55 +298,75 @@ void read_cpu(context& c, const toml::table& root) {
     const toml::table* t = sub_table(c, root, "cpu", "the cpu's clock and costs");
     if (!t) return;
     table_reader r(c.out, *t, "cpu");
-    r.reject_unknown_keys({"clock", "access-cycles", "interrupt-entry-cycles", "interrupt-exit-cycles", "quantum",
-                           "start-offset", "hang-accesses", "hang-wall-time"},
-                          "[cpu]");
+    r.reject_unknown_keys(
+        {"clock", "access-cycles", "interrupt-entry-cycles", "interrupt-exit-cycles", "quantum",
+         "start-offset", "hang-accesses", "hang-wall-time"},
+        "[cpu]");
     cpu_config cfg;
     if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
         cfg.clock = *clock;
         known_clock(c, r, "clock", *clock);
     }
-    if (auto v = r.integer("access-cycles", 0, max_cycles)) cfg.access_cycles = static_cast<unsigned>(*v);
-    if (auto v = r.integer("interrupt-entry-cycles", 0, max_cycles)) cfg.irq_entry_cycles = static_cast<unsigned>(*v);
-    if (auto v = r.integer("interrupt-exit-cycles", 0, max_cycles)) cfg.irq_exit_cycles = static_cast<unsigned>(*v);
+    if (auto v = r.integer("access-cycles", 0, max_cycles))
+        cfg.access_cycles = static_cast<unsigned>(*v);
+    if (auto v = r.integer("interrupt-entry-cycles", 0, max_cycles))
+        cfg.irq_entry_cycles = static_cast<unsigned>(*v);
+    if (auto v = r.integer("interrupt-exit-cycles", 0, max_cycles))
+        cfg.irq_exit_cycles = static_cast<unsigned>(*v);
     if (auto q = r.time("quantum")) {
-        if (*q == 0) r.report("quantum", "expected a time above 0 ps, got \"0\"");
-        else cfg.quantum = *q;
+        if (*q == 0)
+            r.report("quantum", "expected a time above 0 ps, got \"0\"");
+        else
+            cfg.quantum = *q;
     }
-    if (auto v = r.integer("start-offset", 0, int64_max)) cfg.start_offset_cycles = static_cast<std::uint64_t>(*v);
-    if (auto v = r.integer("hang-accesses", 1, int64_max)) cfg.hang_accesses = static_cast<std::uint64_t>(*v);
+    if (auto v = r.integer("start-offset", 0, int64_max))
+        cfg.start_offset_cycles = static_cast<std::uint64_t>(*v);
+    if (auto v = r.integer("hang-accesses", 1, int64_max))
+        cfg.hang_accesses = static_cast<std::uint64_t>(*v);
     if (auto w = r.time("hang-wall-time"))
-        c.s.run.hang_wall_seconds = static_cast<double>(*w) / static_cast<double>(sim::ps_per_second);
+        c.s.run.hang_wall_seconds =
+            static_cast<double>(*w) / static_cast<double>(sim::ps_per_second);
     c.s.cpu = cfg;
 }
 
 // ---- [firmware] ----------------------------------------------------------------------------
 
 void read_firmware(context& c, const toml::table& root, const scenario_overrides& ov) {
-    const toml::table* t = sub_table(c, root, "firmware", "library, entry, map-peripherals, [firmware.parameters]");
+    const toml::table* t =
+        sub_table(c, root, "firmware", "library, entry, map-peripherals, [firmware.parameters]");
     if (!t && !ov.firmware) return;
     firmware_settings fw;
     if (t) {
         table_reader r(c.out, *t, "firmware");
         r.reject_unknown_keys({"library", "entry", "map-peripherals", "parameters"}, "[firmware]");
-        if (auto lib = r.string("library", !ov.firmware,
-                                "the path of the firmware's shared library, relative to the scenario file")) {
+        if (auto lib = r.string(
+                "library", !ov.firmware,
+                "the path of the firmware's shared library, relative to the scenario file")) {
             fw.library = resolve(c.dir, *lib);
             const auto& b = t->get("library")->source().begin;
-            fw.origin = c.file + ":" + std::to_string(b.line) + ":" + std::to_string(b.column) + ": firmware.library";
+            fw.origin = c.file + ":" + std::to_string(b.line) + ":" + std::to_string(b.column) +
+                        ": firmware.library";
         }
-        if (auto e = r.string("entry", false, "the name of a C function `void NAME(void)`")) fw.entry = *e;
+        if (auto e = r.string("entry", false, "the name of a C function `void NAME(void)`"))
+            fw.entry = *e;
         if (auto m = r.boolean("map-peripherals")) fw.map_peripherals = *m;
         if (const toml::node* p = t->get("parameters")) {
             if (!p->is_table()) {
-                r.wrong(*p, "parameters", "a table [firmware.parameters] of names and string or integer values");
+                r.wrong(*p, "parameters",
+                        "a table [firmware.parameters] of names and string or integer values");
             } else {
                 for (auto&& [k, v] : *p->as_table()) {
                     const std::string key = "firmware.parameters." + std::string(k.str());
-                    if (v.is_string()) fw.parameters[std::string(k.str())] = v.as_string()->get();
-                    else if (v.is_integer()) fw.parameters[std::string(k.str())] = std::to_string(v.as_integer()->get());
-                    else if (v.is_boolean()) fw.parameters[std::string(k.str())] = v.as_boolean()->get() ? "true" : "false";
-                    else c.out.add(v.source(), key, "expected a string, a whole number or true/false, got " + got(v));
+                    if (v.is_string())
+                        fw.parameters[std::string(k.str())] = v.as_string()->get();
+                    else if (v.is_integer())
+                        fw.parameters[std::string(k.str())] = std::to_string(v.as_integer()->get());
+                    else if (v.is_boolean())
+                        fw.parameters[std::string(k.str())] =
+                            v.as_boolean()->get() ? "true" : "false";
+                    else
+                        c.out.add(v.source(), key,
+                                  "expected a string, a whole number or true/false, got " + got(v));
                 }
             }
         }
@@ -354,7 +406,8 @@ void read_waves(context& c, const toml::table& root, const std::vector<std::stri
         }
         if (!ok)
             r.wrong(*ts, "timescale",
-                    "1, 10 or 100 of ps, ns, us, ms or s (\"1 ps\", \"10 ns\", \"1 us\"); edges between units are "
+                    "1, 10 or 100 of ps, ns, us, ms or s (\"1 ps\", \"10 ns\", \"1 us\"); edges "
+                    "between units are "
                     "rounded to the nearest one");
     }
     const toml::node* n = t->get("signals");
@@ -373,16 +426,19 @@ void read_waves(context& c, const toml::table& root, const std::vector<std::stri
         const toml::node& e = *a->get(i);
         const std::string key = "signals[" + std::to_string(i) + "]";
         if (!e.is_string()) {
-            r.wrong(e, key, "a signal name such as \"fan.channel1\", or \"fan.*\" for all of a timer's");
+            r.wrong(e, key,
+                    "a signal name such as \"fan.channel1\", or \"fan.*\" for all of a timer's");
             continue;
         }
         const std::string pattern = e.as_string()->get();
         bool matched = false;
-        const bool all_of_timer = pattern.size() > 2 && pattern.compare(pattern.size() - 2, 2, ".*") == 0;
+        const bool all_of_timer =
+            pattern.size() > 2 && pattern.compare(pattern.size() - 2, 2, ".*") == 0;
         const std::string scope = all_of_timer ? pattern.substr(0, pattern.size() - 2) : "";
         for (std::size_t s = 0; s < signals.size(); ++s) {
-            const bool hit = all_of_timer ? signals[s].compare(0, scope.size() + 1, scope + ".") == 0
-                                          : signals[s] == pattern;
+            const bool hit = all_of_timer
+                                 ? signals[s].compare(0, scope.size() + 1, scope + ".") == 0
+                                 : signals[s] == pattern;
             if (hit) chosen[s] = matched = true;
         }
         const std::string owner = pattern.substr(0, pattern.find('.'));
@@ -391,7 +447,8 @@ void read_waves(context& c, const toml::table& root, const std::vector<std::stri
             for (const timer_spec& ts : c.s.timers) accepted.push_back(ts.name + ".*");
             c.out.add(e.source(), "waves." + key,
                       "no signal " + in_quotes(pattern) + hint(pattern, accepted) + "; accepted: " +
-                          (signals.empty() ? std::string("none (the scenario has no timers)") : join(accepted)));
+                          (signals.empty() ? std::string("none (the scenario has no timers)")
+                                           : join(accepted)));
         }
     }
     for (std::size_t s = 0; s < signals.size(); ++s)
@@ -439,13 +496,13 @@ void choose_timescale(context& c, const toml::table& root) {
 
 // ---- [[checks]] ----------------------------------------------------------------------------
 
-const std::vector<std::string> check_keys = {"name",    "kind",      "signal",    "signals",       "expected",
-                                             "minimum", "maximum",   "tolerance", "from",          "until",
-                                             "settle",  "edge",      "response-edge", "pulse",     "condition"};
+const std::vector<std::string> check_keys = {
+    "name", "kind",  "signal", "signals", "expected",      "minimum", "maximum",  "tolerance",
+    "from", "until", "settle", "edge",    "response-edge", "pulse",   "condition"};
 
 bool single_signal(sim::check_kind k) {
-    return k != sim::check_kind::phase && k != sim::check_kind::latency && k != sim::check_kind::dead_time &&
-           k != sim::check_kind::never;
+    return k != sim::check_kind::phase && k != sim::check_kind::latency &&
+           k != sim::check_kind::dead_time && k != sim::check_kind::never;
 }
 
 bool is_angle(const std::string& s) {
@@ -456,7 +513,8 @@ bool is_angle(const std::string& s) {
 }
 
 // The value of expected/minimum/maximum in the kind's unit.
-std::optional<std::uint64_t> check_value(table_reader& r, const std::string& key, const sim::check_spec& spec) {
+std::optional<std::uint64_t> check_value(table_reader& r, const std::string& key,
+                                         const sim::check_spec& spec) {
     const toml::node* n = r.table().get(key);
     if (!n) return std::nullopt;
     std::string expected;
@@ -464,7 +522,8 @@ std::optional<std::uint64_t> check_value(table_reader& r, const std::string& key
         switch (spec.kind) {
             case sim::check_kind::edge_count:
                 expected = "a whole number of edges";
-                if (const auto* i = n->as_integer(); i && i->get() >= 0) return static_cast<std::uint64_t>(i->get());
+                if (const auto* i = n->as_integer(); i && i->get() >= 0)
+                    return static_cast<std::uint64_t>(i->get());
                 break;
             case sim::check_kind::duty_cycle:
                 expected = "a duty cycle such as \"25 %\"";
@@ -505,12 +564,15 @@ void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
     const toml::node* n = r.table().get("tolerance");
     if (!n) return;
     std::string text;
-    if (n->is_integer() && spec.kind == sim::check_kind::edge_count && n->as_integer()->get() >= 0) {
-        spec.tol = sim::tolerance::absolute_units(static_cast<std::uint64_t>(n->as_integer()->get()));
+    if (n->is_integer() && spec.kind == sim::check_kind::edge_count &&
+        n->as_integer()->get() >= 0) {
+        spec.tol =
+            sim::tolerance::absolute_units(static_cast<std::uint64_t>(n->as_integer()->get()));
         return;
     }
     const std::string accepted =
-        "a tolerance such as \"100 ppm\", \"1 %\", \"20 ns\", \"2 Hz\" (frequency), \"2 deg\" (angles), \"3 ticks\" "
+        "a tolerance such as \"100 ppm\", \"1 %\", \"20 ns\", \"2 Hz\" (frequency), \"2 deg\" "
+        "(angles), \"3 ticks\" "
         "or \"3 ticks of CLOCK\"";
     if (!n->is_string()) {
         r.wrong(*n, "tolerance", accepted);
@@ -530,17 +592,20 @@ void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
         sim::tolerance tol = sim::parse_tolerance(amount, spec);
         if (tol.kind != sim::tolerance_kind::ticks) {
             if (!clock.empty()) {
-                r.report("tolerance", "tolerance " + in_quotes(text) + ": \"of CLOCK\" goes with ticks; accepted: " + accepted);
+                r.report("tolerance", "tolerance " + in_quotes(text) +
+                                          ": \"of CLOCK\" goes with ticks; accepted: " + accepted);
                 return;
             }
             spec.tol = tol;
             return;
         }
         if (clock.empty()) {
-            const auto sig = spec.signals.empty() ? std::optional<std::string>{} : clock_of_signal(c.s, spec.signals[0]);
+            const auto sig = spec.signals.empty() ? std::optional<std::string>{}
+                                                  : clock_of_signal(c.s, spec.signals[0]);
             if (!sig) {
                 r.report("tolerance", "tolerance " + in_quotes(text) +
-                                          ": say whose ticks; accepted: \"N ticks of CLOCK\" with a clock of [clocks]");
+                                          ": say whose ticks; accepted: \"N ticks of CLOCK\" with "
+                                          "a clock of [clocks]");
                 return;
             }
             clock = *sig;
@@ -548,16 +613,18 @@ void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
         if (!c.clocks_ok) return;
         if (!c.tree.has_node(clock)) {
             auto names = c.tree.node_names();
-    std::sort(names.begin(), names.end());
-            r.report("tolerance", "tolerance " + in_quotes(text) + ": unknown clock " + in_quotes(clock) +
-                                      hint(clock, names) + "; accepted: one of " + join(names));
+            std::sort(names.begin(), names.end());
+            r.report("tolerance", "tolerance " + in_quotes(text) + ": unknown clock " +
+                                      in_quotes(clock) + hint(clock, names) +
+                                      "; accepted: one of " + join(names));
             return;
         }
         for (const sim::clock_plan_row& row : c.tree.plan(0)) {
             if (row.name != clock) continue;
             if (row.freq.is_zero()) {
-                r.report("tolerance", "tolerance " + in_quotes(text) + ": clock " + in_quotes(clock) +
-                                          " is stopped at the start; accepted: ticks of a running clock");
+                r.report("tolerance",
+                         "tolerance " + in_quotes(text) + ": clock " + in_quotes(clock) +
+                             " is stopped at the start; accepted: ticks of a running clock");
                 return;
             }
             spec.tol = sim::tolerance::ticks_of(tol.amount, clock, row.freq);
@@ -568,30 +635,33 @@ void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
 }
 
 // Reports a signal name that no timer declares (unless its timer failed to read).
-void check_signal_name(context& c, const toml::node& where, const std::string& key, const std::string& name,
-                       const std::vector<std::string>& signals) {
+void check_signal_name(context& c, const toml::node& where, const std::string& key,
+                       const std::string& name, const std::vector<std::string>& signals) {
     if (std::find(signals.begin(), signals.end(), name) != signals.end()) return;
     if (c.broken_timers.count(name.substr(0, name.find('.')))) return;
-    c.out.add(where.source(), key,
-              "unknown signal " + in_quotes(name) + hint(name, signals) + "; accepted: " +
-                  (signals.empty() ? std::string("none (the scenario has no timers)") : join(signals)));
+    c.out.add(
+        where.source(), key,
+        "unknown signal " + in_quotes(name) + hint(name, signals) + "; accepted: " +
+            (signals.empty() ? std::string("none (the scenario has no timers)") : join(signals)));
 }
 
-void read_check(context& c, const toml::table& t, const std::string& path, const std::vector<std::string>& signals,
-                std::set<std::string>& names) {
+void read_check(context& c, const toml::table& t, const std::string& path,
+                const std::vector<std::string>& signals, std::set<std::string>& names) {
     table_reader r(c.out, t, path);
     r.reject_unknown_keys(check_keys, "a check");
     sim::check_spec spec;
     bool ok = true;
     std::vector<std::string> kinds;
-    for (auto k : {sim::check_kind::frequency, sim::check_kind::period, sim::check_kind::duty_cycle,
-                   sim::check_kind::pulse_width, sim::check_kind::edge_count, sim::check_kind::phase,
-                   sim::check_kind::dead_time, sim::check_kind::latency, sim::check_kind::never})
+    for (auto k :
+         {sim::check_kind::frequency, sim::check_kind::period, sim::check_kind::duty_cycle,
+          sim::check_kind::pulse_width, sim::check_kind::edge_count, sim::check_kind::phase,
+          sim::check_kind::dead_time, sim::check_kind::latency, sim::check_kind::never})
         kinds.push_back(sim::to_string(k));
     if (auto name = r.string("name", true, "a name for the check, unique in the file")) {
         spec.name = *name;
         if (!names.insert(*name).second) {
-            r.report("name", "a second check named " + in_quotes(*name) + "; accepted: a name no other check has");
+            r.report("name", "a second check named " + in_quotes(*name) +
+                                 "; accepted: a name no other check has");
             ok = false;
         }
     } else {
@@ -607,9 +677,12 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
     // Signals.
     if (spec.kind == sim::check_kind::never) {
         if (r.has("signal") || r.has("signals"))
-            r.report(r.has("signal") ? "signal" : "signals",
-                     "a never check takes its signals from its condition; accepted: condition only");
-        if (auto cond = r.string("condition", true, "a condition such as \"bridge.channel1 and bridge.channel1_complement\"")) {
+            r.report(
+                r.has("signal") ? "signal" : "signals",
+                "a never check takes its signals from its condition; accepted: condition only");
+        if (auto cond = r.string(
+                "condition", true,
+                "a condition such as \"bridge.channel1 and bridge.channel1_complement\"")) {
             spec.condition = *cond;
             try {
                 const sim::condition parsed = sim::condition::parse(*cond);
@@ -623,7 +696,9 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
         }
     } else if (single_signal(spec.kind)) {
         if (r.has("signals")) {
-            r.report("signals", "a " + *kind_text + " check watches one signal; accepted: signal = \"TIMER.SIGNAL\"");
+            r.report("signals",
+                     "a " + *kind_text +
+                         " check watches one signal; accepted: signal = \"TIMER.SIGNAL\"");
             ok = false;
         } else if (auto s = r.string("signal", true, "a signal name such as \"fan.channel1\"")) {
             spec.signals.push_back(*s);
@@ -634,11 +709,12 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
     } else {
         const std::string expected = spec.kind == sim::check_kind::latency
                                          ? "two signal names [event, response]"
-                                         : spec.kind == sim::check_kind::dead_time
-                                               ? "two signal names [output, complementary output]"
-                                               : "two signal names [A, B]";
+                                     : spec.kind == sim::check_kind::dead_time
+                                         ? "two signal names [output, complementary output]"
+                                         : "two signal names [A, B]";
         if (r.has("signal")) {
-            r.report("signal", "a " + *kind_text + " check watches two signals; accepted: signals = " + expected);
+            r.report("signal", "a " + *kind_text +
+                                   " check watches two signals; accepted: signals = " + expected);
             ok = false;
         } else if (const toml::node* n = r.get("signals", true, expected)) {
             const toml::array* a = n->as_array();
@@ -648,8 +724,8 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
             } else {
                 for (std::size_t i = 0; i < 2; ++i) {
                     spec.signals.push_back(a->get(i)->as_string()->get());
-                    check_signal_name(c, *a->get(i), path + ".signals[" + std::to_string(i) + "]", spec.signals.back(),
-                                      signals);
+                    check_signal_name(c, *a->get(i), path + ".signals[" + std::to_string(i) + "]",
+                                      spec.signals.back(), signals);
                 }
             }
         } else {
@@ -658,14 +734,17 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
     }
 
     // Edges and pulses.
-    if (auto e = r.choice("edge", {"rising", "falling", "both"})) spec.edge = *sim::edge_select_from_string(*e);
+    if (auto e = r.choice("edge", {"rising", "falling", "both"}))
+        spec.edge = *sim::edge_select_from_string(*e);
     if (auto e = r.choice("response-edge", {"rising", "falling", "both"}))
         spec.response_edge = *sim::edge_select_from_string(*e);
     if (auto p = r.choice("pulse", {"high", "low"})) {
-        if (spec.kind != sim::check_kind::pulse_width) r.report("pulse", "only pulse_width checks take `pulse`");
+        if (spec.kind != sim::check_kind::pulse_width)
+            r.report("pulse", "only pulse_width checks take `pulse`");
         spec.high_pulses = *p == "high";
     }
-    if (r.has("response-edge") && spec.kind != sim::check_kind::phase && spec.kind != sim::check_kind::latency)
+    if (r.has("response-edge") && spec.kind != sim::check_kind::phase &&
+        spec.kind != sim::check_kind::latency)
         r.report("response-edge", "only phase and latency checks take `response-edge`");
 
     // Values.
@@ -676,7 +755,9 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
             if (!n || !n->is_string()) continue;
             const bool a = is_angle(n->as_string()->get());
             if (angle && *angle != a) {
-                r.report(key, "mixes times and angles; accepted: all values of a phase check as times, or all as angles");
+                r.report(key,
+                         "mixes times and angles; accepted: all values of a phase check as times, "
+                         "or all as angles");
                 ok = false;
             }
             if (!angle) angle = a;
@@ -686,19 +767,23 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
     if (spec.kind == sim::check_kind::frequency) {
         for (const char* key : {"minimum", "maximum"})
             if (r.has(key)) {
-                r.report(key, "a frequency check takes `expected` and `tolerance`; for bounds use a period check");
+                r.report(key,
+                         "a frequency check takes `expected` and `tolerance`; for bounds use a "
+                         "period check");
                 ok = false;
             }
         if (const toml::node* n = r.get("expected", true, detail::frequency_words)) {
             try {
                 if (const auto* i = n->as_integer(); i && i->get() > 0)
-                    spec.expected_frequency = sim::frequency::hz(static_cast<std::uint64_t>(i->get()));
+                    spec.expected_frequency =
+                        sim::frequency::hz(static_cast<std::uint64_t>(i->get()));
                 else if (n->is_string())
                     spec.expected_frequency = sim::parse_frequency(n->as_string()->get());
                 else
                     r.wrong(*n, "expected", detail::frequency_words);
             } catch (const sim::quantity_error& e) {
-                r.report("expected", std::string(e.what()) + "; expected " + detail::frequency_words);
+                r.report("expected",
+                         std::string(e.what()) + "; expected " + detail::frequency_words);
             }
             if (!spec.expected_frequency) ok = false;
         } else {
@@ -708,25 +793,36 @@ void read_check(context& c, const toml::table& t, const std::string& path, const
         for (const char* key : {"expected", "minimum", "maximum"}) {
             auto v = check_value(r, key, spec);
             if (!v && r.has(key)) ok = false;
-            if (std::string(key) == "expected") spec.expected = v;
-            else if (std::string(key) == "minimum") spec.minimum = v;
-            else spec.maximum = v;
+            if (std::string(key) == "expected")
+                spec.expected = v;
+            else if (std::string(key) == "minimum")
+                spec.minimum = v;
+            else
+                spec.maximum = v;
         }
     }
     read_tolerance(c, r, spec);
-    if (auto f = r.time("from")) spec.from = *f;
-    else if (r.has("from")) ok = false;
-    if (auto u = r.time("until")) spec.until = *u;
-    else if (r.has("until")) ok = false;
-    if (auto s = r.time("settle")) spec.settle = *s;
-    else if (r.has("settle")) ok = false;
+    if (auto f = r.time("from"))
+        spec.from = *f;
+    else if (r.has("from"))
+        ok = false;
+    if (auto u = r.time("until"))
+        spec.until = *u;
+    else if (r.has("until"))
+        ok = false;
+    if (auto s = r.time("settle"))
+        spec.settle = *s;
+    else if (r.has("settle"))
+        ok = false;
     if (!ok) return;
 
     // The spec's own rules, each pointed at the key it concerns.
     for (const sim::check_spec_problem& p : sim::validate(spec)) {
         std::string key = p.field;
-        if (key == "signals") key = r.has("signal") ? "signal" : r.has("signals") ? "signals" : "condition";
-        if (key == "expected" && !r.has("expected")) key = r.has("minimum") ? "minimum" : r.has("maximum") ? "maximum" : "";
+        if (key == "signals")
+            key = r.has("signal") ? "signal" : r.has("signals") ? "signals" : "condition";
+        if (key == "expected" && !r.has("expected"))
+            key = r.has("minimum") ? "minimum" : r.has("maximum") ? "maximum" : "";
         if (!key.empty() && !r.has(key)) key.clear();
         r.report(key, p.message);
     }
@@ -748,7 +844,8 @@ void read_checks(context& c, const toml::table& root, const std::vector<std::str
 
 }  // namespace
 
-std::vector<std::string> timer_signal_names(const std::string& timer, const models::timer_config& cfg) {
+std::vector<std::string> timer_signal_names(const std::string& timer,
+                                            const models::timer_config& cfg) {
     std::vector<std::string> v;
     for (unsigned ch = 1; ch <= cfg.channels; ++ch) {
         v.push_back(timer + ".channel" + std::to_string(ch));
@@ -767,7 +864,8 @@ std::vector<std::string> scenario::signal_names() const {
     return v;
 }
 
-scenario load_scenario(const std::string& path, sim::clock_tree& tree, const scenario_overrides& ov) {
+scenario load_scenario(const std::string& path, sim::clock_tree& tree,
+                       const scenario_overrides& ov) {
     toml::table root = sim::read_toml_file(path);
     scenario s;
     s.file = path;
@@ -775,7 +873,8 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree, const sce
     findings_list out(path);
     context c{out, path, fs::path(path).parent_path(), tree, false, s, {}};
 
-    const std::vector<std::string> tables = {"clocks", "timers", "cpu", "firmware", "run", "waves", "checks"};
+    const std::vector<std::string> tables = {"clocks", "timers", "cpu",   "firmware",
+                                             "run",    "waves",  "checks"};
     for (auto&& [k, v] : root) {
         (void)v;
         const std::string key(k.str());
@@ -783,7 +882,8 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree, const sce
             out.add(k.source(), key, "[" + key + "] is " + stimulus_message);
         } else if (std::find(tables.begin(), tables.end(), key) == tables.end()) {
             out.add(k.source(), key,
-                    "unknown table " + in_quotes(key) + hint(key, tables) + "; accepted: " + join(tables));
+                    "unknown table " + in_quotes(key) + hint(key, tables) +
+                        "; accepted: " + join(tables));
         }
     }
 

@@ -31,17 +31,20 @@ namespace {
 
 namespace fs = std::filesystem;
 
-const char* const output_names[] = {"waves.vcd", "checks.jsonl", "junit.xml", "summary.txt", "failure.txt"};
+const char* const output_names[] = {"waves.vcd", "checks.jsonl", "junit.xml", "summary.txt",
+                                    "failure.txt"};
 
 // One record per distinct firmware check (name, file and line), in order of first evaluation: how
 // often it was evaluated and the first failure.
-std::vector<sim::check_result> firmware_results(const std::vector<firmware_check>& checks, sim::time_ps end) {
+std::vector<sim::check_result> firmware_results(const std::vector<firmware_check>& checks,
+                                                sim::time_ps end) {
     std::vector<sim::check_result> out;
     std::vector<std::uint64_t> failures;
     for (const firmware_check& c : checks) {
         const std::string where = c.file + ":" + std::to_string(c.line);
-        auto it = std::find_if(out.begin(), out.end(),
-                               [&](const sim::check_result& r) { return r.name == c.name && r.signal == where; });
+        auto it = std::find_if(out.begin(), out.end(), [&](const sim::check_result& r) {
+            return r.name == c.name && r.signal == where;
+        });
         if (it == out.end()) {
             sim::check_result r;
             r.name = c.name;
@@ -63,7 +66,8 @@ std::vector<sim::check_result> firmware_results(const std::vector<firmware_check
             if (failures[i] == 0) {
                 r.passed = false;
                 r.at = c.at;
-                r.detail = "failed at " + sim::format_time(c.at) + " (evaluation " + std::to_string(r.count) + ")";
+                r.detail = "failed at " + sim::format_time(c.at) + " (evaluation " +
+                           std::to_string(r.count) + ")";
             }
             ++failures[i];
         }
@@ -73,7 +77,8 @@ std::vector<sim::check_result> firmware_results(const std::vector<firmware_check
         if (r.passed)
             r.detail = "held in all " + std::to_string(r.count) + " evaluations";
         else
-            r.detail += "; " + std::to_string(failures[i]) + " of " + std::to_string(r.count) + " evaluations failed";
+            r.detail += "; " + std::to_string(failures[i]) + " of " + std::to_string(r.count) +
+                        " evaluations failed";
     }
     return out;
 }
@@ -100,9 +105,11 @@ struct run_state {
         finished = true;
         fanout.end(end);
         if (vcd && vcd->rounded_changes() != 0)
-            spdlog::warn("waves.vcd: {} changes moved to the nearest {} (set [waves] timescale = \"1 ps\" to keep "
-                         "every edge exact)",
-                         vcd->rounded_changes(), sim::vcd_writer::timescale_text(vcd->unit()));
+            spdlog::warn(
+                "waves.vcd: {} changes moved to the nearest {} (set [waves] timescale = \"1 ps\" "
+                "to keep "
+                "every edge exact)",
+                vcd->rounded_changes(), sim::vcd_writer::timescale_text(vcd->unit()));
         std::vector<sim::check_result> results = engine->results();
         const auto fw = firmware_results(firmware_context::get().checks, end);
         results.insert(results.end(), fw.begin(), fw.end());
@@ -115,7 +122,9 @@ struct run_state {
             if (!f) throw sim::output_error("cannot write " + path("failure.txt"));
         }
         *out << sim::summary_text(results);
-        if (failure) *out << "firmware " << to_string(failure->outcome) << ": see " << path("failure.txt") << "\n";
+        if (failure)
+            *out << "firmware " << to_string(failure->outcome) << ": see " << path("failure.txt")
+                 << "\n";
         *out << "outputs in " << out_dir << "\n";
         out->flush();
         return results;
@@ -147,16 +156,18 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     state.s = load_scenario(path, p->clocks(), options.overrides);
     scenario& s = state.s;
     if (!s.run.duration)
-        throw sim::scenario_error(sim::scenario_finding{
-            path, 0, 0, "run.duration", "missing: give [run] duration = \"10 ms\" (a time), or --duration on the command line"});
+        throw sim::scenario_error(
+            sim::scenario_finding{path, 0, 0, "run.duration",
+                                  "missing: give [run] duration = \"10 ms\" (a time), or "
+                                  "--duration on the command line"});
     const sim::time_ps duration = *s.run.duration;
     state.firmware = load_firmware(s);
 
     std::error_code ec;
     fs::create_directories(state.out_dir, ec);
     if (ec || !fs::is_directory(state.out_dir))
-        throw sim::output_error("cannot create the output folder '" + state.out_dir + "': " +
-                                (ec ? ec.message() : "not a folder"));
+        throw sim::output_error("cannot create the output folder '" + state.out_dir +
+                                "': " + (ec ? ec.message() : "not a folder"));
     for (const char* name : output_names) fs::remove(state.path(name), ec);
 
     firmware_context& ctx = firmware_context::get();
@@ -178,7 +189,8 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     }
     sim::signal_id id = 0;
     for (timer_spec spec : s.timers) {
-        state.probes.push_back(std::make_unique<models::timer_probe>(spec.name, spec.layout.instance, state.fanout, id));
+        state.probes.push_back(std::make_unique<models::timer_probe>(
+            spec.name, spec.layout.instance, state.fanout, id));
         id = state.probes.back()->end_id();
         spec.observers.push_back(state.probes.back().get());
         p->add_timer(std::move(spec));
@@ -193,21 +205,24 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     try {
         p->build();
     } catch (const std::exception& e) {
-        throw sim::scenario_error(sim::scenario_finding{path, 0, 0, "", std::string("cannot build the part: ") + e.what()});
+        throw sim::scenario_error(sim::scenario_finding{
+            path, 0, 0, "", std::string("cannot build the part: ") + e.what()});
     }
     state.fanout.begin();
     p->on_failure([&state](const failure_report& r) { state.failure = r; });
     p->on_close([&state] {
         if (state.finished) return;
-        const sim::time_ps end = std::max(state.fanout.last_time(), state.failure ? state.failure->at : 0);
+        const sim::time_ps end =
+            std::max(state.fanout.last_time(), state.failure ? state.failure->at : 0);
         state.finish(end);
     });
     if (options.progress) {
-        state.progress = std::make_unique<progress_line>(duration, [&state] { return state.fanout.reached(); });
+        state.progress =
+            std::make_unique<progress_line>(duration, [&state] { return state.fanout.reached(); });
         state.progress->start();
     }
-    spdlog::info("{}: running {} (seed {}), outputs in {}", path, sim::format_time(duration), s.run.seed,
-                 state.out_dir);
+    spdlog::info("{}: running {} (seed {}), outputs in {}", path, sim::format_time(duration),
+                 s.run.seed, state.out_dir);
     stamp_simulated_time(true);
     p->run(duration);
     const auto results = state.finish(duration);
@@ -227,17 +242,19 @@ void check_scenario(const std::string& path, std::ostream& out) {
     out << sim::clock_plan_text(rows);
     for (const timer_spec& t : s.timers) {
         char window[64];
-        std::snprintf(window, sizeof window, "0x%08llx..0x%08llx", static_cast<unsigned long long>(t.base),
+        std::snprintf(window, sizeof window, "0x%08llx..0x%08llx",
+                      static_cast<unsigned long long>(t.base),
                       static_cast<unsigned long long>(t.base + t.layout.size - 1));
-        out << "timer " << t.name << ": layout " << t.layout.name << " at " << window << ", clock " << t.clock
-            << ", " << t.layout.instance.counter_bits << "-bit counter, " << t.layout.instance.channels
-            << " channels\n";
+        out << "timer " << t.name << ": layout " << t.layout.name << " at " << window << ", clock "
+            << t.clock << ", " << t.layout.instance.counter_bits << "-bit counter, "
+            << t.layout.instance.channels << " channels\n";
     }
     const auto fw = load_firmware(s);
-    if (fw) out << "firmware " << fw->path() << ": loads, entry " << s.firmware->entry << " found\n";
+    if (fw)
+        out << "firmware " << fw->path() << ": loads, entry " << s.firmware->entry << " found\n";
     if (!s.run.duration) out << "no [run] duration: `tickbench run` needs --duration\n";
-    out << path << ": ok, " << rows.size() << " clocks, " << s.timers.size() << " timers, " << s.checks.size()
-        << " checks\n";
+    out << path << ": ok, " << rows.size() << " clocks, " << s.timers.size() << " timers, "
+        << s.checks.size() << " checks\n";
 }
 
 }  // namespace harness::run

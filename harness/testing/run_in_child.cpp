@@ -1,9 +1,9 @@
 #include "harness/testing/run_in_child.h"
 
-#include <cstdio>
 #include <fcntl.h>
 #include <sys/wait.h>
 #include <unistd.h>
+#include <cstdio>
 
 namespace harness {
 
@@ -39,7 +39,8 @@ child_result run_in_child(const std::function<int()>& body, bool capture, bool q
         close(pipe_fds[1]);
         char buf[4096];
         ssize_t n;
-        while ((n = read(pipe_fds[0], buf, sizeof buf)) > 0) r.output.append(buf, static_cast<std::size_t>(n));
+        while ((n = read(pipe_fds[0], buf, sizeof buf)) > 0)
+            r.output.append(buf, static_cast<std::size_t>(n));
         close(pipe_fds[0]);
     }
     int status = 0;

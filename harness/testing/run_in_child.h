@@ -12,13 +12,14 @@
 namespace harness {
 
 struct child_result {
-    int exit_code = -1;   // the child's exit code, or -1 if it died by a signal
-    int signal = 0;       // the signal that ended it, or 0
-    std::string output;   // what it wrote to stdout and stderr (when captured)
+    int exit_code = -1;  // the child's exit code, or -1 if it died by a signal
+    int signal = 0;      // the signal that ended it, or 0
+    std::string output;  // what it wrote to stdout and stderr (when captured)
 };
 
 // Runs `body` in a child; its return value is the child's exit code. With capture, the child's
 // stdout and stderr are collected; otherwise they are discarded when `quiet`, inherited if not.
-child_result run_in_child(const std::function<int()>& body, bool capture = false, bool quiet = false);
+child_result run_in_child(const std::function<int()>& body, bool capture = false,
+                          bool quiet = false);
 
 }  // namespace harness

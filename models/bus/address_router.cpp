@@ -20,8 +20,11 @@ std::string describe(const address_range& r) {
 
 address_router::address_router(sc_core::sc_module_name name, std::vector<address_range> ranges,
                                unmapped_policy policy)
-    : sc_core::sc_module(name), target_socket("target_socket"), initiator_socket("initiator_socket"),
-      ranges_(std::move(ranges)), policy_(policy) {
+    : sc_core::sc_module(name),
+      target_socket("target_socket"),
+      initiator_socket("initiator_socket"),
+      ranges_(std::move(ranges)),
+      policy_(policy) {
     require_ps_resolution(std::string("address_router ") + this->name());
     for (std::size_t i = 0; i < ranges_.size(); ++i) {
         const auto& r = ranges_[i];
@@ -34,8 +37,9 @@ address_router::address_router(sc_core::sc_module_name name, std::vector<address
         for (std::size_t j = 0; j < i; ++j) {
             const auto& o = ranges_[j];
             if (r.base <= o.base + (o.size - 1) && o.base <= r.base + (r.size - 1))
-                throw std::invalid_argument(std::string(this->name()) + ": range " + describe(r) + " overlaps range " +
-                                            describe(o) + "; accepted: ranges that share no address");
+                throw std::invalid_argument(std::string(this->name()) + ": range " + describe(r) +
+                                            " overlaps range " + describe(o) +
+                                            "; accepted: ranges that share no address");
         }
     }
     target_socket.register_b_transport(this, &address_router::b_transport);
@@ -45,14 +49,15 @@ address_router::address_router(sc_core::sc_module_name name, std::vector<address
 
 void address_router::end_of_elaboration() {
     if (static_cast<std::size_t>(initiator_socket.size()) != ranges_.size())
-        throw std::runtime_error(std::string(name()) + ": " + std::to_string(ranges_.size()) + " ranges but " +
-                                 std::to_string(initiator_socket.size()) +
+        throw std::runtime_error(std::string(name()) + ": " + std::to_string(ranges_.size()) +
+                                 " ranges but " + std::to_string(initiator_socket.size()) +
                                  " targets bound; accepted: one binding per range, in range order");
 }
 
 int address_router::find(std::uint64_t address) const {
     for (std::size_t i = 0; i < ranges_.size(); ++i)
-        if (address >= ranges_[i].base && address - ranges_[i].base < ranges_[i].size) return int(i);
+        if (address >= ranges_[i].base && address - ranges_[i].base < ranges_[i].size)
+            return int(i);
     return -1;
 }
 
@@ -85,8 +90,8 @@ void address_router::b_transport(tlm::tlm_generic_payload& trans, sc_core::sc_ti
         const auto& r = ranges_[std::size_t(i)];
         if (length > 0 && (address - r.base) + (length - 1) >= r.size) {
             bus_logger()->error("{} of {} bytes at {} runs past the end of {}; at {} ps",
-                                trans.is_write() ? "write" : "read", length, hex_address(address), describe(r),
-                                to_ps(sc_core::sc_time_stamp() + delay));
+                                trans.is_write() ? "write" : "read", length, hex_address(address),
+                                describe(r), to_ps(sc_core::sc_time_stamp() + delay));
             trans.set_response_status(tlm::TLM_ADDRESS_ERROR_RESPONSE);
             return;
         }
@@ -105,7 +110,8 @@ void address_router::b_transport(tlm::tlm_generic_payload& trans, sc_core::sc_ti
         trans.set_response_status(tlm::TLM_ADDRESS_ERROR_RESPONSE);
         return;
     }
-    if (trans.is_read() && trans.get_data_ptr() != nullptr) std::memset(trans.get_data_ptr(), 0, length);
+    if (trans.is_read() && trans.get_data_ptr() != nullptr)
+        std::memset(trans.get_data_ptr(), 0, length);
     trans.set_response_status(tlm::TLM_OK_RESPONSE);
 }
 

@@ -5,18 +5,18 @@
 // A range is a window [base, base + size) with the peripheral's name and, optionally, its register
 // layout so that messages about unmapped addresses can name the nearest register. Ranges may not
 // overlap; the router refuses them at construction. The target sees addresses relative to its base.
-// Accesses that hit no range follow the run's unmapped policy: ignore (reads give 0), warn (the same,
-// with a warning on the "bus" logger) or error (TLM_ADDRESS_ERROR_RESPONSE and an error logged); an
-// access that starts inside a range and runs past its end always fails with an address error.
-// The router grants no direct memory access and adds no delay of its own.
+// Accesses that hit no range follow the run's unmapped policy: ignore (reads give 0), warn (the
+// same, with a warning on the "bus" logger) or error (TLM_ADDRESS_ERROR_RESPONSE and an error
+// logged); an access that starts inside a range and runs past its end always fails with an address
+// error. The router grants no direct memory access and adds no delay of its own.
 
 #include "models/layout/register_layout.h"
 #include "models/layout/unmapped_access.h"
 
-#include <systemc>
-#include <tlm>
 #include <tlm_utils/multi_passthrough_initiator_socket.h>
 #include <tlm_utils/simple_target_socket.h>
+#include <systemc>
+#include <tlm>
 
 #include <cstdint>
 #include <string>
@@ -39,9 +39,10 @@ public:
     // Bind range i's target as the i-th binding of this socket.
     tlm_utils::multi_passthrough_initiator_socket<address_router> initiator_socket;
 
-    // Maps `ranges`; throws std::invalid_argument naming both ranges if two overlap, or naming one of
-    // size 0 or one that runs past the 64-bit address space.
-    address_router(sc_core::sc_module_name name, std::vector<address_range> ranges, unmapped_policy policy);
+    // Maps `ranges`; throws std::invalid_argument naming both ranges if two overlap, or naming one
+    // of size 0 or one that runs past the 64-bit address space.
+    address_router(sc_core::sc_module_name name, std::vector<address_range> ranges,
+                   unmapped_policy policy);
 
     // The ranges, in binding order.
     const std::vector<address_range>& ranges() const { return ranges_; }
@@ -52,7 +53,8 @@ public:
     // Changes the policy for unmapped addresses.
     void set_policy(unmapped_policy p) { policy_ = p; }
     // The message an access of `length` bytes at unmapped `address` would produce at time `at`.
-    std::string unmapped_text(bool is_write, unsigned length, std::uint64_t address, sim::time_ps at) const;
+    std::string unmapped_text(bool is_write, unsigned length, std::uint64_t address,
+                              sim::time_ps at) const;
 
 private:
     void b_transport(tlm::tlm_generic_payload& trans, sc_core::sc_time& delay);

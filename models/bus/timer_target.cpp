@@ -9,12 +9,14 @@ namespace models {
 void require_ps_resolution(const std::string& who) {
     const auto res = sc_core::sc_get_time_resolution();
     if (res != sc_core::sc_time(1, sc_core::SC_PS))
-        throw std::runtime_error(who + ": the SystemC time resolution is " + res.to_string() +
-                                 "; Tickbench needs exactly 1 ps (call sc_core::sc_set_time_resolution(1, "
-                                 "sc_core::SC_PS) before creating any sc_time, or leave the default)");
+        throw std::runtime_error(
+            who + ": the SystemC time resolution is " + res.to_string() +
+            "; Tickbench needs exactly 1 ps (call sc_core::sc_set_time_resolution(1, "
+            "sc_core::SC_PS) before creating any sc_time, or leave the default)");
 }
 
-timer_target::timer_target(sc_core::sc_module_name name, register_file& registers, sc_core::sc_time latency)
+timer_target::timer_target(sc_core::sc_module_name name, register_file& registers,
+                           sc_core::sc_time latency)
     : sc_core::sc_module(name), socket("socket"), registers_(registers), latency_(latency) {
     require_ps_resolution(std::string("timer_target ") + this->name());
     socket.register_b_transport(this, &timer_target::b_transport);
@@ -29,11 +31,11 @@ bool timer_target::get_direct_mem_ptr(tlm::tlm_generic_payload&, tlm::tlm_dmi& d
     return false;
 }
 
-void timer_target::refuse(tlm::tlm_generic_payload& trans, tlm::tlm_response_status status, const std::string& why,
-                          sim::time_ps at) {
-    bus_logger()->error("{}: {} of {} bytes at offset {} refused: {}; at {} ps", registers_.peripheral(),
-                        trans.is_write() ? "write" : "read", trans.get_data_length(),
-                        hex_address(trans.get_address()), why, at);
+void timer_target::refuse(tlm::tlm_generic_payload& trans, tlm::tlm_response_status status,
+                          const std::string& why, sim::time_ps at) {
+    bus_logger()->error("{}: {} of {} bytes at offset {} refused: {}; at {} ps",
+                        registers_.peripheral(), trans.is_write() ? "write" : "read",
+                        trans.get_data_length(), hex_address(trans.get_address()), why, at);
     trans.set_response_status(status);
 }
 
@@ -60,7 +62,8 @@ void timer_target::b_transport(tlm::tlm_generic_payload& trans, sc_core::sc_time
     }
     if (address % length != 0) {
         refuse(trans, tlm::TLM_ADDRESS_ERROR_RESPONSE,
-               "misaligned; accepted: an address that is a multiple of " + std::to_string(length), at);
+               "misaligned; accepted: an address that is a multiple of " + std::to_string(length),
+               at);
         return;
     }
     if (address + length > registers_.layout().size) {
@@ -73,7 +76,8 @@ void timer_target::b_transport(tlm::tlm_generic_payload& trans, sc_core::sc_time
     if (const unsigned char* be = trans.get_byte_enable_ptr()) {
         const unsigned be_len = trans.get_byte_enable_length();
         if (be_len == 0) {
-            refuse(trans, tlm::TLM_BYTE_ENABLE_ERROR_RESPONSE, "byte enable pointer with length 0", at);
+            refuse(trans, tlm::TLM_BYTE_ENABLE_ERROR_RESPONSE, "byte enable pointer with length 0",
+                   at);
             return;
         }
         int lo = -1, hi = -1;
@@ -81,8 +85,10 @@ void timer_target::b_transport(tlm::tlm_generic_payload& trans, sc_core::sc_time
         for (unsigned i = 0; i < length; ++i) {
             const bool on = be[i % be_len] == TLM_BYTE_ENABLED;
             if (!on) continue;
-            if (lo < 0) lo = int(i);
-            else if (hi != int(i) - 1) gap = true;
+            if (lo < 0)
+                lo = int(i);
+            else if (hi != int(i) - 1)
+                gap = true;
             hi = int(i);
         }
         if (gap) {
@@ -108,10 +114,12 @@ void timer_target::b_transport(tlm::tlm_generic_payload& trans, sc_core::sc_time
     } else {
         std::uint32_t value = 0;
         outcome = registers_.read(offset, count, value, at);
-        for (unsigned i = 0; i < count; ++i) data[first + i] = static_cast<unsigned char>(value >> (8 * i));
+        for (unsigned i = 0; i < count; ++i)
+            data[first + i] = static_cast<unsigned char>(value >> (8 * i));
     }
     delay += latency_;
-    trans.set_response_status(outcome.failed ? tlm::TLM_ADDRESS_ERROR_RESPONSE : tlm::TLM_OK_RESPONSE);
+    trans.set_response_status(outcome.failed ? tlm::TLM_ADDRESS_ERROR_RESPONSE
+                                             : tlm::TLM_OK_RESPONSE);
 }
 
 }  // namespace models

@@ -2,21 +2,22 @@
 // The bus side of one timer instance without any SystemC: 8/16/32-bit reads and writes at an offset
 // and a time, turned into functional field reads and writes on a timer_core_if through a layout.
 //
-// Kept apart from the TLM target so the firmware runner's fast path and unit tests can use it with no
-// kernel (STYLE: behaviour apart from the kernel shell). Registers are little-endian: byte k of a
-// register (k = 0 its least significant byte) sits at offset + k. Rules (docs/register-layouts.md,
-// "Bus semantics"):
+// Kept apart from the TLM target so the firmware runner's fast path and unit tests can use it with
+// no kernel (STYLE: behaviour apart from the kernel shell). Registers are little-endian: byte k of
+// a register (k = 0 its least significant byte) sits at offset + k. Rules
+// (docs/register-layouts.md, "Bus semantics"):
 // - a write touches only the fields whose bits the access covers, in register order then bit order;
-//   other fields of the register are not rewritten. A field the access covers only in part is merged:
-//   the register file reads the field's current value from the model, replaces the covered bits and
-//   writes the result. A field holding only some bits of a functional value (value_bit, or a value
-//   split over several fields) is merged the same way with the model's value.
+//   other fields of the register are not rewritten. A field the access covers only in part is
+//   merged: the register file reads the field's current value from the model, replaces the covered
+//   bits and writes the result. A field holding only some bits of a functional value (value_bit, or
+//   a value split over several fields) is merged the same way with the model's value.
 // - read-only and clear-on-read fields ignore writes; write-one-to-clear fields turn the 1 bits
 //   written into clear_flags(mask); write-only fields read 0; clear-on-read fields clear, after the
 //   whole access is read, exactly the set flag bits the access returned.
 // - reserved bits (no field) read 0 and ignore writes. An access that touches no register at all is
 //   a reserved location: it reads 0, writes nothing, and the unmapped policy decides what is said.
-// - accesses are applied at max(t, the latest time seen), since the model needs non-decreasing time.
+// - accesses are applied at max(t, the latest time seen), since the model needs non-decreasing
+// time.
 
 #include "models/layout/register_layout.h"
 #include "models/layout/unmapped_access.h"
@@ -37,17 +38,19 @@ struct access_outcome {
 
 class register_file {
 public:
-    // Serves `layout` (copied) for `core`, an instance configured as `config`. `peripheral` names the
-    // instance in messages, `base` is the bus address of offset 0 (messages only). Throws
+    // Serves `layout` (copied) for `core`, an instance configured as `config`. `peripheral` names
+    // the instance in messages, `base` is the bus address of offset 0 (messages only). Throws
     // std::invalid_argument if the layout maps a field or channel the configured instance lacks.
     register_file(const register_layout& layout, timer_core_if& core, const timer_config& config,
                   std::string peripheral = "timer", unmapped_policy policy = unmapped_policy::warn,
                   std::uint64_t base = 0);
 
     // Reads `length` bytes (1..4) at `offset` at time t; `value` gets them, little-endian.
-    access_outcome read(std::uint32_t offset, unsigned length, std::uint32_t& value, sim::time_ps t);
+    access_outcome read(std::uint32_t offset, unsigned length, std::uint32_t& value,
+                        sim::time_ps t);
     // Writes the low `length` bytes (1..4) of `value` at `offset` at time t, little-endian.
-    access_outcome write(std::uint32_t offset, unsigned length, std::uint32_t value, sim::time_ps t);
+    access_outcome write(std::uint32_t offset, unsigned length, std::uint32_t value,
+                         sim::time_ps t);
     // Writes every register's reset value into its read-write fields at time t, so the model starts
     // where the layout says firmware finds it (write-only and flag fields are left alone).
     void apply_reset(sim::time_ps t);
@@ -77,9 +80,10 @@ private:
 
     sim::time_ps clamp(sim::time_ps t);
     // Writes the covered bits of `value` (register-aligned) into reg's fields.
-    void write_fields(const register_entry& r, std::uint32_t value, std::uint32_t covered, sim::time_ps t,
-                      bool reset_only);
-    access_outcome reserved(bool is_write, std::uint32_t offset, unsigned length, sim::time_ps t) const;
+    void write_fields(const register_entry& r, std::uint32_t value, std::uint32_t covered,
+                      sim::time_ps t, bool reset_only);
+    access_outcome reserved(bool is_write, std::uint32_t offset, unsigned length,
+                            sim::time_ps t) const;
 
     register_layout layout_;
     timer_core_if& core_;

@@ -1,13 +1,13 @@
 #pragma once
 // Register layouts: where a timer's functional fields sit in its address window (DESIGN section 6).
 //
-// A timer's behaviour is independent of where its fields sit in memory. A layout file (TOML, format in
-// docs/register-layouts.md) names the peripheral kind, the window size, the instance it describes
-// (counter width, channels...) and its registers, each with offset, width, reset value and fields;
-// a field maps bits of the register to bits of one functional field (models::timer_field) with an
-// access kind. The loader checks every rule and reports each mistake as a sim::scenario_error finding
-// at file:line:column with the key path and what would be accepted. The TOML library stays in the
-// .cpp: this header is cheap to include.
+// A timer's behaviour is independent of where its fields sit in memory. A layout file (TOML, format
+// in docs/register-layouts.md) names the peripheral kind, the window size, the instance it
+// describes (counter width, channels...) and its registers, each with offset, width, reset value
+// and fields; a field maps bits of the register to bits of one functional field
+// (models::timer_field) with an access kind. The loader checks every rule and reports each mistake
+// as a sim::scenario_error finding at file:line:column with the key path and what would be
+// accepted. The TOML library stays in the .cpp: this header is cheap to include.
 
 #include "models/timer/timer_types.h"
 #include "sim/scenario_error.h"
@@ -25,8 +25,8 @@ enum class access_kind : std::uint32_t {
     read_write,          // reads give the value, writes set it
     read_only,           // reads give the value, writes are ignored
     write_one_to_clear,  // reads give the flags, writing 1 to a bit clears that flag (flags only)
-    clear_on_read,       // reads give the flags and clear the bits read; writes ignored (flags only)
-    write_only,          // writes set the value, reads give 0
+    clear_on_read,  // reads give the flags and clear the bits read; writes ignored (flags only)
+    write_only,     // writes set the value, reads give 0
 };
 // The layout-file spelling of an access kind ("read-write"...).
 const char* to_string(access_kind k);
@@ -53,9 +53,9 @@ struct field_map {
 struct register_map {
     std::string name;
     std::uint32_t offset = 0;
-    unsigned width = 32;           // bits: 8, 16 or 32
-    std::uint32_t reset = 0;       // what the register reads right after reset
-    std::vector<field_map> fields; // in bit order, not overlapping
+    unsigned width = 32;            // bits: 8, 16 or 32
+    std::uint32_t reset = 0;        // what the register reads right after reset
+    std::vector<field_map> fields;  // in bit order, not overlapping
 
     // Width in bytes.
     unsigned bytes() const { return width / 8; }
@@ -72,9 +72,9 @@ struct nearest_register {
 
 // A whole layout, registers in offset order.
 struct register_layout {
-    std::string name;   // the layout's own name (the file's `name`, else the file name's stem)
-    std::string kind;   // peripheral kind: "timer"
-    std::string file;   // where it was loaded from, for messages
+    std::string name;        // the layout's own name (the file's `name`, else the file name's stem)
+    std::string kind;        // peripheral kind: "timer"
+    std::string file;        // where it was loaded from, for messages
     std::uint32_t size = 0;  // the address window in bytes
     timer_config instance;   // what the timer instance has
     std::vector<register_map> registers;

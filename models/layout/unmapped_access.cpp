@@ -9,9 +9,12 @@ namespace models {
 
 const char* to_string(unmapped_policy p) {
     switch (p) {
-        case unmapped_policy::ignore: return "ignore";
-        case unmapped_policy::warn: return "warn";
-        case unmapped_policy::error: return "error";
+        case unmapped_policy::ignore:
+            return "ignore";
+        case unmapped_policy::warn:
+            return "warn";
+        case unmapped_policy::error:
+            return "error";
     }
     return "?";
 }
@@ -28,8 +31,8 @@ std::string hex_address(std::uint64_t v) {
     return s.str();
 }
 
-nearest_location nearest_in(const register_layout& layout, std::uint64_t base, const std::string& peripheral,
-                            std::uint64_t address) {
+nearest_location nearest_in(const register_layout& layout, std::uint64_t base,
+                            const std::string& peripheral, std::uint64_t address) {
     nearest_location out;
     out.peripheral = peripheral;
     const std::uint64_t end = base + layout.size;
@@ -53,16 +56,19 @@ nearest_location nearest_in(const register_layout& layout, std::uint64_t base, c
     return out;
 }
 
-std::string unmapped_message(bool is_write, unsigned length, std::uint64_t address, std::string_view what,
-                             const nearest_location& nearest, sim::time_ps at) {
+std::string unmapped_message(bool is_write, unsigned length, std::uint64_t address,
+                             std::string_view what, const nearest_location& nearest,
+                             sim::time_ps at) {
     std::string s = is_write ? "write of " : "read of ";
-    s += std::to_string(length) + (length == 1 ? " byte at " : " bytes at ") + hex_address(address) + " hits " +
-         std::string(what) + "; nearest register: ";
+    s += std::to_string(length) + (length == 1 ? " byte at " : " bytes at ") +
+         hex_address(address) + " hits " + std::string(what) + "; nearest register: ";
     if (nearest.register_name.empty()) {
-        s += nearest.peripheral.empty() ? "none" : "none known, nearest peripheral " + nearest.peripheral;
+        s += nearest.peripheral.empty() ? "none"
+                                        : "none known, nearest peripheral " + nearest.peripheral;
     } else {
-        s += nearest.register_name + " of " + nearest.peripheral + ", " + hex_address(nearest.distance) +
-             (nearest.distance == 1 ? " byte " : " bytes ") + (nearest.below ? "below it" : "above it");
+        s += nearest.register_name + " of " + nearest.peripheral + ", " +
+             hex_address(nearest.distance) + (nearest.distance == 1 ? " byte " : " bytes ") +
+             (nearest.below ? "below it" : "above it");
     }
     return s + "; at " + std::to_string(at) + " ps";
 }
@@ -78,9 +84,14 @@ std::shared_ptr<spdlog::logger> bus_logger() {
 
 bool apply_unmapped_policy(unmapped_policy policy, const std::string& message) {
     switch (policy) {
-        case unmapped_policy::ignore: return false;
-        case unmapped_policy::warn: bus_logger()->warn(message); return false;
-        case unmapped_policy::error: bus_logger()->error(message); return true;
+        case unmapped_policy::ignore:
+            return false;
+        case unmapped_policy::warn:
+            bus_logger()->warn(message);
+            return false;
+        case unmapped_policy::error:
+            bus_logger()->error(message);
+            return true;
     }
     return false;
 }

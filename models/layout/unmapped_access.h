@@ -33,22 +33,23 @@ std::optional<unmapped_policy> unmapped_policy_from_string(std::string_view text
 
 // A register and the peripheral it belongs to, found nearest to an address.
 struct nearest_location {
-    std::string register_name;  // empty when nothing is known about the neighbourhood
-    std::string peripheral;     // the peripheral instance's name
-    std::uint64_t distance = 0; // bytes between the address and the register
-    bool below = false;         // the address lies below the register
+    std::string register_name;   // empty when nothing is known about the neighbourhood
+    std::string peripheral;      // the peripheral instance's name
+    std::uint64_t distance = 0;  // bytes between the address and the register
+    bool below = false;          // the address lies below the register
 };
 
 // The nearest register of `layout` (mapped at `base` under the name `peripheral`) to `address`.
-nearest_location nearest_in(const register_layout& layout, std::uint64_t base, const std::string& peripheral,
-                            std::uint64_t address);
+nearest_location nearest_in(const register_layout& layout, std::uint64_t base,
+                            const std::string& peripheral, std::uint64_t address);
 
 // The message for an access nobody answers, e.g.
 // "read of 4 bytes at 0x40000c00 hits no register (a location reserved in timer_a); nearest
 // register: count of timer_a, 0x4 bytes below it; at 1250000 ps".
 // `what` says where the access went ("no peripheral", "a location reserved in timer_a").
-std::string unmapped_message(bool is_write, unsigned length, std::uint64_t address, std::string_view what,
-                             const nearest_location& nearest, sim::time_ps at);
+std::string unmapped_message(bool is_write, unsigned length, std::uint64_t address,
+                             std::string_view what, const nearest_location& nearest,
+                             sim::time_ps at);
 
 // Applies the policy to a finished message: logs it on "bus" (warn: warning; error: error level)
 // and returns true when the access must fail.

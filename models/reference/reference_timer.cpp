@@ -52,7 +52,8 @@ std::uint32_t reference_timer::valid_flag_bits() const {
 
 void reference_timer::advance_to(time_ps t) {
     for (;;) {
-        const auto edge = started_ ? kernel_.edge_after(last_tick_at_) : kernel_.edge_at_or_after(0);
+        const auto edge =
+            started_ ? kernel_.edge_after(last_tick_at_) : kernel_.edge_at_or_after(0);
         if (!edge || edge->at > t) return;
         started_ = true;
         last_tick_at_ = edge->at;
@@ -130,10 +131,17 @@ void reference_timer::tick(time_ps at) {
             if (!slope_allowed || counter_ != c.compare) continue;
             set_flags(flag_channel(i), at);
             switch (c.action) {
-                case output_action::set_on_match: c.ref = true; break;
-                case output_action::clear_on_match: c.ref = false; break;
-                case output_action::toggle_on_match: c.ref = !c.ref; break;
-                default: break;
+                case output_action::set_on_match:
+                    c.ref = true;
+                    break;
+                case output_action::clear_on_match:
+                    c.ref = false;
+                    break;
+                case output_action::toggle_on_match:
+                    c.ref = !c.ref;
+                    break;
+                default:
+                    break;
             }
             if (trigger_select_ == 2 + i) send_trigger(at);
         }
@@ -242,11 +250,20 @@ void reference_timer::evaluate_levels() {
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         channel_state& c = channels_[i];
         switch (c.action) {
-            case output_action::pwm_below: c.ref = below(c); break;
-            case output_action::pwm_at_or_above: c.ref = !below(c); break;
-            case output_action::force_low: c.ref = false; break;
-            case output_action::force_high: c.ref = true; break;
-            default: break;  // none and the match actions keep the level last set
+            case output_action::pwm_below:
+                c.ref = below(c);
+                break;
+            case output_action::pwm_at_or_above:
+                c.ref = !below(c);
+                break;
+            case output_action::force_low:
+                c.ref = false;
+                break;
+            case output_action::force_high:
+                c.ref = true;
+                break;
+            default:
+                break;  // none and the match actions keep the level last set
         }
     }
 }
@@ -286,8 +303,10 @@ void reference_timer::update_outputs(bool at_tick, time_ps at) {
                 main_level = c.main_safe_level;
                 comp_level = c.comp_safe_level;
             } else {
-                main_level = c.main_enable ? (c.main_out.active != c.main_active_low) : c.main_active_low;
-                comp_level = c.comp_enable ? (c.comp_out.active != c.comp_active_low) : c.comp_active_low;
+                main_level =
+                    c.main_enable ? (c.main_out.active != c.main_active_low) : c.main_active_low;
+                comp_level =
+                    c.comp_enable ? (c.comp_out.active != c.comp_active_low) : c.comp_active_low;
             }
         } else {
             main_level = c.main_enable ? (c.ref != c.main_active_low) : c.main_active_low;
@@ -341,7 +360,9 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
     advance_to(t);
     const bool bit = (value & 1u) != 0;
     switch (f) {
-        case timer_field::enable: enable_ = bit; break;
+        case timer_field::enable:
+            enable_ = bit;
+            break;
         case timer_field::mode:
             if (value > 2) break;  // not a mode: ignored
             if (static_cast<count_mode>(value) != mode_) {
@@ -352,9 +373,15 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
         case timer_field::slope:
             if (value <= 2) slope_ = static_cast<match_slope>(value);
             break;
-        case timer_field::one_pulse: one_pulse_ = bit; break;
-        case timer_field::period_preload: period_preload_ = bit; break;
-        case timer_field::reload_disable: reload_disable_ = bit; break;
+        case timer_field::one_pulse:
+            one_pulse_ = bit;
+            break;
+        case timer_field::period_preload:
+            period_preload_ = bit;
+            break;
+        case timer_field::reload_disable:
+            reload_disable_ = bit;
+            break;
         case timer_field::reload_flag_rule:
             if (value <= 1) flag_rule_ = static_cast<reload_flag_rule>(value);
             break;
@@ -370,20 +397,35 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             period_waiting_ = period_preload_;
             if (!period_preload_) period_ = period_written_;
             break;
-        case timer_field::counter: counter_ = value & max_; break;
-        case timer_field::repetition:
-            if (cfg_.repetition_bits > 0) repetition_written_ = mask_bits(value, cfg_.repetition_bits);
+        case timer_field::counter:
+            counter_ = value & max_;
             break;
-        case timer_field::direction: break;  // read-only
-        case timer_field::dead_time: dead_time_ = std::min(value, cfg_.dead_time_max); break;
-        case timer_field::fault_enable: fault_enable_ = bit; break;
-        case timer_field::fault_latency: fault_latency_ = value; break;
+        case timer_field::repetition:
+            if (cfg_.repetition_bits > 0)
+                repetition_written_ = mask_bits(value, cfg_.repetition_bits);
+            break;
+        case timer_field::direction:
+            break;  // read-only
+        case timer_field::dead_time:
+            dead_time_ = std::min(value, cfg_.dead_time_max);
+            break;
+        case timer_field::fault_enable:
+            fault_enable_ = bit;
+            break;
+        case timer_field::fault_latency:
+            fault_latency_ = value;
+            break;
         case timer_field::rearm:
             if (bit && fault_active_ && !fault_input_) fault_active_ = false;
             break;
-        case timer_field::flags: break;  // not data: a layout maps flag writes to clear_flags
-        case timer_field::irq_enable: irq_enable_ = value & valid_flag_bits(); break;
-        case timer_field::trigger_select: trigger_select_ = value; break;
+        case timer_field::flags:
+            break;  // not data: a layout maps flag writes to clear_flags
+        case timer_field::irq_enable:
+            irq_enable_ = value & valid_flag_bits();
+            break;
+        case timer_field::trigger_select:
+            trigger_select_ = value;
+            break;
         case timer_field::compare: {
             channel_state& c = channel_at(channel);
             c.compare_written = value & max_;
@@ -396,16 +438,30 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             }
             break;
         }
-        case timer_field::compare_preload: channel_at(channel).compare_preload = bit; break;
+        case timer_field::compare_preload:
+            channel_at(channel).compare_preload = bit;
+            break;
         case timer_field::action:
             if (value <= 7) channel_at(channel).action = static_cast<output_action>(value);
             break;
-        case timer_field::main_enable: channel_at(channel).main_enable = bit; break;
-        case timer_field::main_active_low: channel_at(channel).main_active_low = bit; break;
-        case timer_field::comp_enable: channel_at(channel).comp_enable = bit; break;
-        case timer_field::comp_active_low: channel_at(channel).comp_active_low = bit; break;
-        case timer_field::main_safe_level: channel_at(channel).main_safe_level = bit; break;
-        case timer_field::comp_safe_level: channel_at(channel).comp_safe_level = bit; break;
+        case timer_field::main_enable:
+            channel_at(channel).main_enable = bit;
+            break;
+        case timer_field::main_active_low:
+            channel_at(channel).main_active_low = bit;
+            break;
+        case timer_field::comp_enable:
+            channel_at(channel).comp_enable = bit;
+            break;
+        case timer_field::comp_active_low:
+            channel_at(channel).comp_active_low = bit;
+            break;
+        case timer_field::main_safe_level:
+            channel_at(channel).main_safe_level = bit;
+            break;
+        case timer_field::comp_safe_level:
+            channel_at(channel).comp_safe_level = bit;
+            break;
     }
     settle_after_access(t);
 }
@@ -413,35 +469,64 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
 std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) {
     advance_to(t);
     switch (f) {
-        case timer_field::enable: return enable_;
-        case timer_field::mode: return static_cast<std::uint32_t>(mode_);
-        case timer_field::slope: return static_cast<std::uint32_t>(slope_);
-        case timer_field::one_pulse: return one_pulse_;
-        case timer_field::period_preload: return period_preload_;
-        case timer_field::reload_disable: return reload_disable_;
-        case timer_field::reload_flag_rule: return static_cast<std::uint32_t>(flag_rule_);
-        case timer_field::force_reload: return 0;
-        case timer_field::prescaler: return prescaler_written_;
-        case timer_field::period: return period_written_;
-        case timer_field::counter: return counter_;
-        case timer_field::repetition: return repetition_written_;
-        case timer_field::direction: return down_ ? 1 : 0;
-        case timer_field::dead_time: return dead_time_;
-        case timer_field::fault_enable: return fault_enable_;
-        case timer_field::fault_latency: return fault_latency_;
-        case timer_field::rearm: return 0;
-        case timer_field::flags: return flags_;
-        case timer_field::irq_enable: return irq_enable_;
-        case timer_field::trigger_select: return trigger_select_;
-        case timer_field::compare: return channel_at(channel).compare_written;
-        case timer_field::compare_preload: return channel_at(channel).compare_preload;
-        case timer_field::action: return static_cast<std::uint32_t>(channel_at(channel).action);
-        case timer_field::main_enable: return channel_at(channel).main_enable;
-        case timer_field::main_active_low: return channel_at(channel).main_active_low;
-        case timer_field::comp_enable: return channel_at(channel).comp_enable;
-        case timer_field::comp_active_low: return channel_at(channel).comp_active_low;
-        case timer_field::main_safe_level: return channel_at(channel).main_safe_level;
-        case timer_field::comp_safe_level: return channel_at(channel).comp_safe_level;
+        case timer_field::enable:
+            return enable_;
+        case timer_field::mode:
+            return static_cast<std::uint32_t>(mode_);
+        case timer_field::slope:
+            return static_cast<std::uint32_t>(slope_);
+        case timer_field::one_pulse:
+            return one_pulse_;
+        case timer_field::period_preload:
+            return period_preload_;
+        case timer_field::reload_disable:
+            return reload_disable_;
+        case timer_field::reload_flag_rule:
+            return static_cast<std::uint32_t>(flag_rule_);
+        case timer_field::force_reload:
+            return 0;
+        case timer_field::prescaler:
+            return prescaler_written_;
+        case timer_field::period:
+            return period_written_;
+        case timer_field::counter:
+            return counter_;
+        case timer_field::repetition:
+            return repetition_written_;
+        case timer_field::direction:
+            return down_ ? 1 : 0;
+        case timer_field::dead_time:
+            return dead_time_;
+        case timer_field::fault_enable:
+            return fault_enable_;
+        case timer_field::fault_latency:
+            return fault_latency_;
+        case timer_field::rearm:
+            return 0;
+        case timer_field::flags:
+            return flags_;
+        case timer_field::irq_enable:
+            return irq_enable_;
+        case timer_field::trigger_select:
+            return trigger_select_;
+        case timer_field::compare:
+            return channel_at(channel).compare_written;
+        case timer_field::compare_preload:
+            return channel_at(channel).compare_preload;
+        case timer_field::action:
+            return static_cast<std::uint32_t>(channel_at(channel).action);
+        case timer_field::main_enable:
+            return channel_at(channel).main_enable;
+        case timer_field::main_active_low:
+            return channel_at(channel).main_active_low;
+        case timer_field::comp_enable:
+            return channel_at(channel).comp_enable;
+        case timer_field::comp_active_low:
+            return channel_at(channel).comp_active_low;
+        case timer_field::main_safe_level:
+            return channel_at(channel).main_safe_level;
+        case timer_field::comp_safe_level:
+            return channel_at(channel).comp_safe_level;
     }
     return 0;
 }

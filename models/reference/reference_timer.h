@@ -2,10 +2,10 @@
 // The tick-exact reference timer: the test oracle for the fast timer model.
 //
 // This model implements docs/timer-model.md the slow and obvious way (DESIGN section 5): it keeps
-// every register and every piece of internal state, and advance_to() walks the kernel clock one tick
-// at a time, doing the numbered per-tick steps of the specification in their written order. There is
-// no cleverness here on purpose: when the fast model and this one disagree, this one should be the
-// easier to believe. It is slow; it is never linked into the product.
+// every register and every piece of internal state, and advance_to() walks the kernel clock one
+// tick at a time, doing the numbered per-tick steps of the specification in their written order.
+// There is no cleverness here on purpose: when the fast model and this one disagree, this one
+// should be the easier to believe. It is slow; it is never linked into the product.
 
 #include "models/timer/timer_types.h"
 #include "sim/clock_domain.h"
@@ -19,15 +19,18 @@ namespace models::reference {
 class reference_timer final : public models::timer_core_if {
 public:
     // A timer of the given configuration counting the edges of `kernel`, reporting to `observer`
-    // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad config.
-    reference_timer(const timer_config& cfg, const sim::clock_domain& kernel, timer_observer* observer);
+    // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad
+    // config.
+    reference_timer(const timer_config& cfg, const sim::clock_domain& kernel,
+                    timer_observer* observer);
 
     void advance_to(time_ps t) override;
     void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) override;
     std::uint32_t read(timer_field f, unsigned channel, time_ps t) override;
     void clear_flags(std::uint32_t mask, time_ps t) override;
     void set_fault_input(bool level, time_ps t) override;
-    // The next kernel tick (the reference has work at every tick), or false while the clock stays stopped.
+    // The next kernel tick (the reference has work at every tick), or false while the clock stays
+    // stopped.
     bool next_event(time_ps& at) const override;
     // Nothing to do: the next tick is always asked of the domain.
     void clock_changed(time_ps t) override;
@@ -56,8 +59,8 @@ private:
     };
     // One output (main or complementary) between the reference level and the pin: dead time.
     struct output_state {
-        bool want = false;        // what the reference level asks for
-        bool active = false;      // after dead time
+        bool want = false;    // what the reference level asks for
+        bool active = false;  // after dead time
         bool rise_pending = false;
         std::uint32_t rise_ticks_left = 0;
     };

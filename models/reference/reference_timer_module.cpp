@@ -4,8 +4,10 @@
 
 namespace models::reference {
 
-reference_timer_module::reference_timer_module(sc_core::sc_module_name name, const timer_config& cfg,
-                                               const sim::clock_domain& kernel, timer_observer* extra)
+reference_timer_module::reference_timer_module(sc_core::sc_module_name name,
+                                               const timer_config& cfg,
+                                               const sim::clock_domain& kernel,
+                                               timer_observer* extra)
     : sc_core::sc_module(name),
       clock("clock"),
       pins("pin", 2 * cfg.channels),

@@ -5,8 +5,8 @@
 // It exists for the benchmark that compares the fast model with the per-tick style
 // (fast_vs_reference_speedup) and for test benches that want the reference on signals. Each
 // activation processes every tick of the kernel clock domain at or before the current time, so the
-// reported times stay the domain's exact times even when the sc_clock driving the port is rounded to
-// the time resolution. The timing behaviour lives in reference_timer; this module only forwards.
+// reported times stay the domain's exact times even when the sc_clock driving the port is rounded
+// to the time resolution. The timing behaviour lives in reference_timer; this module only forwards.
 
 #include "models/reference/reference_timer.h"
 #include "models/timer/timer_types.h"

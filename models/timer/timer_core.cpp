@@ -5,7 +5,8 @@
 
 namespace models {
 
-timer_core::timer_core(const timer_config& cfg, const sim::clock_domain& kernel, timer_observer* observer)
+timer_core::timer_core(const timer_config& cfg, const sim::clock_domain& kernel,
+                       timer_observer* observer)
     : cfg_(cfg), clock_(kernel), observer_(observer) {
     cfg_.validate();
     max_ = cfg_.counter_max();
@@ -191,7 +192,8 @@ void timer_core::on_wrap(time_ps at) {
 }
 
 bool timer_core::pwm_level(const channel& c) const {
-    const bool below = (mode_ == count_mode::center && down_) ? counter_ <= c.compare : counter_ < c.compare;
+    const bool below =
+        (mode_ == count_mode::center && down_) ? counter_ <= c.compare : counter_ < c.compare;
     return c.action == output_action::pwm_below ? below : !below;
 }
 
@@ -200,10 +202,17 @@ void timer_core::evaluate_levels() {
         channel& c = ch_[i];
         switch (c.action) {
             case output_action::pwm_below:
-            case output_action::pwm_at_or_above: c.ref = pwm_level(c); break;
-            case output_action::force_low: c.ref = false; break;
-            case output_action::force_high: c.ref = true; break;
-            default: break;
+            case output_action::pwm_at_or_above:
+                c.ref = pwm_level(c);
+                break;
+            case output_action::force_low:
+                c.ref = false;
+                break;
+            case output_action::force_high:
+                c.ref = true;
+                break;
+            default:
+                break;
         }
     }
 }
@@ -241,12 +250,14 @@ void timer_core::update_pins(std::uint64_t first_tick_after, time_ps at) {
                 pending_rises_ += ps->rise_at != never;
             }
         }
-        const bool main_level = fault_active_ ? c.main_safe
-                                              : (c.main_enable ? m.active != c.main_active_low : c.main_active_low);
+        const bool main_level =
+            fault_active_ ? c.main_safe
+                          : (c.main_enable ? m.active != c.main_active_low : c.main_active_low);
         bool comp_level = c.comp_active_low;
         if (cfg_.complementary)
-            comp_level = fault_active_ ? c.comp_safe
-                                       : (c.comp_enable ? k.active != c.comp_active_low : c.comp_active_low);
+            comp_level = fault_active_
+                             ? c.comp_safe
+                             : (c.comp_enable ? k.active != c.comp_active_low : c.comp_active_low);
         if (main_level != m.level) {
             m.level = main_level;
             if (observer_) observer_->on_pin(main_pin(i), main_level, at);
@@ -317,9 +328,12 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
                 (slope_ == match_slope::down) != slope_down)
                 continue;
             set_flags(flag_channel(i), at);
-            if (c.action == output_action::set_on_match) c.ref = true;
-            else if (c.action == output_action::clear_on_match) c.ref = false;
-            else if (c.action == output_action::toggle_on_match) c.ref = !c.ref;
+            if (c.action == output_action::set_on_match)
+                c.ref = true;
+            else if (c.action == output_action::clear_on_match)
+                c.ref = false;
+            else if (c.action == output_action::toggle_on_match)
+                c.ref = !c.ref;
             if (trigger_select_ == 2 + i) trigger(at);
         }
     }
@@ -366,7 +380,9 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
     invalidate();
     const bool bit = (v & 1u) != 0;
     switch (f) {
-        case timer_field::enable: enable_ = bit; break;
+        case timer_field::enable:
+            enable_ = bit;
+            break;
         case timer_field::mode:
             if (v > 2) break;  // no meaning: ignored
             if (static_cast<count_mode>(v) != count_mode::center)
@@ -378,10 +394,18 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
         case timer_field::slope:
             if (v <= 2) slope_ = static_cast<match_slope>(v);
             break;
-        case timer_field::one_pulse: one_pulse_ = bit; break;
-        case timer_field::period_preload: period_preload_ = bit; break;
-        case timer_field::reload_disable: reload_disable_ = bit; break;
-        case timer_field::reload_flag_rule: flag_rule_ = static_cast<reload_flag_rule>(v & 1u); break;
+        case timer_field::one_pulse:
+            one_pulse_ = bit;
+            break;
+        case timer_field::period_preload:
+            period_preload_ = bit;
+            break;
+        case timer_field::reload_disable:
+            reload_disable_ = bit;
+            break;
+        case timer_field::reload_flag_rule:
+            flag_rule_ = static_cast<reload_flag_rule>(v & 1u);
+            break;
         case timer_field::force_reload:
             if (!bit) break;
             if (!reload_disable_) load_shadows();
@@ -404,18 +428,29 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             period_waiting_ = period_preload_;
             if (!period_preload_) period_ = period_shadow_;
             break;
-        case timer_field::counter: counter_ = v & max_; break;
-        case timer_field::repetition:
-            if (cfg_.repetition_bits > 0) repetition_shadow_ = v & ((1u << cfg_.repetition_bits) - 1);
+        case timer_field::counter:
+            counter_ = v & max_;
             break;
-        case timer_field::direction: break;  // read-only
-        case timer_field::dead_time: dead_time_ = std::min<std::uint32_t>(v, cfg_.dead_time_max); break;
-        case timer_field::fault_enable: fault_enable_ = bit; break;
-        case timer_field::fault_latency: fault_latency_ = v; break;
+        case timer_field::repetition:
+            if (cfg_.repetition_bits > 0)
+                repetition_shadow_ = v & ((1u << cfg_.repetition_bits) - 1);
+            break;
+        case timer_field::direction:
+            break;  // read-only
+        case timer_field::dead_time:
+            dead_time_ = std::min<std::uint32_t>(v, cfg_.dead_time_max);
+            break;
+        case timer_field::fault_enable:
+            fault_enable_ = bit;
+            break;
+        case timer_field::fault_latency:
+            fault_latency_ = v;
+            break;
         case timer_field::rearm:
             if (bit && fault_active_ && !fault_input_) fault_active_ = false;
             break;
-        case timer_field::flags: break;  // layouts map flag writes to clear_flags()
+        case timer_field::flags:
+            break;  // layouts map flag writes to clear_flags()
         case timer_field::irq_enable: {
             // Only flags that exist can be enabled.
             std::uint32_t valid = flag_reload | (cfg_.complementary ? flag_fault : 0u);
@@ -423,7 +458,9 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             irq_enable_ = v & valid;
             break;
         }
-        case timer_field::trigger_select: trigger_select_ = v; break;
+        case timer_field::trigger_select:
+            trigger_select_ = v;
+            break;
         default: {
             if (channel_index >= cfg_.channels) break;
             channel& c = ch_[channel_index];
@@ -435,19 +472,35 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
                     if (cfg_.compare_latency == 0)
                         c.compare = c.compare_shadow;
                     else
-                        c.pending.push_back({next_tick_ + cfg_.compare_latency - 1, c.compare_shadow});
+                        c.pending.push_back(
+                            {next_tick_ + cfg_.compare_latency - 1, c.compare_shadow});
                     break;
-                case timer_field::compare_preload: c.preload = bit; break;
+                case timer_field::compare_preload:
+                    c.preload = bit;
+                    break;
                 case timer_field::action:
                     if (v <= 7) c.action = static_cast<output_action>(v);
                     break;
-                case timer_field::main_enable: c.main_enable = bit; break;
-                case timer_field::main_active_low: c.main_active_low = bit; break;
-                case timer_field::comp_enable: c.comp_enable = bit; break;
-                case timer_field::comp_active_low: c.comp_active_low = bit; break;
-                case timer_field::main_safe_level: c.main_safe = bit; break;
-                case timer_field::comp_safe_level: c.comp_safe = bit; break;
-                default: break;
+                case timer_field::main_enable:
+                    c.main_enable = bit;
+                    break;
+                case timer_field::main_active_low:
+                    c.main_active_low = bit;
+                    break;
+                case timer_field::comp_enable:
+                    c.comp_enable = bit;
+                    break;
+                case timer_field::comp_active_low:
+                    c.comp_active_low = bit;
+                    break;
+                case timer_field::main_safe_level:
+                    c.main_safe = bit;
+                    break;
+                case timer_field::comp_safe_level:
+                    c.comp_safe = bit;
+                    break;
+                default:
+                    break;
             }
         }
     }
@@ -459,42 +512,72 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
 std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t) {
     catch_up(t);
     switch (f) {
-        case timer_field::enable: return enable_;
-        case timer_field::mode: return static_cast<std::uint32_t>(mode_);
-        case timer_field::slope: return static_cast<std::uint32_t>(slope_);
-        case timer_field::one_pulse: return one_pulse_;
-        case timer_field::period_preload: return period_preload_;
-        case timer_field::reload_disable: return reload_disable_;
-        case timer_field::reload_flag_rule: return static_cast<std::uint32_t>(flag_rule_);
-        case timer_field::force_reload: return 0;
-        case timer_field::prescaler: return prescaler_shadow_;
-        case timer_field::period: return period_shadow_;
-        case timer_field::counter: return counter_;
-        case timer_field::repetition: return repetition_shadow_;
+        case timer_field::enable:
+            return enable_;
+        case timer_field::mode:
+            return static_cast<std::uint32_t>(mode_);
+        case timer_field::slope:
+            return static_cast<std::uint32_t>(slope_);
+        case timer_field::one_pulse:
+            return one_pulse_;
+        case timer_field::period_preload:
+            return period_preload_;
+        case timer_field::reload_disable:
+            return reload_disable_;
+        case timer_field::reload_flag_rule:
+            return static_cast<std::uint32_t>(flag_rule_);
+        case timer_field::force_reload:
+            return 0;
+        case timer_field::prescaler:
+            return prescaler_shadow_;
+        case timer_field::period:
+            return period_shadow_;
+        case timer_field::counter:
+            return counter_;
+        case timer_field::repetition:
+            return repetition_shadow_;
         case timer_field::direction:
             return mode_ == count_mode::down || (mode_ == count_mode::center && down_) ? 1 : 0;
-        case timer_field::dead_time: return dead_time_;
-        case timer_field::fault_enable: return fault_enable_;
-        case timer_field::fault_latency: return fault_latency_;
-        case timer_field::rearm: return 0;
-        case timer_field::flags: return flags_;
-        case timer_field::irq_enable: return irq_enable_;
-        case timer_field::trigger_select: return trigger_select_;
-        default: break;
+        case timer_field::dead_time:
+            return dead_time_;
+        case timer_field::fault_enable:
+            return fault_enable_;
+        case timer_field::fault_latency:
+            return fault_latency_;
+        case timer_field::rearm:
+            return 0;
+        case timer_field::flags:
+            return flags_;
+        case timer_field::irq_enable:
+            return irq_enable_;
+        case timer_field::trigger_select:
+            return trigger_select_;
+        default:
+            break;
     }
     if (channel_index >= cfg_.channels) return 0;
     const channel& c = ch_[channel_index];
     switch (f) {
-        case timer_field::compare: return c.compare_shadow;
-        case timer_field::compare_preload: return c.preload;
-        case timer_field::action: return static_cast<std::uint32_t>(c.action);
-        case timer_field::main_enable: return c.main_enable;
-        case timer_field::main_active_low: return c.main_active_low;
-        case timer_field::comp_enable: return c.comp_enable;
-        case timer_field::comp_active_low: return c.comp_active_low;
-        case timer_field::main_safe_level: return c.main_safe;
-        case timer_field::comp_safe_level: return c.comp_safe;
-        default: return 0;
+        case timer_field::compare:
+            return c.compare_shadow;
+        case timer_field::compare_preload:
+            return c.preload;
+        case timer_field::action:
+            return static_cast<std::uint32_t>(c.action);
+        case timer_field::main_enable:
+            return c.main_enable;
+        case timer_field::main_active_low:
+            return c.main_active_low;
+        case timer_field::comp_enable:
+            return c.comp_enable;
+        case timer_field::comp_active_low:
+            return c.comp_active_low;
+        case timer_field::main_safe_level:
+            return c.main_safe;
+        case timer_field::comp_safe_level:
+            return c.comp_safe;
+        default:
+            return 0;
     }
 }
 

@@ -22,7 +22,8 @@ namespace models {
 class timer_core final : public timer_core_if {
 public:
     // A timer of the given configuration counting edges of `kernel`, reporting to `observer`
-    // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad config.
+    // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad
+    // config.
     timer_core(const timer_config& cfg, const sim::clock_domain& kernel, timer_observer* observer);
 
     void advance_to(time_ps t) override;
@@ -61,9 +62,9 @@ private:
         bool main_safe = false, comp_safe = false;
     };
     struct pin_state {
-        bool active = false;           // after dead time
+        bool active = false;            // after dead time
         std::uint64_t rise_at = never;  // tick at which a pending rise takes effect
-        bool level = false;            // last level reported
+        bool level = false;             // last level reported
     };
 
     // Tick index of the k-th counter step from now (k >= 1), given the prescaler state.

@@ -37,7 +37,8 @@ void timer_module::end_of_elaboration() {
     o.spawn_method();
     o.dont_initialize();
     o.set_sensitivity(&fault_in->value_changed_event());
-    sc_core::sc_spawn([this] { fault_changed(); }, (std::string(basename()) + "_fault").c_str(), &o);
+    sc_core::sc_spawn([this] { fault_changed(); }, (std::string(basename()) + "_fault").c_str(),
+                      &o);
 }
 
 time_ps timer_module::now_ps() { return sc_core::sc_time_stamp().value(); }

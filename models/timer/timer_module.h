@@ -4,9 +4,9 @@
 // matters. All behaviour is in timer_core; this module only forwards, schedules and drives signals.
 //
 // The module is itself a timer_core_if: a bus target (models/bus/) calls it, each access lands in
-// the core at its exact time, and the module reschedules its wake-up. Accesses may come ahead of the
-// kernel's time (temporal decoupling); what the core reports for such times is queued and driven on
-// the signals when the kernel reaches them.
+// the core at its exact time, and the module reschedules its wake-up. Accesses may come ahead of
+// the kernel's time (temporal decoupling); what the core reports for such times is queued and
+// driven on the signals when the kernel reaches them.
 //
 // The kernel wakes the module only for what needs kernel time: signals somebody asked for (pin(),
 // irq()) and the trigger event (trigger_event()). Otherwise the module costs the kernel nothing:
@@ -30,16 +30,16 @@ class timer_module : public sc_core::sc_module, public timer_core_if, private ti
 public:
     // A timer counting the edges of clock-tree node `clock_node`. The kernel's time resolution must
     // be 1 ps (the default); the constructor throws std::logic_error otherwise.
-    timer_module(const sc_core::sc_module_name& name, const timer_config& cfg, sim::clock_tree& tree,
-                 const std::string& clock_node);
+    timer_module(const sc_core::sc_module_name& name, const timer_config& cfg,
+                 sim::clock_tree& tree, const std::string& clock_node);
 
     // Optional fault input; when bound, its rising edges reach the core at their exact time.
     sc_core::sc_port<sc_core::sc_signal_in_if<bool>, 1, sc_core::SC_ZERO_OR_MORE_BOUND> fault_in;
 
-    // Output pin p (see main_pin()/comp_pin()); named "<module>.channel<c>" and "...<c>_complement".
-    // A pin's signal is driven from the moment it is first asked for here, so ask during
-    // elaboration. Pins nobody asks for cost no kernel work: their changes reach observers only
-    // (the lighter edge stream DESIGN section 4 allows).
+    // Output pin p (see main_pin()/comp_pin()); named "<module>.channel<c>" and
+    // "...<c>_complement". A pin's signal is driven from the moment it is first asked for here, so
+    // ask during elaboration. Pins nobody asks for cost no kernel work: their changes reach
+    // observers only (the lighter edge stream DESIGN section 4 allows).
     sc_core::sc_signal<bool>& pin(unsigned p) {
         driven_.at(p) = true;
         return *pins_.at(p);
@@ -50,7 +50,8 @@ public:
         irq_driven_ = true;
         return irq_;
     }
-    // Notified at every trigger pulse (from the moment it is first asked for: ask during elaboration).
+    // Notified at every trigger pulse (from the moment it is first asked for: ask during
+    // elaboration).
     const sc_core::sc_event& trigger_event() {
         trigger_requested_ = true;
         return trigger_;

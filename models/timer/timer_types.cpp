@@ -6,35 +6,64 @@ namespace models {
 
 const char* to_string(timer_field f) {
     switch (f) {
-        case timer_field::enable: return "enable";
-        case timer_field::mode: return "mode";
-        case timer_field::slope: return "slope";
-        case timer_field::one_pulse: return "one_pulse";
-        case timer_field::period_preload: return "period_preload";
-        case timer_field::reload_disable: return "reload_disable";
-        case timer_field::reload_flag_rule: return "reload_flag_rule";
-        case timer_field::force_reload: return "force_reload";
-        case timer_field::prescaler: return "prescaler";
-        case timer_field::period: return "period";
-        case timer_field::counter: return "counter";
-        case timer_field::repetition: return "repetition";
-        case timer_field::direction: return "direction";
-        case timer_field::dead_time: return "dead_time";
-        case timer_field::fault_enable: return "fault_enable";
-        case timer_field::fault_latency: return "fault_latency";
-        case timer_field::rearm: return "rearm";
-        case timer_field::flags: return "flags";
-        case timer_field::irq_enable: return "irq_enable";
-        case timer_field::trigger_select: return "trigger_select";
-        case timer_field::compare: return "compare";
-        case timer_field::compare_preload: return "compare_preload";
-        case timer_field::action: return "action";
-        case timer_field::main_enable: return "main_enable";
-        case timer_field::main_active_low: return "main_active_low";
-        case timer_field::comp_enable: return "comp_enable";
-        case timer_field::comp_active_low: return "comp_active_low";
-        case timer_field::main_safe_level: return "main_safe_level";
-        case timer_field::comp_safe_level: return "comp_safe_level";
+        case timer_field::enable:
+            return "enable";
+        case timer_field::mode:
+            return "mode";
+        case timer_field::slope:
+            return "slope";
+        case timer_field::one_pulse:
+            return "one_pulse";
+        case timer_field::period_preload:
+            return "period_preload";
+        case timer_field::reload_disable:
+            return "reload_disable";
+        case timer_field::reload_flag_rule:
+            return "reload_flag_rule";
+        case timer_field::force_reload:
+            return "force_reload";
+        case timer_field::prescaler:
+            return "prescaler";
+        case timer_field::period:
+            return "period";
+        case timer_field::counter:
+            return "counter";
+        case timer_field::repetition:
+            return "repetition";
+        case timer_field::direction:
+            return "direction";
+        case timer_field::dead_time:
+            return "dead_time";
+        case timer_field::fault_enable:
+            return "fault_enable";
+        case timer_field::fault_latency:
+            return "fault_latency";
+        case timer_field::rearm:
+            return "rearm";
+        case timer_field::flags:
+            return "flags";
+        case timer_field::irq_enable:
+            return "irq_enable";
+        case timer_field::trigger_select:
+            return "trigger_select";
+        case timer_field::compare:
+            return "compare";
+        case timer_field::compare_preload:
+            return "compare_preload";
+        case timer_field::action:
+            return "action";
+        case timer_field::main_enable:
+            return "main_enable";
+        case timer_field::main_active_low:
+            return "main_active_low";
+        case timer_field::comp_enable:
+            return "comp_enable";
+        case timer_field::comp_active_low:
+            return "comp_active_low";
+        case timer_field::main_safe_level:
+            return "main_safe_level";
+        case timer_field::comp_safe_level:
+            return "comp_safe_level";
     }
     return "?";
 }
@@ -45,7 +74,8 @@ void timer_config::validate() const {
     auto bad = [](const std::string& what) { throw std::invalid_argument("timer: " + what); };
     if (counter_bits < 8 || counter_bits > 32)
         bad("counter width " + std::to_string(counter_bits) + " bits; accepted: 8 to 32");
-    if (channels < 1 || channels > 6) bad("channels " + std::to_string(channels) + "; accepted: 1 to 6");
+    if (channels < 1 || channels > 6)
+        bad("channels " + std::to_string(channels) + "; accepted: 1 to 6");
     if (prescaler_bits < 1 || prescaler_bits > 32)
         bad("prescaler width " + std::to_string(prescaler_bits) + " bits; accepted: 1 to 32");
     if (repetition_bits > 16)

@@ -57,15 +57,15 @@ enum class timer_field : std::uint32_t {
     irq_enable,        // same bits: which flags raise the interrupt request
     trigger_select,    // 0 none, 1 reload event, 2 + c: channel c match
     // per channel
-    compare,           // compare value
-    compare_preload,   // 1: compare writes wait for the next reload event
-    action,            // output_action
-    main_enable,       // 1: the main output drives its level; 0: it sits inactive
-    main_active_low,   // 1: the main output's active level is low
-    comp_enable,       // complementary output enable
-    comp_active_low,   // complementary output polarity
-    main_safe_level,   // level of the main output while a fault holds
-    comp_safe_level,   // level of the complementary output while a fault holds
+    compare,          // compare value
+    compare_preload,  // 1: compare writes wait for the next reload event
+    action,           // output_action
+    main_enable,      // 1: the main output drives its level; 0: it sits inactive
+    main_active_low,  // 1: the main output's active level is low
+    comp_enable,      // complementary output enable
+    comp_active_low,  // complementary output polarity
+    main_safe_level,  // level of the main output while a fault holds
+    comp_safe_level,  // level of the complementary output while a fault holds
 };
 // Readable name of a field ("period", "compare"...), for layouts and messages.
 const char* to_string(timer_field f);
@@ -79,14 +79,14 @@ inline constexpr std::uint32_t flag_fault = 1u << 7;
 
 // What one timer instance has: fixed by the part, not by firmware.
 struct timer_config {
-    unsigned counter_bits = 16;          // 8..32
-    unsigned channels = 4;               // 1..6
-    unsigned prescaler_bits = 16;        // width of the prescaler register
-    unsigned repetition_bits = 8;        // 0: no repetition counter
-    bool prescaler_shadowed = true;      // prescaler writes wait for the next reload event
-    bool complementary = false;          // complementary outputs, dead time and fault input
-    unsigned dead_time_max = 1023;       // largest dead time in kernel ticks
-    unsigned compare_latency = 0;        // 0..2 kernel ticks before a compare write takes effect
+    unsigned counter_bits = 16;      // 8..32
+    unsigned channels = 4;           // 1..6
+    unsigned prescaler_bits = 16;    // width of the prescaler register
+    unsigned repetition_bits = 8;    // 0: no repetition counter
+    bool prescaler_shadowed = true;  // prescaler writes wait for the next reload event
+    bool complementary = false;      // complementary outputs, dead time and fault input
+    unsigned dead_time_max = 1023;   // largest dead time in kernel ticks
+    unsigned compare_latency = 0;    // 0..2 kernel ticks before a compare write takes effect
     // Throws std::invalid_argument naming the first out-of-range value.
     void validate() const;
     std::uint32_t counter_max() const {
@@ -113,8 +113,8 @@ public:
 };
 
 // The plain C++ interface both timer models implement; the SystemC shell and the tests drive it.
-// Calls come in non-decreasing time. A write or read at time t sees every kernel tick at or before t
-// as already happened.
+// Calls come in non-decreasing time. A write or read at time t sees every kernel tick at or before
+// t as already happened.
 class timer_core_if {
 public:
     virtual ~timer_core_if() = default;

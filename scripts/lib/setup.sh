@@ -17,6 +17,8 @@ tickbench_packages=(
     libtomlplusplus-dev
     libcli11-dev
     libxml2-utils
+    # the formatting check of .ci/run (scripts/format --check)
+    clang-format
     # x86-64 instruction decoder of the trap engine (harness/trap/)
     libzydis-dev
     # outside tools the waveform tests check our VCD files with (tests/waves/)

@@ -10,12 +10,12 @@
 #include "sim/scenario_error.h"
 #include "sim/vcd_writer.h"
 
-#include <CLI/CLI.hpp>
 #include <spdlog/spdlog.h>
+#include <CLI/CLI.hpp>
 
+#include <unistd.h>
 #include <iostream>
 #include <sstream>
-#include <unistd.h>
 
 namespace sim::cli {
 
@@ -31,8 +31,10 @@ void report_error(const std::string& message) {
 }  // namespace
 
 int run(int argc, char** argv) {
-    CLI::App app{"Simulates microcontroller clock trees and counter/timer peripherals on the host.", "tickbench"};
-    app.set_version_flag("--version", std::string("tickbench ") + TICKBENCH_VERSION, "Print the version and exit");
+    CLI::App app{"Simulates microcontroller clock trees and counter/timer peripherals on the host.",
+                 "tickbench"};
+    app.set_version_flag("--version", std::string("tickbench ") + TICKBENCH_VERSION,
+                         "Print the version and exit");
     std::string log_level = "warn";
     app.add_option("--log-level", log_level, "How much to log on stderr")
         ->check(CLI::IsMember({"trace", "debug", "info", "warn", "error", "critical", "off"}))
@@ -41,38 +43,51 @@ int run(int argc, char** argv) {
     app.fallthrough();  // --log-level may also follow the subcommand
 
     run_command_options run_opts;
-    CLI::App* run_cmd = app.add_subcommand("run", "Run SCENARIO against its firmware and write waves, checks and reports");
-    run_cmd->add_option("SCENARIO", run_opts.file, "Scenario file (TOML, docs/scenario.md)")->required();
-    run_cmd->add_option("--firmware", run_opts.firmware,
-                        "Firmware shared library, relative to the current folder (replaces [firmware] library)");
-    run_cmd->add_option("--out", run_opts.out_dir, "Folder for the outputs (created if missing)")->capture_default_str();
-    run_cmd->add_option("--duration", run_opts.duration, "Simulated time to run, e.g. \"10 ms\" (replaces [run] duration)");
+    CLI::App* run_cmd = app.add_subcommand(
+        "run", "Run SCENARIO against its firmware and write waves, checks and reports");
+    run_cmd->add_option("SCENARIO", run_opts.file, "Scenario file (TOML, docs/scenario.md)")
+        ->required();
+    run_cmd->add_option(
+        "--firmware", run_opts.firmware,
+        "Firmware shared library, relative to the current folder (replaces [firmware] library)");
+    run_cmd->add_option("--out", run_opts.out_dir, "Folder for the outputs (created if missing)")
+        ->capture_default_str();
+    run_cmd->add_option("--duration", run_opts.duration,
+                        "Simulated time to run, e.g. \"10 ms\" (replaces [run] duration)");
     run_cmd->add_option("--seed", run_opts.seed, "Seed of the run (replaces [run] seed)");
-    run_cmd->add_option("--start-offset", run_opts.start_offset,
-                        "CPU cycles after time 0 at which the firmware starts (replaces [cpu] start-offset)");
-    run_cmd->add_option("--param", run_opts.params,
-                        "Firmware parameter NAME=VALUE (replaces or adds to [firmware.parameters]); repeatable");
+    run_cmd->add_option(
+        "--start-offset", run_opts.start_offset,
+        "CPU cycles after time 0 at which the firmware starts (replaces [cpu] start-offset)");
+    run_cmd->add_option(
+        "--param", run_opts.params,
+        "Firmware parameter NAME=VALUE (replaces or adds to [firmware.parameters]); repeatable");
 
     std::string check_file;
-    CLI::App* check_cmd =
-        app.add_subcommand("check", "Validate SCENARIO (tables, layouts, checks, firmware) without running it");
+    CLI::App* check_cmd = app.add_subcommand(
+        "check", "Validate SCENARIO (tables, layouts, checks, firmware) without running it");
     check_cmd->add_option("SCENARIO", check_file, "Scenario file (TOML)")->required();
 
     clocks_options clocks;
-    CLI::App* clocks_cmd = app.add_subcommand("clocks", "Print the clock plan of the [clocks] tables in SCENARIO");
-    clocks_cmd->add_option("SCENARIO", clocks.file, "Scenario or part description (TOML)")->required();
+    CLI::App* clocks_cmd =
+        app.add_subcommand("clocks", "Print the clock plan of the [clocks] tables in SCENARIO");
+    clocks_cmd->add_option("SCENARIO", clocks.file, "Scenario or part description (TOML)")
+        ->required();
     clocks_cmd->add_flag("--json", clocks.json, "Print the plan as JSON instead of a table");
 
     plan_options plan;
-    CLI::App* plan_cmd =
-        app.add_subcommand("plan", "List prescaler and period settings that reach a target frequency, best first");
-    plan_cmd->add_option("--clock", plan.clock, "The timer's kernel clock, e.g. \"48 MHz\"")->required();
-    plan_cmd->add_option("--target", plan.target, "The output frequency wanted, e.g. \"25 kHz\"")->required();
+    CLI::App* plan_cmd = app.add_subcommand(
+        "plan", "List prescaler and period settings that reach a target frequency, best first");
+    plan_cmd->add_option("--clock", plan.clock, "The timer's kernel clock, e.g. \"48 MHz\"")
+        ->required();
+    plan_cmd->add_option("--target", plan.target, "The output frequency wanted, e.g. \"25 kHz\"")
+        ->required();
     plan_cmd->add_option("--width", plan.width, "Counter width in bits (the prescaler has 16)")
         ->check(CLI::Range(1u, 32u))
         ->capture_default_str();
     plan_cmd->add_flag("--center", plan.center, "Center-aligned counting (up and down)");
-    plan_cmd->add_option("--max", plan.max, "How many choices to list")->check(CLI::Range(1u, 10000u))->capture_default_str();
+    plan_cmd->add_option("--max", plan.max, "How many choices to list")
+        ->check(CLI::Range(1u, 10000u))
+        ->capture_default_str();
 
     try {
         app.parse(argc, argv);
@@ -108,7 +123,8 @@ int run(int argc, char** argv) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const std::exception& e) {
-        report_error(std::string("internal error, a bug: please report it with the input: ") + e.what());
+        report_error(std::string("internal error, a bug: please report it with the input: ") +
+                     e.what());
         return exit_internal;
     }
     return exit_internal;

@@ -21,9 +21,10 @@ int run_plan(const plan_options& options, std::ostream& out) {
     rq.center = options.center;
     rq.max_results = options.max;
     const auto choices = harness::run::plan_periods(rq);
-    out << "clock " << rq.clock.pretty() << " (" << rq.clock.exact_string() << "), target " << rq.target.pretty()
-        << ", " << (rq.center ? "center-aligned: f = clock / ((prescaler + 1) x 2 x period)"
-                              : "edge-aligned: f = clock / ((prescaler + 1) x (period + 1))")
+    out << "clock " << rq.clock.pretty() << " (" << rq.clock.exact_string() << "), target "
+        << rq.target.pretty() << ", "
+        << (rq.center ? "center-aligned: f = clock / ((prescaler + 1) x 2 x period)"
+                      : "edge-aligned: f = clock / ((prescaler + 1) x (period + 1))")
         << ", " << rq.counter_bits << "-bit counter, " << rq.prescaler_bits << "-bit prescaler\n";
     if (choices.empty()) {
         out << "no prescaler and period reach the target with these widths\n";
@@ -33,11 +34,12 @@ int run_plan(const plan_options& options, std::ostream& out) {
     std::vector<std::vector<std::string>> rows = {
         {"prescaler", "period", "achieved (Hz)", "exact (Hz)", "error (ppm)", "resolution (bits)"}};
     for (const auto& c : choices) {
-        const std::string exact = c.achieved.den() == 1
-                                      ? std::to_string(c.achieved.num())
-                                      : std::to_string(c.achieved.num()) + "/" + std::to_string(c.achieved.den());
-        rows.push_back({std::to_string(c.prescaler), std::to_string(c.period), c.achieved.decimal_string(), exact,
-                        c.error_ppm_text(), c.resolution_bits_text()});
+        const std::string exact = c.achieved.den() == 1 ? std::to_string(c.achieved.num())
+                                                        : std::to_string(c.achieved.num()) + "/" +
+                                                              std::to_string(c.achieved.den());
+        rows.push_back({std::to_string(c.prescaler), std::to_string(c.period),
+                        c.achieved.decimal_string(), exact, c.error_ppm_text(),
+                        c.resolution_bits_text()});
     }
     std::vector<std::size_t> width(rows[0].size(), 0);
     for (const auto& r : rows)

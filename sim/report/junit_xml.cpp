@@ -71,8 +71,8 @@ std::string junit_xml_text(const std::vector<check_result>& results, const std::
         x += "    <testcase name=\"" + xml_escape(r.name) + "\" classname=\"tickbench." +
              r.kind_text() + "\">\n";
         if (!r.passed) {
-            x += "      <failure message=\"" + xml_escape(r.detail) + "\" type=\"" +
-                 r.kind_text() + "\">" + xml_escape(measured_lines(r)) + "</failure>\n";
+            x += "      <failure message=\"" + xml_escape(r.detail) + "\" type=\"" + r.kind_text() +
+                 "\">" + xml_escape(measured_lines(r)) + "</failure>\n";
         }
         x += "      <system-out>" + xml_escape(r.signal + ": " + r.detail) + "</system-out>\n";
         x += "    </testcase>\n";

@@ -1,10 +1,10 @@
 #include "tests/bench/isolated_run.h"
 
+#include <sys/wait.h>
+#include <unistd.h>
 #include <cstdio>
 #include <stdexcept>
 #include <string>
-#include <sys/wait.h>
-#include <unistd.h>
 
 namespace bench {
 
@@ -36,7 +36,8 @@ double run_isolated(const std::function<double()>& body) {
     int status = 0;
     waitpid(pid, &status, 0);
     if (n != static_cast<ssize_t>(sizeof v) || !WIFEXITED(status) || WEXITSTATUS(status) != 0)
-        throw std::runtime_error("a measurement's child process failed (status " + std::to_string(status) + ")");
+        throw std::runtime_error("a measurement's child process failed (status " +
+                                 std::to_string(status) + ")");
     return v;
 }
 

@@ -25,7 +25,8 @@ struct metric {
     // it when the body's setup is costly or its cost depends on how long it has run.
     std::int64_t fixed_iterations = 0;
     // Instead of a timed body: a measurement that computes its value itself, in `unit` (ratios of
-    // two workloads run side by side, rates). `quick` asks for a smoke-sized run. Throws on failure.
+    // two workloads run side by side, rates). `quick` asks for a smoke-sized run. Throws on
+    // failure.
     double (*measure)(bool quick) = nullptr;
 };
 

@@ -17,14 +17,14 @@
 
 #include <systemc>
 
+#include <sys/resource.h>
+#include <sys/wait.h>
+#include <unistd.h>
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
 #include <stdexcept>
 #include <string>
-#include <sys/resource.h>
-#include <sys/wait.h>
-#include <unistd.h>
 
 namespace {
 
@@ -50,7 +50,8 @@ double probed_pwm(sim::signal_sink& sink, sim::time_ps simulated) {
     timer.add_observer(&probe);
     tree.start();
     sink.begin();
-    bench::program_pwm(hz, [&](models::timer_field f, unsigned c, std::uint32_t v) { timer.write(f, c, v, 0); });
+    bench::program_pwm(
+        hz, [&](models::timer_field f, unsigned c, std::uint32_t v) { timer.write(f, c, v, 0); });
     sc_core::sc_start(sc_core::SC_ZERO_TIME);
     const auto t0 = std::chrono::steady_clock::now();
     sc_core::sc_start(sc_core::sc_time::from_value(simulated));
@@ -65,15 +66,15 @@ double vcd_overhead(bool quick) {
     double on = 1e30, off = 1e30;
     for (int round = 0; round < (quick ? 1 : 5); ++round) {
         off = std::min(off, bench::run_isolated([&] {
-            null_sink sink;
-            return probed_pwm(sink, simulated);
-        }));
+                           null_sink sink;
+                           return probed_pwm(sink, simulated);
+                       }));
         on = std::min(on, bench::run_isolated([&] {
-            sim::vcd_options o;
-            o.date = "bench";
-            sim::vcd_writer vcd(path, o);
-            return probed_pwm(vcd, simulated);
-        }));
+                          sim::vcd_options o;
+                          o.date = "bench";
+                          sim::vcd_writer vcd(path, o);
+                          return probed_pwm(vcd, simulated);
+                      }));
     }
     std::remove(path.c_str());
     return on / off;
@@ -113,8 +114,9 @@ const bench::add_metric vcd{{"vcd_overhead", "x",
                              "wall time with the VCD writer / with a sink that drops, 3-channel "
                              "25 kHz PWM at 48 MHz, 10 s simulated",
                              nullptr, 0, vcd_overhead}};
-const bench::add_metric rss{{"rss_growth_ratio", "x",
-                             "peak RSS of tickbench run on the fan controller, 100 s / 10 s simulated",
-                             nullptr, 0, rss_growth_ratio}};
+const bench::add_metric rss{
+    {"rss_growth_ratio", "x",
+     "peak RSS of tickbench run on the fan controller, 100 s / 10 s simulated", nullptr, 0,
+     rss_growth_ratio}};
 
 }  // namespace

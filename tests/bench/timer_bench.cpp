@@ -79,13 +79,13 @@ double reference_pwm(std::uint64_t hz, sim::time_ps simulated) {
     sc_core::sc_clock clk("clk", sc_core::sc_time::from_value(sim::ps_per_second / hz));
     models::reference::reference_timer_module timer("reference", pwm_config(), kernel);
     timer.clock(clk);
-    program_pwm(hz, [&](timer_field f, unsigned c, std::uint32_t v) { timer.core().write(f, c, v, 0); });
+    program_pwm(
+        hz, [&](timer_field f, unsigned c, std::uint32_t v) { timer.core().write(f, c, v, 0); });
     sc_core::sc_start(sc_core::SC_ZERO_TIME);
     const auto t0 = clock_type::now();
     sc_core::sc_start(sc_core::sc_time::from_value(simulated));
     return seconds_since(t0);
 }
-
 
 double fast_vs_reference_speedup(bool quick) {
     const sim::time_ps simulated = quick ? 2'000'000'000 : 200'000'000'000;  // 2 ms / 0.2 s
@@ -93,9 +93,11 @@ double fast_vs_reference_speedup(bool quick) {
     // shared 2-core machine inflates neither side alone.
     double reference = 1e30, fast = 1e30;
     for (int round = 0; round < (quick ? 1 : 3); ++round) {
-        reference = std::min(reference, bench::run_isolated([&] { return reference_pwm(48'000'000, simulated); }));
+        reference = std::min(
+            reference, bench::run_isolated([&] { return reference_pwm(48'000'000, simulated); }));
         for (int i = 0; i < 3; ++i)
-            fast = std::min(fast, bench::run_isolated([&] { return fast_pwm(48'000'000, simulated).seconds; }));
+            fast = std::min(
+                fast, bench::run_isolated([&] { return fast_pwm(48'000'000, simulated).seconds; }));
     }
     return reference / fast;
 }
@@ -107,8 +109,11 @@ double clock_independence_spread(bool quick) {
     std::vector<double> times(3, 1e30);
     for (int round = 0; round < (quick ? 1 : 5); ++round)
         for (std::size_t k = 0; k < 3; ++k)
-            times[k] = std::min(times[k], bench::run_isolated([&] { return fast_pwm(clocks[k], simulated).seconds; }));
-    return *std::max_element(times.begin(), times.end()) / *std::min_element(times.begin(), times.end());
+            times[k] = std::min(times[k], bench::run_isolated([&] {
+                                    return fast_pwm(clocks[k], simulated).seconds;
+                                }));
+    return *std::max_element(times.begin(), times.end()) /
+           *std::min_element(times.begin(), times.end());
 }
 
 double edges_per_second(bool quick) {
@@ -126,9 +131,10 @@ const bench::add_metric speedup{{"fast_vs_reference_speedup", "x",
                                  "reference (per-tick, sc_clock) wall time / fast model wall time, "
                                  "3-channel 25 kHz PWM at 48 MHz, 0.2 s simulated",
                                  nullptr, 0, fast_vs_reference_speedup}};
-const bench::add_metric spread{{"clock_independence_spread", "x",
-                                "slowest / fastest wall time of the same PWM at 1 MHz, 48 MHz, 1 GHz",
-                                nullptr, 0, clock_independence_spread}};
+const bench::add_metric spread{
+    {"clock_independence_spread", "x",
+     "slowest / fastest wall time of the same PWM at 1 MHz, 48 MHz, 1 GHz", nullptr, 0,
+     clock_independence_spread}};
 const bench::add_metric edges{{"edges_per_second", "edges/s",
                                "output edges per wall second, fast model in its module, no tracing",
                                nullptr, 0, edges_per_second}};

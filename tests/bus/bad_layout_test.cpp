@@ -61,16 +61,19 @@ TEST(bad_layout_test, every_file_is_refused_with_place_and_remedy) {
             bool found = false;
             for (const auto& f : e.findings()) {
                 const auto text = f.text();
-                found |= text.find(place) != std::string::npos && text.find(c.expect) != std::string::npos;
+                found |= text.find(place) != std::string::npos &&
+                         text.find(c.expect) != std::string::npos;
             }
-            EXPECT_TRUE(found) << "expected a finding at " << place << " with \"" << c.expect << "\"; got:\n"
+            EXPECT_TRUE(found) << "expected a finding at " << place << " with \"" << c.expect
+                               << "\"; got:\n"
                                << e.what();
         }
     }
 }
 
 TEST(bad_layout_test, an_unreadable_file_is_an_error) {
-    EXPECT_THROW(models::load_register_layout_file((corpus / "no_such_file.toml").string()), sim::scenario_error);
+    EXPECT_THROW(models::load_register_layout_file((corpus / "no_such_file.toml").string()),
+                 sim::scenario_error);
 }
 
 }  // namespace

@@ -1,8 +1,8 @@
 // The bus side in a running SystemC kernel: an initiator thread, an address router and two timer
-// targets (one per shipped layout) over recording stand-ins for the timer models. SystemC elaborates
-// once per process, so this binary holds a single test that builds one platform and walks through
-// routing by address, the access latency added to the delay, the time each access lands at, the
-// unmapped-address policies with their messages, and the TLM error responses.
+// targets (one per shipped layout) over recording stand-ins for the timer models. SystemC
+// elaborates once per process, so this binary holds a single test that builds one platform and
+// walks through routing by address, the access latency added to the delay, the time each access
+// lands at, the unmapped-address policies with their messages, and the TLM error responses.
 
 #include "models/bus/address_router.h"
 #include "models/bus/timer_target.h"
@@ -12,9 +12,9 @@
 #include <gtest/gtest.h>
 #include <spdlog/sinks/ostream_sink.h>
 #include <spdlog/spdlog.h>
+#include <tlm_utils/simple_initiator_socket.h>
 #include <systemc>
 #include <tlm>
-#include <tlm_utils/simple_initiator_socket.h>
 
 #include <functional>
 #include <sstream>
@@ -42,7 +42,8 @@ struct script_initiator : sc_core::sc_module {
     std::function<void(script_initiator&)> script;
 
     SC_HAS_PROCESS(script_initiator);
-    explicit script_initiator(const sc_core::sc_module_name& n) : sc_core::sc_module(n), socket("socket") {
+    explicit script_initiator(const sc_core::sc_module_name& n)
+        : sc_core::sc_module(n), socket("socket") {
         SC_THREAD(run);
     }
     void run() {
@@ -50,7 +51,8 @@ struct script_initiator : sc_core::sc_module {
     }
     // One access; `be` is an optional byte-enable pattern.
     result access(tlm::tlm_command cmd, std::uint64_t address, unsigned length, std::uint32_t value,
-                  sc_core::sc_time delay = sc_core::SC_ZERO_TIME, std::vector<unsigned char> be = {}) {
+                  sc_core::sc_time delay = sc_core::SC_ZERO_TIME,
+                  std::vector<unsigned char> be = {}) {
         unsigned char data[8] = {};
         for (unsigned i = 0; i < 4; ++i) data[i] = static_cast<unsigned char>(value >> (8 * i));
         tlm::tlm_generic_payload t;
@@ -73,7 +75,8 @@ struct script_initiator : sc_core::sc_module {
 
 TEST(bus_platform_test, routes_times_and_polices_accesses) {
     std::ostringstream log;
-    auto logger = std::make_shared<spdlog::logger>("bus", std::make_shared<spdlog::sinks::ostream_sink_st>(log));
+    auto logger = std::make_shared<spdlog::logger>(
+        "bus", std::make_shared<spdlog::sinks::ostream_sink_st>(log));
     logger->set_pattern("%l %v");
     spdlog::drop("bus");
     spdlog::register_logger(logger);
@@ -87,8 +90,10 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
     const auto quad = models::load_register_layout_file(dir + "timer16_quad.toml");
     const auto dual = models::load_register_layout_file(dir + "timer32_dual.toml");
     recording_timer_core core_a, core_b;
-    models::register_file regs_a(quad, core_a, quad.instance, "timer_a", models::unmapped_policy::ignore, base_a);
-    models::register_file regs_b(dual, core_b, dual.instance, "timer_b", models::unmapped_policy::ignore, base_b);
+    models::register_file regs_a(quad, core_a, quad.instance, "timer_a",
+                                 models::unmapped_policy::ignore, base_a);
+    models::register_file regs_b(dual, core_b, dual.instance, "timer_b",
+                                 models::unmapped_policy::ignore, base_b);
 
     const sc_core::sc_time ns(1, sc_core::SC_NS);
     models::timer_target target_a("timer_a", regs_a, 10 * ns);
@@ -96,19 +101,22 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
 
     // Overlapping ranges are refused when the router is built.
     try {
-        models::address_router bad("bad_router",
-                                   {{base_a, 0x40, "timer_a", &quad}, {base_a + 0x20, 0x40, "timer_b", &dual}},
-                                   models::unmapped_policy::warn);
+        models::address_router bad(
+            "bad_router",
+            {{base_a, 0x40, "timer_a", &quad}, {base_a + 0x20, 0x40, "timer_b", &dual}},
+            models::unmapped_policy::warn);
         ADD_FAILURE() << "overlapping ranges accepted";
     } catch (const std::invalid_argument& e) {
-        EXPECT_NE(std::string(e.what()).find("range \"timer_b\" 0x40000020..0x4000005f overlaps range \"timer_a\" "
-                                             "0x40000000..0x4000003f"),
+        EXPECT_NE(std::string(e.what()).find(
+                      "range \"timer_b\" 0x40000020..0x4000005f overlaps range \"timer_a\" "
+                      "0x40000000..0x4000003f"),
                   std::string::npos)
             << e.what();
     }
 
-    models::address_router router("router", {{base_a, 0x40, "timer_a", &quad}, {base_b, 0x40, "timer_b", &dual}},
-                                  models::unmapped_policy::ignore);
+    models::address_router router(
+        "router", {{base_a, 0x40, "timer_a", &quad}, {base_b, 0x40, "timer_b", &dual}},
+        models::unmapped_policy::ignore);
     script_initiator cpu("cpu");
     cpu.socket.bind(router.target_socket);
     router.initiator_socket.bind(target_a.socket);
@@ -137,15 +145,17 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
         router.set_policy(models::unmapped_policy::error);
         r.push_back(self.access(TLM_WRITE_COMMAND, base_b - 4, 4, 0, 7 * ns));
         logs.push_back(take_log());
-        // 5: a reserved location inside timer_a's window, with the error policy on its register file.
+        // 5: a reserved location inside timer_a's window, with the error policy on its register
+        // file.
         regs_a.set_policy(models::unmapped_policy::error);
         r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x24, 4, 0));
         logs.push_back(take_log());
         // 6-9: misaligned, bad length, scattered byte enables, running past the window.
         r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x02, 4, 0));
         r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x00, 3, 0));
-        r.push_back(self.access(TLM_WRITE_COMMAND, base_a + 0x08, 4, 0, sc_core::SC_ZERO_TIME,
-                                {TLM_BYTE_ENABLED, TLM_BYTE_DISABLED, TLM_BYTE_ENABLED, TLM_BYTE_DISABLED}));
+        r.push_back(self.access(
+            TLM_WRITE_COMMAND, base_a + 0x08, 4, 0, sc_core::SC_ZERO_TIME,
+            {TLM_BYTE_ENABLED, TLM_BYTE_DISABLED, TLM_BYTE_ENABLED, TLM_BYTE_DISABLED}));
         r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x3e, 4, 0));
         logs.push_back(take_log());
         // 10: one enabled byte: byte 1 of timer_a's "run" only.
@@ -184,21 +194,27 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
     // warn: the same, with a warning naming address, nearest register and time.
     EXPECT_EQ(r[3].status, tlm::TLM_OK_RESPONSE);
     EXPECT_EQ(r[3].data, 0u);
-    EXPECT_EQ(logs[1], "warning read of 4 bytes at 0x40000800 hits no peripheral; nearest register: status_clear of "
-                       "timer_a, 0x7dd bytes above it; at 1000000 ps\n");
+    EXPECT_EQ(logs[1],
+              "warning read of 4 bytes at 0x40000800 hits no peripheral; nearest register: "
+              "status_clear of "
+              "timer_a, 0x7dd bytes above it; at 1000000 ps\n");
     // error: an address error and an error message.
     EXPECT_EQ(r[4].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
-    EXPECT_EQ(logs[2], "error write of 4 bytes at 0x40000ffc hits no peripheral; nearest register: setup of timer_b, "
-                       "0x4 bytes below it; at 1007000 ps\n");
+    EXPECT_EQ(logs[2],
+              "error write of 4 bytes at 0x40000ffc hits no peripheral; nearest register: setup of "
+              "timer_b, "
+              "0x4 bytes below it; at 1007000 ps\n");
     // A reserved location inside a window, found by the register file under its own policy.
     EXPECT_EQ(r[5].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
-    EXPECT_NE(logs[3].find("error read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest "
-                           "register: status_clear of timer_a, 0x1 byte above it; at 1000000 ps"),
-              std::string::npos)
+    EXPECT_NE(
+        logs[3].find(
+            "error read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest "
+            "register: status_clear of timer_a, 0x1 byte above it; at 1000000 ps"),
+        std::string::npos)
         << logs[3];
 
-    // Malformed accesses get the matching TLM error responses (IEEE 1666-2011, TLM-2.0 generic payload
-    // response status; which status fits which fault recalled from memory).
+    // Malformed accesses get the matching TLM error responses (IEEE 1666-2011, TLM-2.0 generic
+    // payload response status; which status fits which fault recalled from memory).
     EXPECT_EQ(r[6].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
     EXPECT_EQ(r[7].status, tlm::TLM_BURST_ERROR_RESPONSE);
     EXPECT_EQ(r[8].status, tlm::TLM_BYTE_ENABLE_ERROR_RESPONSE);

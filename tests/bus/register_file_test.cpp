@@ -25,7 +25,8 @@ const std::string layouts_dir = std::string(TICKBENCH_SOURCE_DIR) + "/models/lay
 struct quad_fixture : ::testing::Test {
     quad_fixture()
         : layout(models::load_register_layout_file(layouts_dir + "timer16_quad.toml")),
-          regs(layout, core, layout.instance, "timer_a", models::unmapped_policy::ignore, 0x4000'0000) {}
+          regs(layout, core, layout.instance, "timer_a", models::unmapped_policy::ignore,
+               0x4000'0000) {}
     std::uint32_t read(std::uint32_t offset, unsigned length, models::time_ps t = 10) {
         std::uint32_t v = 0xdead'beef;
         const auto o = regs.read(offset, length, v, t);
@@ -52,10 +53,14 @@ TEST_F(quad_fixture, a_full_write_becomes_field_writes_in_bit_order) {
     regs.write(0x10, 2, 0b0011'0111'0010'1001, 500);
     using c = recording_timer_core::call;
     const std::vector<c> expected = {
-        {kind::write, timer_field::enable, 0, 1, 500},         {kind::write, timer_field::one_pulse, 0, 0, 500},
-        {kind::write, timer_field::mode, 0, 2, 500},           {kind::write, timer_field::slope, 0, 2, 500},
-        {kind::write, timer_field::period_preload, 0, 1, 500}, {kind::write, timer_field::reload_disable, 0, 1, 500},
-        {kind::write, timer_field::reload_flag_rule, 0, 1, 500}, {kind::write, timer_field::trigger_select, 0, 3, 500},
+        {kind::write, timer_field::enable, 0, 1, 500},
+        {kind::write, timer_field::one_pulse, 0, 0, 500},
+        {kind::write, timer_field::mode, 0, 2, 500},
+        {kind::write, timer_field::slope, 0, 2, 500},
+        {kind::write, timer_field::period_preload, 0, 1, 500},
+        {kind::write, timer_field::reload_disable, 0, 1, 500},
+        {kind::write, timer_field::reload_flag_rule, 0, 1, 500},
+        {kind::write, timer_field::trigger_select, 0, 3, 500},
     };
     EXPECT_EQ(core.calls, expected);
 }
@@ -107,7 +112,8 @@ TEST_F(quad_fixture, reads_compose_fields_and_leave_reserved_bits_zero) {
     EXPECT_EQ(read(0x10, 2), 0x5061u);
     EXPECT_EQ(read(0x10, 1), 0x61u);
     EXPECT_EQ(read(0x11, 1), 0x50u);
-    // Writing every bit sets no reserved bit (7, 11, 15) and the read-only direction is not written.
+    // Writing every bit sets no reserved bit (7, 11, 15) and the read-only direction is not
+    // written.
     core.calls.clear();
     regs.write(0x10, 2, 0xffff, 11);
     for (const auto& c : core.calls) EXPECT_NE(c.field, timer_field::direction);
@@ -172,12 +178,14 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     EXPECT_FALSE(o.failed);  // ignore
     EXPECT_EQ(v, 0u);
     EXPECT_TRUE(core.calls.empty());
-    EXPECT_EQ(o.message,
-              "read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest register: "
-              "status_clear of timer_a, 0x1 byte above it; at 123 ps");
+    EXPECT_EQ(
+        o.message,
+        "read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest register: "
+        "status_clear of timer_a, 0x1 byte above it; at 123 ps");
 
     std::ostringstream log;
-    auto logger = std::make_shared<spdlog::logger>("bus", std::make_shared<spdlog::sinks::ostream_sink_st>(log));
+    auto logger = std::make_shared<spdlog::logger>(
+        "bus", std::make_shared<spdlog::sinks::ostream_sink_st>(log));
     logger->set_pattern("%l %v");
     spdlog::drop("bus");
     spdlog::register_logger(logger);
@@ -186,16 +194,19 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     o = regs.write(0x1e, 2, 0xffff, 200);
     EXPECT_FALSE(o.failed);
     EXPECT_TRUE(core.calls.empty());
-    EXPECT_NE(log.str().find("warning write of 2 bytes at 0x4000001e hits a location reserved in timer_a; "
-                             "nearest register: notify of timer_a, 0x1 byte above it; at 200 ps"),
+    EXPECT_NE(log.str().find(
+                  "warning write of 2 bytes at 0x4000001e hits a location reserved in timer_a; "
+                  "nearest register: notify of timer_a, 0x1 byte above it; at 200 ps"),
               std::string::npos)
         << log.str();
 
     regs.set_policy(models::unmapped_policy::error);
     o = regs.write(0x3f, 1, 0, 300);
     EXPECT_TRUE(o.failed);
-    EXPECT_NE(log.str().find("error write of 1 byte at 0x4000003f"), std::string::npos) << log.str();
-    EXPECT_NE(log.str().find("status_clear of timer_a, 0x1c bytes above it; at 300 ps"), std::string::npos);
+    EXPECT_NE(log.str().find("error write of 1 byte at 0x4000003f"), std::string::npos)
+        << log.str();
+    EXPECT_NE(log.str().find("status_clear of timer_a, 0x1c bytes above it; at 300 ps"),
+              std::string::npos);
     spdlog::drop("bus");
 }
 

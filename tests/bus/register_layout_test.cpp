@@ -14,7 +14,8 @@ const std::string layouts_dir = std::string(TICKBENCH_SOURCE_DIR) + "/models/lay
 
 std::string missing_text(const models::register_layout& l) {
     std::string s;
-    for (const auto& [f, c] : l.unmapped_fields()) s += std::string(models::to_string(f)) + "/" + std::to_string(c) + " ";
+    for (const auto& [f, c] : l.unmapped_fields())
+        s += std::string(models::to_string(f)) + "/" + std::to_string(c) + " ";
     return s;
 }
 
@@ -30,7 +31,8 @@ TEST(register_layout_test, loads_timer16_quad) {
     // Every functional field the instance has sits somewhere.
     EXPECT_TRUE(l.unmapped_fields().empty()) << missing_text(l);
     // Registers come in offset order and are found by name and by any of their bytes.
-    for (std::size_t i = 1; i < l.registers.size(); ++i) EXPECT_LT(l.registers[i - 1].offset, l.registers[i].offset);
+    for (std::size_t i = 1; i < l.registers.size(); ++i)
+        EXPECT_LT(l.registers[i - 1].offset, l.registers[i].offset);
     ASSERT_NE(l.find("limit"), nullptr);
     EXPECT_EQ(l.find("limit")->reset, 0xffffu);
     EXPECT_EQ(l.find(std::uint32_t{0x0b}), l.find("match_b"));
@@ -38,7 +40,8 @@ TEST(register_layout_test, loads_timer16_quad) {
     // Fields are in bit order.
     const auto* run = l.find("run");
     ASSERT_NE(run, nullptr);
-    for (std::size_t i = 1; i < run->fields.size(); ++i) EXPECT_LT(run->fields[i - 1].bit, run->fields[i].bit);
+    for (std::size_t i = 1; i < run->fields.size(); ++i)
+        EXPECT_LT(run->fields[i - 1].bit, run->fields[i].bit);
     EXPECT_EQ(run->reserved_mask(), 0x8880u);  // bits 7, 11, 15
 }
 
@@ -142,7 +145,8 @@ TEST(register_layout_test, the_example_in_the_docs_loads) {
     const auto start = text.find("```toml\n");
     ASSERT_NE(start, std::string::npos);
     const auto end = text.find("```", start + 8);
-    const auto l = models::load_register_layout_text(text.substr(start + 8, end - start - 8), "example.toml");
+    const auto l =
+        models::load_register_layout_text(text.substr(start + 8, end - start - 8), "example.toml");
     EXPECT_EQ(l.name, "tiny_timer");
     EXPECT_EQ(l.registers.size(), 2u);
 }

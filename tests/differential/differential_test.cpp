@@ -31,12 +31,15 @@ std::uint64_t env_or(const char* name, std::uint64_t fallback) {
     return v && *v ? std::strtoull(v, nullptr, 10) : fallback;
 }
 
-std::uint64_t program_count() { return env_or("TICKBENCH_DIFF_PROGRAMS", long_mode ? 200'000 : 2000); }
+std::uint64_t program_count() {
+    return env_or("TICKBENCH_DIFF_PROGRAMS", long_mode ? 200'000 : 2000);
+}
 std::uint64_t first_seed() { return env_or("TICKBENCH_DIFF_FIRST_SEED", 1); }
 
 template <class model>
 model_factory factory_of() {
-    return [](const models::timer_config& cfg, const sim::clock_domain& kernel, models::timer_observer* obs) {
+    return [](const models::timer_config& cfg, const sim::clock_domain& kernel,
+              models::timer_observer* obs) {
         return std::unique_ptr<models::timer_core_if>(new model(cfg, kernel, obs));
     };
 }
@@ -47,7 +50,8 @@ const model_factory fast = factory_of<models::timer_core>();
 constexpr unsigned shard_count = 8;
 
 // Runs this shard's seeds; on the first disagreement prints the seed and the shrunk program.
-void run_shard(unsigned shard, const model_factory& expected, const model_factory& actual, std::uint64_t count) {
+void run_shard(unsigned shard, const model_factory& expected, const model_factory& actual,
+               std::uint64_t count) {
     std::uint64_t failures = 0;
     std::uint64_t first_failing = 0;
     for (std::uint64_t i = shard; i < count; i += shard_count) {
@@ -59,13 +63,15 @@ void run_shard(unsigned shard, const model_factory& expected, const model_factor
             ADD_FAILURE() << report_disagreement(p, expected, actual);
         }
     }
-    EXPECT_EQ(failures, 0u) << "programs on which the models disagree in this shard (first: seed " << first_failing
-                            << ")";
+    EXPECT_EQ(failures, 0u) << "programs on which the models disagree in this shard (first: seed "
+                            << first_failing << ")";
 }
 
 class fast_vs_reference : public ::testing::TestWithParam<unsigned> {};
 
-TEST_P(fast_vs_reference, agree_on_every_event) { run_shard(GetParam(), reference, fast, program_count()); }
+TEST_P(fast_vs_reference, agree_on_every_event) {
+    run_shard(GetParam(), reference, fast, program_count());
+}
 
 INSTANTIATE_TEST_SUITE_P(shards, fast_vs_reference, ::testing::Range(0u, shard_count));
 
@@ -98,7 +104,8 @@ void expect_caught_and_shrunk(std::size_t max_ops_after_shrink) {
         EXPECT_LE(small.ops.size(), max_ops_after_shrink) << describe(small);
         EXPECT_LT(small.ops.size(), p.ops.size());
         EXPECT_LE(small.end, p.end);
-        std::cout << "caught at seed " << seed << "; shrunk from " << p.ops.size() << " operations:\n"
+        std::cout << "caught at seed " << seed << "; shrunk from " << p.ops.size()
+                  << " operations:\n"
                   << describe(small) << differ(small, reference, wrong)->text;
         return;
     }
@@ -109,7 +116,9 @@ TEST(differential_harness_test, catches_compare_latency_off_by_one) {
     expect_caught_and_shrunk<late_compare_timer>(8);
 }
 
-TEST(differential_harness_test, catches_dead_time_off_by_one) { expect_caught_and_shrunk<long_dead_time_timer>(12); }
+TEST(differential_harness_test, catches_dead_time_off_by_one) {
+    expect_caught_and_shrunk<long_dead_time_timer>(12);
+}
 
 // The generator must reach the awkward instants: operations within +/-2 ticks of wraps, in every
 // counting mode.
@@ -137,11 +146,21 @@ TEST(differential_harness_test, programs_write_around_wraps_in_every_mode) {
         for (const program_op& op : p.ops) {
             step_to(op.at);
             switch (op.kind) {
-                case op_kind::write: model.write(op.field, op.channel, op.value, op.at); break;
-                case op_kind::read: model.read(op.field, op.channel, op.at); break;
-                case op_kind::clear_flags: model.clear_flags(op.value, op.at); break;
-                case op_kind::fault_input: model.set_fault_input(op.value != 0, op.at); break;
-                case op_kind::clock_change: apply_clock_change(domain, op); break;
+                case op_kind::write:
+                    model.write(op.field, op.channel, op.value, op.at);
+                    break;
+                case op_kind::read:
+                    model.read(op.field, op.channel, op.at);
+                    break;
+                case op_kind::clear_flags:
+                    model.clear_flags(op.value, op.at);
+                    break;
+                case op_kind::fault_input:
+                    model.set_fault_input(op.value != 0, op.at);
+                    break;
+                case op_kind::clock_change:
+                    apply_clock_change(domain, op);
+                    break;
             }
         }
         step_to(p.end);

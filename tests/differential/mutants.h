@@ -21,7 +21,9 @@ public:
     void write(models::timer_field f, unsigned ch, std::uint32_t v, sim::time_ps t) override {
         inner_.write(f, ch, v, t);
     }
-    std::uint32_t read(models::timer_field f, unsigned ch, sim::time_ps t) override { return inner_.read(f, ch, t); }
+    std::uint32_t read(models::timer_field f, unsigned ch, sim::time_ps t) override {
+        return inner_.read(f, ch, t);
+    }
     void clear_flags(std::uint32_t mask, sim::time_ps t) override { inner_.clear_flags(mask, t); }
     void set_fault_input(bool level, sim::time_ps t) override { inner_.set_fault_input(level, t); }
     bool next_event(sim::time_ps& at) const override { return inner_.next_event(at); }
@@ -42,7 +44,8 @@ public:
     void write(models::timer_field f, unsigned ch, std::uint32_t v, sim::time_ps t) override {
         flush(t);
         sim::time_ps next = 0;
-        if (f == models::timer_field::compare && inner_.read(models::timer_field::compare_preload, ch, t) == 0 &&
+        if (f == models::timer_field::compare &&
+            inner_.read(models::timer_field::compare_preload, ch, t) == 0 &&
             inner_.next_event(next)) {
             late_.push_back({next, ch, v});
             return;
@@ -78,7 +81,8 @@ private:
     std::deque<late_write> late_;
 };
 
-// Off by one tick: dead times one kernel tick longer than written (reads still give the written value).
+// Off by one tick: dead times one kernel tick longer than written (reads still give the written
+// value).
 class long_dead_time_timer final : public forwarding_timer {
 public:
     using forwarding_timer::forwarding_timer;

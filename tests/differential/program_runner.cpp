@@ -16,10 +16,19 @@ run_result run_program(const timer_program& p, const model_factory& make) {
         std::unique_ptr<models::timer_core_if> model = make(p.config, domain, &log);
         for (const program_op& op : p.ops) {
             switch (op.kind) {
-                case op_kind::write: model->write(op.field, op.channel, op.value, op.at); break;
-                case op_kind::read: log.add_read(op.field, op.channel, model->read(op.field, op.channel, op.at), op.at); break;
-                case op_kind::clear_flags: model->clear_flags(op.value, op.at); break;
-                case op_kind::fault_input: model->set_fault_input(op.value != 0, op.at); break;
+                case op_kind::write:
+                    model->write(op.field, op.channel, op.value, op.at);
+                    break;
+                case op_kind::read:
+                    log.add_read(op.field, op.channel, model->read(op.field, op.channel, op.at),
+                                 op.at);
+                    break;
+                case op_kind::clear_flags:
+                    model->clear_flags(op.value, op.at);
+                    break;
+                case op_kind::fault_input:
+                    model->set_fault_input(op.value != 0, op.at);
+                    break;
                 case op_kind::clock_change:
                     apply_clock_change(domain, op);
                     model->clock_changed(op.at);
@@ -53,7 +62,8 @@ std::optional<disagreement> compare_runs(const run_result& expected, const run_r
     if (i == a.size() && i == b.size() && expected.error == actual.error) return std::nullopt;
     std::ostringstream s;
     if (i == a.size() && i == b.size()) {
-        s << "same events, but errors differ: expected \"" << expected.error << "\", got \"" << actual.error << "\"";
+        s << "same events, but errors differ: expected \"" << expected.error << "\", got \""
+          << actual.error << "\"";
         return disagreement{i, s.str()};
     }
     s << "first difference at event " << i << ":\n";
@@ -70,8 +80,8 @@ std::optional<disagreement> differ(const timer_program& p, const model_factory& 
     return compare_runs(run_program(p, expected), run_program(p, actual));
 }
 
-timer_program shrink(const timer_program& p, const model_factory& expected, const model_factory& actual,
-                     std::size_t budget) {
+timer_program shrink(const timer_program& p, const model_factory& expected,
+                     const model_factory& actual, std::size_t budget) {
     std::size_t runs = 0;
     auto fails = [&](const timer_program& q) {
         ++runs;
@@ -92,7 +102,8 @@ timer_program shrink(const timer_program& p, const model_factory& expected, cons
         if (d->index >= e.events.size() && d->index >= a.events.size()) return;
         timer_program q = best;
         q.end = std::min(q.end, t);
-        q.ops.erase(std::remove_if(q.ops.begin(), q.ops.end(), [&](const program_op& op) { return op.at > q.end; }),
+        q.ops.erase(std::remove_if(q.ops.begin(), q.ops.end(),
+                                   [&](const program_op& op) { return op.at > q.end; }),
                     q.ops.end());
         if (fails(q)) best = q;
     };

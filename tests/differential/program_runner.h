@@ -42,8 +42,8 @@ std::optional<disagreement> differ(const timer_program& p, const model_factory& 
 // A smaller program on which the models still disagree (delta debugging: drop chunks of operations,
 // then single ones, and cut the run short, while the disagreement persists). `budget` bounds the
 // number of program runs.
-timer_program shrink(const timer_program& p, const model_factory& expected, const model_factory& actual,
-                     std::size_t budget = 2000);
+timer_program shrink(const timer_program& p, const model_factory& expected,
+                     const model_factory& actual, std::size_t budget = 2000);
 
 // Seed, shrunk program and first differing event, for a failure message.
 std::string report_disagreement(const timer_program& original, const model_factory& expected,

@@ -31,7 +31,8 @@ private:
     std::mt19937_64 rng_;
 };
 
-const std::vector<std::uint64_t> kernel_choices = {48'000'000, 1'000'000, 1'000'000'000, 32'768, 16'000'000};
+const std::vector<std::uint64_t> kernel_choices = {48'000'000, 1'000'000, 1'000'000'000, 32'768,
+                                                   16'000'000};
 
 // Picks the time of an operation near the next wrap (or reload event) of the model, if one comes
 // within `horizon` ticks: within +/-2 ticks of it, exactly at a tick, just before one, or between.
@@ -66,9 +67,15 @@ bool time_near_next(const models::reference::reference_timer& model, bool reload
         }
         // Exactly at the tick (after it), 1 ps before it (before it), or a little before.
         switch (d.range(0, 2)) {
-            case 0: out = tick; break;
-            case 1: out = tick - 1; break;
-            default: out = tick - std::min<sim::time_ps>(tick, d.range(2, 400)); break;
+            case 0:
+                out = tick;
+                break;
+            case 1:
+                out = tick - 1;
+                break;
+            default:
+                out = tick - std::min<sim::time_ps>(tick, d.range(2, 400));
+                break;
         }
         out = std::max(out, not_before);
         return true;
@@ -78,8 +85,8 @@ bool time_near_next(const models::reference::reference_timer& model, bool reload
 
 models::timer_config random_config(dice& d) {
     models::timer_config cfg;
-    cfg.counter_bits = static_cast<unsigned>(d.chance(0.5) ? d.pick(std::vector<std::uint64_t>{8, 16, 32})
-                                                           : d.range(8, 32));
+    cfg.counter_bits = static_cast<unsigned>(
+        d.chance(0.5) ? d.pick(std::vector<std::uint64_t>{8, 16, 32}) : d.range(8, 32));
     cfg.channels = static_cast<unsigned>(d.range(1, 6));
     cfg.prescaler_bits = static_cast<unsigned>(d.chance(0.7) ? 16 : d.range(1, 32));
     cfg.repetition_bits = static_cast<unsigned>(d.pick(std::vector<std::uint64_t>{0, 1, 3, 8, 16}));
@@ -105,75 +112,126 @@ std::uint32_t random_value(timer_field f, const models::timer_config& cfg,
     const std::uint32_t counter = model.read(timer_field::counter, 0, t);
     auto small_or_edge = [&](std::uint32_t around) -> std::uint32_t {
         switch (d.range(0, 9)) {
-            case 0: return 0;
-            case 1: return around;
-            case 2: return around + 1;
-            case 3: return around > 0 ? around - 1 : 0;
-            case 4: return max;
-            case 5: return static_cast<std::uint32_t>(d.range(0, max));
-            default: return static_cast<std::uint32_t>(d.range(0, std::min<std::uint64_t>(around + 2, 60)));
+            case 0:
+                return 0;
+            case 1:
+                return around;
+            case 2:
+                return around + 1;
+            case 3:
+                return around > 0 ? around - 1 : 0;
+            case 4:
+                return max;
+            case 5:
+                return static_cast<std::uint32_t>(d.range(0, max));
+            default:
+                return static_cast<std::uint32_t>(
+                    d.range(0, std::min<std::uint64_t>(around + 2, 60)));
         }
     };
     switch (f) {
-        case timer_field::enable: return d.chance(0.8) ? 1 : 0;
-        case timer_field::mode: return static_cast<std::uint32_t>(d.range(0, 2));
-        case timer_field::slope: return static_cast<std::uint32_t>(d.range(0, 2));
-        case timer_field::one_pulse: return d.chance(0.3) ? 1 : 0;
-        case timer_field::reload_disable: return d.chance(0.3) ? 1 : 0;
-        case timer_field::force_reload: return d.chance(0.9) ? 1 : 0;
+        case timer_field::enable:
+            return d.chance(0.8) ? 1 : 0;
+        case timer_field::mode:
+            return static_cast<std::uint32_t>(d.range(0, 2));
+        case timer_field::slope:
+            return static_cast<std::uint32_t>(d.range(0, 2));
+        case timer_field::one_pulse:
+            return d.chance(0.3) ? 1 : 0;
+        case timer_field::reload_disable:
+            return d.chance(0.3) ? 1 : 0;
+        case timer_field::force_reload:
+            return d.chance(0.9) ? 1 : 0;
         case timer_field::prescaler:
             return static_cast<std::uint32_t>(d.chance(0.8) ? d.range(0, 3) : d.range(0, 12));
         case timer_field::period: {
             switch (d.range(0, 11)) {
-                case 0: return 0;
-                case 1: return counter;
-                case 2: return counter > 0 ? counter - 1 : 0;
-                case 3: return counter + 1;
-                case 4: return static_cast<std::uint32_t>(d.range(0, max));
-                default: return static_cast<std::uint32_t>(d.range(1, d.chance(0.2) ? 300 : 40));
+                case 0:
+                    return 0;
+                case 1:
+                    return counter;
+                case 2:
+                    return counter > 0 ? counter - 1 : 0;
+                case 3:
+                    return counter + 1;
+                case 4:
+                    return static_cast<std::uint32_t>(d.range(0, max));
+                default:
+                    return static_cast<std::uint32_t>(d.range(1, d.chance(0.2) ? 300 : 40));
             }
         }
         case timer_field::counter:
             if (d.chance(0.05)) return max - static_cast<std::uint32_t>(d.range(0, 2));
             return small_or_edge(period);
-        case timer_field::repetition: return static_cast<std::uint32_t>(d.range(0, 4));
-        case timer_field::dead_time: return static_cast<std::uint32_t>(d.chance(0.9) ? d.range(0, 12) : d.range(0, 3000));
-        case timer_field::fault_latency: return static_cast<std::uint32_t>(d.range(0, 4));
-        case timer_field::rearm: return 1;
-        case timer_field::irq_enable: return static_cast<std::uint32_t>(d.range(0, 0xff)) & valid_flags(cfg);
-        case timer_field::trigger_select: return static_cast<std::uint32_t>(d.range(0, 1 + cfg.channels));
-        case timer_field::compare: return small_or_edge(period);
-        case timer_field::action: return static_cast<std::uint32_t>(d.chance(0.5) ? d.range(6, 7) : d.range(0, 7));
-        default: return d.chance(0.5) ? 1 : 0;  // single-bit fields
+        case timer_field::repetition:
+            return static_cast<std::uint32_t>(d.range(0, 4));
+        case timer_field::dead_time:
+            return static_cast<std::uint32_t>(d.chance(0.9) ? d.range(0, 12) : d.range(0, 3000));
+        case timer_field::fault_latency:
+            return static_cast<std::uint32_t>(d.range(0, 4));
+        case timer_field::rearm:
+            return 1;
+        case timer_field::irq_enable:
+            return static_cast<std::uint32_t>(d.range(0, 0xff)) & valid_flags(cfg);
+        case timer_field::trigger_select:
+            return static_cast<std::uint32_t>(d.range(0, 1 + cfg.channels));
+        case timer_field::compare:
+            return small_or_edge(period);
+        case timer_field::action:
+            return static_cast<std::uint32_t>(d.chance(0.5) ? d.range(6, 7) : d.range(0, 7));
+        default:
+            return d.chance(0.5) ? 1 : 0;  // single-bit fields
     }
 }
 
 const std::vector<timer_field> global_fields = {
-    timer_field::enable, timer_field::mode, timer_field::slope, timer_field::one_pulse,
-    timer_field::period_preload, timer_field::reload_disable, timer_field::reload_flag_rule,
-    timer_field::force_reload, timer_field::prescaler, timer_field::period, timer_field::counter,
-    timer_field::repetition, timer_field::dead_time, timer_field::fault_enable, timer_field::fault_latency,
-    timer_field::rearm, timer_field::irq_enable, timer_field::trigger_select,
+    timer_field::enable,
+    timer_field::mode,
+    timer_field::slope,
+    timer_field::one_pulse,
+    timer_field::period_preload,
+    timer_field::reload_disable,
+    timer_field::reload_flag_rule,
+    timer_field::force_reload,
+    timer_field::prescaler,
+    timer_field::period,
+    timer_field::counter,
+    timer_field::repetition,
+    timer_field::dead_time,
+    timer_field::fault_enable,
+    timer_field::fault_latency,
+    timer_field::rearm,
+    timer_field::irq_enable,
+    timer_field::trigger_select,
 };
 const std::vector<timer_field> channel_fields = {
-    timer_field::compare, timer_field::compare_preload, timer_field::action, timer_field::main_enable,
-    timer_field::main_active_low, timer_field::comp_enable, timer_field::comp_active_low,
-    timer_field::main_safe_level, timer_field::comp_safe_level,
+    timer_field::compare,         timer_field::compare_preload, timer_field::action,
+    timer_field::main_enable,     timer_field::main_active_low, timer_field::comp_enable,
+    timer_field::comp_active_low, timer_field::main_safe_level, timer_field::comp_safe_level,
 };
 // Fields that make the counter and pins move; written more often.
 const std::vector<timer_field> hot_fields = {
-    timer_field::period, timer_field::counter, timer_field::prescaler, timer_field::compare,
-    timer_field::compare, timer_field::force_reload, timer_field::mode, timer_field::enable,
-    timer_field::action, timer_field::repetition,
+    timer_field::period,  timer_field::counter,      timer_field::prescaler, timer_field::compare,
+    timer_field::compare, timer_field::force_reload, timer_field::mode,      timer_field::enable,
+    timer_field::action,  timer_field::repetition,
 };
 
 // Applies an operation to the generator's model and domain.
-void apply(models::reference::reference_timer& model, sim::clock_domain& domain, const program_op& op) {
+void apply(models::reference::reference_timer& model, sim::clock_domain& domain,
+           const program_op& op) {
     switch (op.kind) {
-        case op_kind::write: model.write(op.field, op.channel, op.value, op.at); break;
-        case op_kind::read: model.read(op.field, op.channel, op.at); break;
-        case op_kind::clear_flags: model.clear_flags(op.value, op.at); break;
-        case op_kind::fault_input: model.set_fault_input(op.value != 0, op.at); break;
+        case op_kind::write:
+            model.write(op.field, op.channel, op.value, op.at);
+            break;
+        case op_kind::read:
+            model.read(op.field, op.channel, op.at);
+            break;
+        case op_kind::clear_flags:
+            model.clear_flags(op.value, op.at);
+            break;
+        case op_kind::fault_input:
+            model.set_fault_input(op.value != 0, op.at);
+            break;
         case op_kind::clock_change:
             apply_clock_change(domain, op);
             model.clock_changed(op.at);
@@ -201,7 +259,9 @@ timer_program generate_program(std::uint64_t seed) {
     sim::clock_domain domain(sim::frequency::hz(p.kernel_hz));
     models::reference::reference_timer model(cfg, domain, nullptr);
     std::uint64_t hz = p.kernel_hz;
-    auto tick_ps = [&] { return std::max<sim::time_ps>(1, sim::ps_per_second / std::max<std::uint64_t>(hz, 1)); };
+    auto tick_ps = [&] {
+        return std::max<sim::time_ps>(1, sim::ps_per_second / std::max<std::uint64_t>(hz, 1));
+    };
     sim::time_ps now = 0;
     auto emit = [&](program_op op) {
         op.at = std::max(op.at, now);
@@ -217,10 +277,12 @@ timer_program generate_program(std::uint64_t seed) {
     const sim::time_ps start = d.range(0, 3) * tick_ps();
     write(timer_field::period_preload, 0, d.chance(0.5), start);
     write(timer_field::period, 0, static_cast<std::uint32_t>(d.range(0, 30)), start);
-    write(timer_field::prescaler, 0, static_cast<std::uint32_t>(d.chance(0.6) ? 0 : d.range(1, 3)), start);
+    write(timer_field::prescaler, 0, static_cast<std::uint32_t>(d.chance(0.6) ? 0 : d.range(1, 3)),
+          start);
     write(timer_field::mode, 0, static_cast<std::uint32_t>(d.range(0, 2)), start);
     write(timer_field::slope, 0, static_cast<std::uint32_t>(d.range(0, 2)), start);
-    if (d.chance(0.5)) write(timer_field::repetition, 0, static_cast<std::uint32_t>(d.range(0, 3)), start);
+    if (d.chance(0.5))
+        write(timer_field::repetition, 0, static_cast<std::uint32_t>(d.range(0, 3)), start);
     if (cfg.complementary) {
         write(timer_field::dead_time, 0, static_cast<std::uint32_t>(d.range(0, 5)), start);
         write(timer_field::fault_enable, 0, d.chance(0.6), start);
@@ -229,7 +291,8 @@ timer_program generate_program(std::uint64_t seed) {
     for (unsigned c = 0; c < cfg.channels; ++c) {
         write(timer_field::compare_preload, c, d.chance(0.5), start);
         write(timer_field::compare, c, static_cast<std::uint32_t>(d.range(0, 32)), start);
-        write(timer_field::action, c, static_cast<std::uint32_t>(d.chance(0.6) ? d.range(6, 7) : d.range(0, 7)), start);
+        write(timer_field::action, c,
+              static_cast<std::uint32_t>(d.chance(0.6) ? d.range(6, 7) : d.range(0, 7)), start);
         write(timer_field::main_enable, c, d.chance(0.85), start);
         write(timer_field::comp_enable, c, d.chance(0.7), start);
         if (d.chance(0.3)) write(timer_field::main_active_low, c, 1, start);
@@ -237,8 +300,10 @@ timer_program generate_program(std::uint64_t seed) {
         if (d.chance(0.5)) write(timer_field::main_safe_level, c, 1, start);
         if (d.chance(0.5)) write(timer_field::comp_safe_level, c, 1, start);
     }
-    write(timer_field::irq_enable, 0, static_cast<std::uint32_t>(d.range(0, 0xff)) & valid_flags(cfg), start);
-    write(timer_field::trigger_select, 0, static_cast<std::uint32_t>(d.range(0, 1 + cfg.channels)), start);
+    write(timer_field::irq_enable, 0,
+          static_cast<std::uint32_t>(d.range(0, 0xff)) & valid_flags(cfg), start);
+    write(timer_field::trigger_select, 0, static_cast<std::uint32_t>(d.range(0, 1 + cfg.channels)),
+          start);
     if (d.chance(0.5)) write(timer_field::force_reload, 0, 1, start);
     write(timer_field::enable, 0, 1, start);
 
@@ -280,9 +345,11 @@ timer_program generate_program(std::uint64_t seed) {
         } else if (what < 12) {
             op.kind = op_kind::read;
             const bool per_channel = d.chance(0.3);
-            op.field = per_channel ? d.pick(channel_fields)
-                                   : (d.chance(0.5) ? timer_field::counter
-                                                    : (d.chance(0.3) ? timer_field::flags : d.pick(global_fields)));
+            op.field = per_channel
+                           ? d.pick(channel_fields)
+                           : (d.chance(0.5)
+                                  ? timer_field::counter
+                                  : (d.chance(0.3) ? timer_field::flags : d.pick(global_fields)));
             if (d.chance(0.1)) op.field = timer_field::direction;
             op.channel = per_channel ? static_cast<unsigned>(d.range(0, cfg.channels - 1)) : 0;
         } else if (what < 20) {
@@ -302,14 +369,17 @@ timer_program generate_program(std::uint64_t seed) {
             } else {
                 op.field = d.pick(global_fields);
             }
-            op.channel = is_channel_field(op.field) ? static_cast<unsigned>(d.range(0, cfg.channels - 1)) : 0;
+            op.channel = is_channel_field(op.field)
+                             ? static_cast<unsigned>(d.range(0, cfg.channels - 1))
+                             : 0;
             op.value = random_value(op.field, cfg, model, std::max(at, now), d);
         }
         emit(op);
     }
     if (stopped) {
         hz = d.pick(kernel_choices);
-        emit(program_op{now + tick_ps(), op_kind::clock_change, timer_field::enable, 0, static_cast<std::uint32_t>(hz)});
+        emit(program_op{now + tick_ps(), op_kind::clock_change, timer_field::enable, 0,
+                        static_cast<std::uint32_t>(hz)});
     }
     // Run on a little past the last operation.
     p.end = now + d.range(1, 200) * tick_ps();
@@ -329,8 +399,12 @@ std::string describe(const program_op& op) {
             s << "read " << models::to_string(op.field);
             if (models::is_channel_field(op.field)) s << "[" << op.channel << "]";
             break;
-        case op_kind::clear_flags: s << "clear_flags 0x" << std::hex << op.value << std::dec; break;
-        case op_kind::fault_input: s << "fault_input " << op.value; break;
+        case op_kind::clear_flags:
+            s << "clear_flags 0x" << std::hex << op.value << std::dec;
+            break;
+        case op_kind::fault_input:
+            s << "fault_input " << op.value;
+            break;
         case op_kind::clock_change:
             if (op.value == 0)
                 s << "kernel clock stops";
@@ -344,12 +418,12 @@ std::string describe(const program_op& op) {
 std::string describe(const timer_program& p) {
     std::ostringstream s;
     const models::timer_config& c = p.config;
-    s << "program seed " << p.seed << ": counter_bits " << c.counter_bits << ", channels " << c.channels
-      << ", prescaler_bits " << c.prescaler_bits << ", repetition_bits " << c.repetition_bits
-      << ", prescaler_shadowed " << c.prescaler_shadowed << ", complementary " << c.complementary
-      << ", dead_time_max " << c.dead_time_max << ", compare_latency " << c.compare_latency
-      << "; kernel " << p.kernel_hz << " Hz from 0 ps; end " << p.end << " ps; " << p.ops.size()
-      << " operations\n";
+    s << "program seed " << p.seed << ": counter_bits " << c.counter_bits << ", channels "
+      << c.channels << ", prescaler_bits " << c.prescaler_bits << ", repetition_bits "
+      << c.repetition_bits << ", prescaler_shadowed " << c.prescaler_shadowed << ", complementary "
+      << c.complementary << ", dead_time_max " << c.dead_time_max << ", compare_latency "
+      << c.compare_latency << "; kernel " << p.kernel_hz << " Hz from 0 ps; end " << p.end
+      << " ps; " << p.ops.size() << " operations\n";
     sim::clock_domain domain(sim::frequency::hz(p.kernel_hz));
     for (const program_op& op : p.ops) {
         s << "  " << describe(op);

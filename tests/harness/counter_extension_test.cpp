@@ -1,7 +1,7 @@
 // The classic split-read race, reproduced deterministically: a 16-bit counter extended to 32 bits
 // by an overflow interrupt. The firmware (examples/counter_extension/firmware.c) reads a timestamp
-// in a loop across a counter wrap; the sweep slides its start one CPU cycle at a time so every phase
-// of its read loop meets the wrap. The naive read must fail (time goes backwards) at the same
+// in a loop across a counter wrap; the sweep slides its start one CPU cycle at a time so every
+// phase of its read loop meets the wrap. The naive read must fail (time goes backwards) at the same
 // offsets every time; the careful read must never fail.
 
 #include "harness/firmware_context.h"
@@ -39,8 +39,8 @@ std::vector<unsigned> sweep(harness::platform& p, const std::string& variant) {
                 return harness::firmware_context::get().checks.empty() ? 4 : 0;
             },
             false, true);
-        EXPECT_TRUE(r.exit_code == 0 || r.exit_code == 3) << variant << " offset " << offset
-                                                            << " exit " << r.exit_code;
+        EXPECT_TRUE(r.exit_code == 0 || r.exit_code == 3)
+            << variant << " offset " << offset << " exit " << r.exit_code;
         if (r.exit_code == 3) failed.push_back(offset);
     }
     return failed;
@@ -50,17 +50,21 @@ TEST(counter_extension_test, naive_read_fails_deterministically_careful_read_nev
     harness::platform p;
     harness::cpu_config cpu;
     cpu.access_cycles = 2;
-    test_support::build_demo_part(p, cpu, [] { tick_firmware_main(); }, counter_start);
+    test_support::build_demo_part(
+        p, cpu, [] { tick_firmware_main(); }, counter_start);
 
     const std::vector<unsigned> naive = sweep(p, "naive");
     const std::vector<unsigned> careful = sweep(p, "careful");
-    EXPECT_FALSE(naive.empty()) << "the naive read never went backwards: the race was not reproduced";
-    EXPECT_TRUE(careful.empty()) << "the careful read went backwards at " << careful.size() << " offsets";
+    EXPECT_FALSE(naive.empty())
+        << "the naive read never went backwards: the race was not reproduced";
+    EXPECT_TRUE(careful.empty()) << "the careful read went backwards at " << careful.size()
+                                 << " offsets";
     // Deterministic: the same offsets fail again.
     EXPECT_EQ(sweep(p, "naive"), naive);
     std::string list;
     for (unsigned o : naive) list += std::to_string(o) + " ";
-    std::printf("naive read failed at %zu of %u start offsets: %s\n", naive.size(), offsets, list.c_str());
+    std::printf("naive read failed at %zu of %u start offsets: %s\n", naive.size(), offsets,
+                list.c_str());
 }
 
 }  // namespace

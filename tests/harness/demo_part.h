@@ -12,7 +12,8 @@ namespace test_support {
 inline constexpr std::uint32_t stopwatch_base = 0x4000'1000;
 
 inline void build_demo_part(harness::platform& p, const harness::cpu_config& cpu,
-                            std::function<void()> entry, std::optional<std::uint32_t> counter_start = {}) {
+                            std::function<void()> entry,
+                            std::optional<std::uint32_t> counter_start = {}) {
     sim::crystal_params x;
     x.nominal = sim::frequency::hz(8'000'000);
     p.clocks().add_crystal("xtal", x);

@@ -10,11 +10,11 @@
 
 #include <gtest/gtest.h>
 
+#include <unistd.h>
 #include <cstdlib>
 #include <fstream>
 #include <sstream>
 #include <string>
-#include <unistd.h>
 
 namespace {
 
@@ -47,7 +47,9 @@ harness::child_result run_part(std::function<void()> firmware, harness::cpu_conf
         true);
 }
 
-bool has(const std::string& text, const std::string& what) { return text.find(what) != std::string::npos; }
+bool has(const std::string& text, const std::string& what) {
+    return text.find(what) != std::string::npos;
+}
 
 TEST(failure_test, crash_outside_the_peripherals_is_reported_with_backtrace_and_accesses) {
     const std::string closed = ::testing::TempDir() + "closer_" + std::to_string(getpid());
@@ -122,7 +124,8 @@ TEST(failure_test, unsupported_instruction_on_a_mapped_register_names_it) {
     const auto r = run_part(
         [] {
             warm_up();
-            volatile std::uint64_t* p = reinterpret_cast<volatile std::uint64_t*>(std::uintptr_t{stopwatch_base});
+            volatile std::uint64_t* p =
+                reinterpret_cast<volatile std::uint64_t*>(std::uintptr_t{stopwatch_base});
             // Copying the register window with a string instruction is outside the decoder's forms.
             std::uint64_t buf[2];
             void* dst = buf;
@@ -139,9 +142,10 @@ TEST(failure_test, unsupported_instruction_on_a_mapped_register_names_it) {
 TEST(failure_test, unmodified_driver_reaches_the_timer_through_pointers) {
     const auto r = run_part(
         [] {
-            volatile std::uint16_t* regs = reinterpret_cast<volatile std::uint16_t*>(std::uintptr_t{stopwatch_base});
-            regs[0x02 / 2] = 999;     // limit
-            regs[0x10 / 2] |= 1;      // run: enable (a read-modify-write)
+            volatile std::uint16_t* regs =
+                reinterpret_cast<volatile std::uint16_t*>(std::uintptr_t{stopwatch_base});
+            regs[0x02 / 2] = 999;  // limit
+            regs[0x10 / 2] |= 1;   // run: enable (a read-modify-write)
             tick_cycles(100);
             const std::uint16_t a = regs[0];
             tick_cycles(100);

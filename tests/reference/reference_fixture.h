@@ -23,8 +23,12 @@ public:
     sim::time_ps at(std::uint64_t k) const { return domain.time_of(k); }
     // Kernel tick index of an edge time.
     std::uint64_t tick_of(sim::time_ps t) const { return domain.tick_at(t); }
-    void write(std::uint64_t k, timer_field f, std::uint32_t v, unsigned ch = 0) { timer.write(f, ch, v, at(k)); }
-    std::uint32_t read(std::uint64_t k, timer_field f, unsigned ch = 0) { return timer.read(f, ch, at(k)); }
+    void write(std::uint64_t k, timer_field f, std::uint32_t v, unsigned ch = 0) {
+        timer.write(f, ch, v, at(k));
+    }
+    std::uint32_t read(std::uint64_t k, timer_field f, unsigned ch = 0) {
+        return timer.read(f, ch, at(k));
+    }
     void run_to(std::uint64_t k) { timer.advance_to(at(k)); }
 
     sim::clock_domain domain;

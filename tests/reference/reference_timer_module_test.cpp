@@ -27,10 +27,12 @@ TEST(reference_timer_module_test, drives_pins_from_clock_edges) {
     timer.write(timer_field::period, 0, 9);
     timer.write(timer_field::compare, 0, 4);
     timer.write(timer_field::main_enable, 0, 1);
-    timer.write(timer_field::action, 0, static_cast<std::uint32_t>(models::output_action::pwm_below));
+    timer.write(timer_field::action, 0,
+                static_cast<std::uint32_t>(models::output_action::pwm_below));
     timer.write(timer_field::irq_enable, 0, models::flag_reload);
     timer.write(timer_field::enable, 0, 1);
-    sc_core::sc_start(sc_core::sc_time(1000, sc_core::SC_NS) + sc_core::sc_time(500, sc_core::SC_PS));
+    sc_core::sc_start(sc_core::sc_time(1000, sc_core::SC_NS) +
+                      sc_core::sc_time(500, sc_core::SC_PS));
 
     const auto rises = log.pin_edges(main_pin(0), true);
     ASSERT_EQ(rises.size(), 101u);  // at 0 ns, then every 10 ns

@@ -11,12 +11,12 @@
 namespace tickbench::test_reference {
 namespace {
 
+using models::comp_pin;
 using models::count_mode;
 using models::flag_channel;
 using models::flag_fault;
 using models::flag_reload;
 using models::main_pin;
-using models::comp_pin;
 using models::match_slope;
 using models::output_action;
 using models::timer_config;
@@ -33,8 +33,8 @@ timer_config plain_config() {
 }
 
 // Starts channel 0 as pwm_below with main output enabled, counting in `mode`.
-void start_pwm(reference_fixture& fx, count_mode mode, std::uint32_t prescaler, std::uint32_t period,
-               std::uint32_t compare) {
+void start_pwm(reference_fixture& fx, count_mode mode, std::uint32_t prescaler,
+               std::uint32_t period, std::uint32_t compare) {
     fx.write(0, timer_field::prescaler, prescaler);
     fx.write(0, timer_field::period, period);
     fx.write(0, timer_field::mode, static_cast<std::uint32_t>(mode));
@@ -45,11 +45,14 @@ void start_pwm(reference_fixture& fx, count_mode mode, std::uint32_t prescaler, 
 }
 
 // Frequency in Hz from rising edges rises[first] .. rises[first + n].
-double measured_frequency(const std::vector<sim::time_ps>& rises, std::size_t first, std::size_t n) {
-    return static_cast<double>(n) * 1e12 / static_cast<double>(rises.at(first + n) - rises.at(first));
+double measured_frequency(const std::vector<sim::time_ps>& rises, std::size_t first,
+                          std::size_t n) {
+    return static_cast<double>(n) * 1e12 /
+           static_cast<double>(rises.at(first + n) - rises.at(first));
 }
 
-// Fraction of the period the pin is high, from the rise at rises[i], the next fall and the next rise.
+// Fraction of the period the pin is high, from the rise at rises[i], the next fall and the next
+// rise.
 double measured_duty(const std::vector<sim::time_ps>& rises, const std::vector<sim::time_ps>& falls,
                      std::size_t i) {
     const sim::time_ps rise = rises.at(i);
@@ -83,7 +86,8 @@ TEST(reference_timer_test, edge_aligned_pwm_frequency_and_duty_down_mode) {
     // common practice, no single source: f_pwm = f_kernel / ((prescaler + 1) x (period + 1))
     EXPECT_NEAR(measured_frequency(rises, 1, 30), f_kernel / 200.0, 1e-3);
     // common practice, no single source: pwm_below duty = compare / (period + 1)
-    EXPECT_NEAR(measured_duty(rises, falls, 3), 50.0 / 200.0, 1e-6);  // edge times are exact to 0.5 ps
+    EXPECT_NEAR(measured_duty(rises, falls, 3), 50.0 / 200.0,
+                1e-6);  // edge times are exact to 0.5 ps
 }
 
 TEST(reference_timer_test, edge_aligned_duty_up_mode) {
@@ -93,7 +97,8 @@ TEST(reference_timer_test, edge_aligned_duty_up_mode) {
     const auto rises = fx.log.pin_edges(main_pin(0), true);
     const auto falls = fx.log.pin_edges(main_pin(0), false);
     // common practice, no single source: pwm_below duty = compare / (period + 1)
-    EXPECT_NEAR(measured_duty(rises, falls, 2), 25.0 / 100.0, 1e-6);  // edge times are exact to 0.5 ps
+    EXPECT_NEAR(measured_duty(rises, falls, 2), 25.0 / 100.0,
+                1e-6);  // edge times are exact to 0.5 ps
 }
 
 TEST(reference_timer_test, center_aligned_pwm_frequency_and_duty) {
@@ -106,7 +111,8 @@ TEST(reference_timer_test, center_aligned_pwm_frequency_and_duty) {
     // common practice, no single source: f_pwm = f_kernel / ((prescaler + 1) x 2 x period)
     EXPECT_NEAR(measured_frequency(rises, 1, 30), f_kernel / (2.0 * 2.0 * 50.0), 1e-3);
     // common practice, no single source: center-aligned pwm_below duty = compare / period
-    EXPECT_NEAR(measured_duty(rises, falls, 2), 20.0 / 50.0, 1e-6);  // edge times are exact to 0.5 ps
+    EXPECT_NEAR(measured_duty(rises, falls, 2), 20.0 / 50.0,
+                1e-6);  // edge times are exact to 0.5 ps
 }
 
 TEST(reference_timer_test, up_counter_takes_period_plus_one_values) {
@@ -134,7 +140,7 @@ TEST(reference_timer_test, preloaded_period_loads_at_reload_event_only) {
     fx.write(0, timer_field::trigger_select, 1);
     fx.write(0, timer_field::enable, 1);
     fx.write(15, timer_field::period, 4);
-    EXPECT_EQ(fx.read(15, timer_field::period), 4u);  // reads the shadow
+    EXPECT_EQ(fx.read(15, timer_field::period), 4u);   // reads the shadow
     EXPECT_EQ(fx.read(19, timer_field::counter), 9u);  // still counting to the old period
     fx.run_to(31);
     std::vector<std::uint64_t> ticks;
@@ -276,7 +282,8 @@ timer_config complementary_config() {
     return cfg;
 }
 
-std::vector<std::uint64_t> ticks_of(const reference_fixture& fx, const std::vector<sim::time_ps>& ts) {
+std::vector<std::uint64_t> ticks_of(const reference_fixture& fx,
+                                    const std::vector<sim::time_ps>& ts) {
     std::vector<std::uint64_t> out;
     for (auto t : ts) out.push_back(fx.tick_of(t));
     return out;
@@ -286,10 +293,14 @@ TEST(reference_timer_test, dead_time_delays_each_rise) {
     reference_fixture fx(complementary_config());
     start_complementary(fx, 3, 5);
     fx.run_to(26);
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), true)), (std::vector<std::uint64_t>{3, 13, 23}));
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)), (std::vector<std::uint64_t>{5, 15, 25}));
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)), (std::vector<std::uint64_t>{0, 8, 18}));
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), false)), (std::vector<std::uint64_t>{0, 10, 20}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), true)),
+              (std::vector<std::uint64_t>{3, 13, 23}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)),
+              (std::vector<std::uint64_t>{5, 15, 25}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)),
+              (std::vector<std::uint64_t>{0, 8, 18}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), false)),
+              (std::vector<std::uint64_t>{0, 10, 20}));
 }
 
 TEST(reference_timer_test, dead_time_is_clipped_to_the_instance_maximum) {
@@ -303,7 +314,8 @@ TEST(reference_timer_test, pulse_shorter_than_dead_time_vanishes) {
     start_complementary(fx, 3, 2);
     fx.run_to(40);
     EXPECT_TRUE(fx.log.pin_edges(main_pin(0), true).empty());
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)), (std::vector<std::uint64_t>{0, 5, 15, 25, 35}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)),
+              (std::vector<std::uint64_t>{0, 5, 15, 25, 35}));
 }
 
 TEST(reference_timer_test, fault_forces_safe_levels_after_latency_until_rearm) {
@@ -325,7 +337,7 @@ TEST(reference_timer_test, fault_forces_safe_levels_after_latency_until_rearm) {
     EXPECT_FALSE(fx.timer.pin(main_pin(0)));
     fx.timer.set_fault_input(false, fx.at(31));
     EXPECT_FALSE(fx.timer.pin(main_pin(0)));  // the input falling does not end the fault
-    fx.write(32, timer_field::rearm, 1);  // counter 2: main high, comp low again
+    fx.write(32, timer_field::rearm, 1);      // counter 2: main high, comp low again
     EXPECT_TRUE(fx.timer.pin(main_pin(0)));
     EXPECT_FALSE(fx.timer.pin(comp_pin(0)));
     EXPECT_EQ(fx.log.pin_edges(main_pin(0), true).back(), fx.at(32));
@@ -352,7 +364,8 @@ TEST(reference_timer_test, flags_raise_and_drop_the_interrupt_line) {
     fx.write(12, timer_field::irq_enable, flag_reload | flag_channel(0));
     fx.run_to(13);
     EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(0)), (std::vector<std::uint64_t>{5, 10}));
-    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(1)), (std::vector<std::uint64_t>{5}));  // compare 0 matches at the wrap
+    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(1)),
+              (std::vector<std::uint64_t>{5}));  // compare 0 matches at the wrap
     std::vector<std::uint64_t> irq_ticks = ticks_of(fx, fx.log.of_kind(timer_event_kind::irq));
     EXPECT_EQ(irq_ticks, (std::vector<std::uint64_t>{5, 7, 10, 11, 12}));
     EXPECT_TRUE(fx.timer.irq());
@@ -365,7 +378,8 @@ TEST(reference_timer_test, channel_match_sets_flag_and_sends_trigger) {
     fx.write(0, timer_field::trigger_select, 2 + 1);
     fx.write(0, timer_field::enable, 1);
     fx.run_to(25);
-    EXPECT_EQ(ticks_of(fx, fx.log.of_kind(timer_event_kind::trigger)), (std::vector<std::uint64_t>{3, 13, 23}));
+    EXPECT_EQ(ticks_of(fx, fx.log.of_kind(timer_event_kind::trigger)),
+              (std::vector<std::uint64_t>{3, 13, 23}));
     EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(2)), (std::vector<std::uint64_t>{3}));
 }
 
@@ -379,7 +393,8 @@ TEST(reference_timer_test, center_mode_matches_only_on_the_chosen_slope) {
     fx.write(0, timer_field::enable, 1);
     fx.run_to(40);
     // Up 0..10 at ticks 1..10, down to 4 at tick 16, to 0 at 20, up to 4 at 24, down to 4 at 36.
-    EXPECT_EQ(ticks_of(fx, fx.log.of_kind(timer_event_kind::trigger)), (std::vector<std::uint64_t>{16, 36}));
+    EXPECT_EQ(ticks_of(fx, fx.log.of_kind(timer_event_kind::trigger)),
+              (std::vector<std::uint64_t>{16, 36}));
 }
 
 TEST(reference_timer_test, toggle_on_match_halves_the_frequency) {
@@ -390,8 +405,10 @@ TEST(reference_timer_test, toggle_on_match_halves_the_frequency) {
     fx.write(0, timer_field::action, static_cast<std::uint32_t>(output_action::toggle_on_match));
     fx.write(0, timer_field::enable, 1);
     fx.run_to(45);
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), true)), (std::vector<std::uint64_t>{10, 30}));
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)), (std::vector<std::uint64_t>{20, 40}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), true)),
+              (std::vector<std::uint64_t>{10, 30}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)),
+              (std::vector<std::uint64_t>{20, 40}));
 }
 
 class compare_latency_test : public ::testing::TestWithParam<unsigned> {};
@@ -428,7 +445,8 @@ TEST(reference_timer_test, preloaded_compare_shows_in_the_next_period_only) {
     fx.write(0, timer_field::enable, 1);
     fx.write(3, timer_field::compare, 8);  // mid-period: the fall at 5 stays
     fx.run_to(30);
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)), (std::vector<std::uint64_t>{5, 18, 28}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)),
+              (std::vector<std::uint64_t>{5, 18, 28}));
 }
 
 }  // namespace

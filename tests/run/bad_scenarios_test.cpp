@@ -17,7 +17,8 @@
 
 namespace {
 
-const std::filesystem::path corpus = std::filesystem::path(TICKBENCH_SOURCE_DIR) / "tests/data/bad_scenarios";
+const std::filesystem::path corpus =
+    std::filesystem::path(TICKBENCH_SOURCE_DIR) / "tests/data/bad_scenarios";
 
 std::vector<std::string> corpus_names() {
     std::vector<std::string> names;
@@ -51,12 +52,15 @@ TEST_P(bad_scenarios_test, is_refused_with_the_expected_message) {
     }
     std::filesystem::current_path(previous);
     ASSERT_FALSE(what.empty()) << GetParam() << ".toml was accepted";
-    for (const std::string& f : fragments) EXPECT_NE(what.find(f), std::string::npos) << "expected: " << f << "\ngot: " << what;
+    for (const std::string& f : fragments)
+        EXPECT_NE(what.find(f), std::string::npos) << "expected: " << f << "\ngot: " << what;
 }
 
 INSTANTIATE_TEST_SUITE_P(corpus, bad_scenarios_test, ::testing::ValuesIn(corpus_names()),
                          [](const ::testing::TestParamInfo<std::string>& i) { return i.param; });
 
-TEST(bad_scenarios_corpus_test, has_at_least_thirty_cases) { EXPECT_GE(corpus_names().size(), 30u); }
+TEST(bad_scenarios_corpus_test, has_at_least_thirty_cases) {
+    EXPECT_GE(corpus_names().size(), 30u);
+}
 
 }  // namespace

@@ -71,7 +71,8 @@ TEST(period_plan_test, slow_targets_need_the_prescaler) {
     EXPECT_EQ(c[0].prescaler, 1124u);
 }
 
-// An 8-bit counter: 48 MHz / 25 kHz = 1920 needs a prescaler of at least 1920 / 256 = 7.5 -> 8 x 240.
+// An 8-bit counter: 48 MHz / 25 kHz = 1920 needs a prescaler of at least 1920 / 256 = 7.5 -> 8 x
+// 240.
 TEST(period_plan_test, counter_width_limits_the_period) {
     plan_request r = request(48'000'000, 25'000);
     r.counter_bits = 8;

@@ -13,7 +13,8 @@
 
 namespace {
 
-const std::filesystem::path corpus = std::filesystem::path(TICKBENCH_SOURCE_DIR) / "tests/data/bad_clocks";
+const std::filesystem::path corpus =
+    std::filesystem::path(TICKBENCH_SOURCE_DIR) / "tests/data/bad_clocks";
 
 std::vector<std::string> corpus_names() {
     std::vector<std::string> names;
@@ -40,7 +41,8 @@ TEST_P(bad_clocks_test, is_refused_with_the_expected_message) {
         FAIL() << GetParam() << ".toml was accepted";
     } catch (const sim::scenario_error& e) {
         const std::string what = e.what();
-        for (const std::string& f : fragments) EXPECT_NE(what.find(f), std::string::npos) << "expected: " << f << "\ngot: " << what;
+        for (const std::string& f : fragments)
+            EXPECT_NE(what.find(f), std::string::npos) << "expected: " << f << "\ngot: " << what;
         EXPECT_EQ(std::filesystem::path(e.file()).filename(), toml.filename());
     }
 }

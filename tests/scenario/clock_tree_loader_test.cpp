@@ -1,8 +1,8 @@
 // Loading clock trees from TOML (sim/clock_tree_loader.h): the demo part, the schema's defaults and
 // the location and wording of findings.
 
-#include "sim/clock_plan.h"
 #include "sim/clock_tree_loader.h"
+#include "sim/clock_plan.h"
 
 #include <gtest/gtest.h>
 #include <nlohmann/json.hpp>
@@ -130,13 +130,16 @@ enabled = false
 TEST(clock_tree_loader_test, findings_name_file_line_column_and_key) {
     sim::clock_tree tree;
     try {
-        sim::load_clock_tree_text("[clocks.pll]\nkind = \"pll\"\ninput = \"xtal\"\nmultiplier = \"nine\"\n"
-                                  "[clocks.xtal]\nkind = \"crystal\"\nfrequency = \"8 MHz\"\n",
-                                  "demo.toml", tree);
+        sim::load_clock_tree_text(
+            "[clocks.pll]\nkind = \"pll\"\ninput = \"xtal\"\nmultiplier = \"nine\"\n"
+            "[clocks.xtal]\nkind = \"crystal\"\nfrequency = \"8 MHz\"\n",
+            "demo.toml", tree);
         FAIL() << "no error";
     } catch (const sim::scenario_error& e) {
-        EXPECT_STREQ(e.what(), "demo.toml:4:14: clocks.pll.multiplier: expected a whole number from 1 to 1000000, "
-                               "got \"nine\"");
+        EXPECT_STREQ(
+            e.what(),
+            "demo.toml:4:14: clocks.pll.multiplier: expected a whole number from 1 to 1000000, "
+            "got \"nine\"");
         EXPECT_EQ(e.file(), "demo.toml");
         EXPECT_EQ(e.line(), 4u);
         EXPECT_EQ(e.column(), 14u);
@@ -147,21 +150,26 @@ TEST(clock_tree_loader_test, findings_name_file_line_column_and_key) {
 }
 
 TEST(clock_tree_loader_test, all_findings_come_out_at_once_in_file_order) {
-    const std::string e = error_of("[clocks.a]\nkind = \"crystal\"\nfrequncy = \"8 MHz\"\n"
-                                   "[clocks.b]\nkind = \"divider\"\ninput = \"a\"\nfactor = 0\n");
-    EXPECT_EQ(e,
-              "t.toml:1:1: clocks.a: missing key \"frequency\"; accepted: a frequency such as \"8 MHz\" (units Hz, "
-              "kHz, MHz, GHz) or a whole number of hertz\n"
-              "t.toml:3:1: clocks.a.frequncy: unknown key \"frequncy\" for a crystal clock (did you mean "
-              "\"frequency\"?); accepted: kind, frequency, offset, temperature-coefficient, turnover, temperature, "
-              "jitter, seed\n"
-              "t.toml:7:10: clocks.b.factor: expected a whole number from 1 to 1000000000, got 0");
+    const std::string e = error_of(
+        "[clocks.a]\nkind = \"crystal\"\nfrequncy = \"8 MHz\"\n"
+        "[clocks.b]\nkind = \"divider\"\ninput = \"a\"\nfactor = 0\n");
+    EXPECT_EQ(
+        e,
+        "t.toml:1:1: clocks.a: missing key \"frequency\"; accepted: a frequency such as \"8 MHz\" "
+        "(units Hz, "
+        "kHz, MHz, GHz) or a whole number of hertz\n"
+        "t.toml:3:1: clocks.a.frequncy: unknown key \"frequncy\" for a crystal clock (did you mean "
+        "\"frequency\"?); accepted: kind, frequency, offset, temperature-coefficient, turnover, "
+        "temperature, "
+        "jitter, seed\n"
+        "t.toml:7:10: clocks.b.factor: expected a whole number from 1 to 1000000000, got 0");
 }
 
 TEST(clock_tree_loader_test, clock_rules_point_at_the_node_table) {
-    const std::string e = error_of("[clocks.xtal]\nkind = \"crystal\"\nfrequency = \"8 MHz\"\n\n"
-                                   "[clocks.pll]\nkind = \"pll\"\ninput = \"xtal\"\nmultiplier = 100\n"
-                                   "vco-range = [\"100 MHz\", \"432 MHz\"]\n");
+    const std::string e = error_of(
+        "[clocks.xtal]\nkind = \"crystal\"\nfrequency = \"8 MHz\"\n\n"
+        "[clocks.pll]\nkind = \"pll\"\ninput = \"xtal\"\nmultiplier = 100\n"
+        "vco-range = [\"100 MHz\", \"432 MHz\"]\n");
     EXPECT_EQ(e.rfind("t.toml:5:1: clocks.pll: VCO", 0), 0u) << e;
 }
 
@@ -171,10 +179,12 @@ TEST(clock_tree_loader_test, unreadable_files_and_syntax_errors) {
         sim::load_clock_tree_file("/nonexistent/x.toml", tree);
         FAIL();
     } catch (const sim::scenario_error& e) {
-        EXPECT_STREQ(e.what(), "/nonexistent/x.toml: cannot read the file: No such file or directory");
+        EXPECT_STREQ(e.what(),
+                     "/nonexistent/x.toml: cannot read the file: No such file or directory");
         EXPECT_EQ(e.line(), 0u);
     }
-    EXPECT_EQ(error_of("[clocks.a]\nkind = \n").rfind("t.toml:2:8: TOML syntax: ", 0), 0u) << error_of("[clocks.a]\nkind = \n");
+    EXPECT_EQ(error_of("[clocks.a]\nkind = \n").rfind("t.toml:2:8: TOML syntax: ", 0), 0u)
+        << error_of("[clocks.a]\nkind = \n");
 }
 
 }  // namespace

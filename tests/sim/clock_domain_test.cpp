@@ -131,7 +131,8 @@ TEST(clock_domain_test, jitter_is_seeded_bounded_and_keeps_edges_in_order) {
 
 TEST(clock_domain_test, derived_segment_lands_exactly_on_parent_edges) {
     // A divide-by-3 of 48 MHz * 7 / 9: every output edge is exactly a parent edge.
-    const sim::clock_segment p = sim::clock_segment::running(0, 0, sim::frequency::hz(48'000'000).scaled(7, 9));
+    const sim::clock_segment p =
+        sim::clock_segment::running(0, 0, sim::frequency::hz(48'000'000).scaled(7, 9));
     const sim::clock_segment d = sim::clock_segment::derived(p, 5, 0, 3);
     for (std::uint64_t k = 0; k < 1000; ++k) EXPECT_EQ(d.time_of(k), p.time_of(5 + 3 * k));
     EXPECT_EQ(d.freq(), sim::frequency::hz(48'000'000).scaled(7, 27));

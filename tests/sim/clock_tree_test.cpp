@@ -18,7 +18,8 @@ sim::crystal_params crystal(std::uint64_t hz, std::int64_t ppb = 0) {
     return p;
 }
 
-bool mentions(const std::vector<std::string>& problems, const std::string& a, const std::string& b) {
+bool mentions(const std::vector<std::string>& problems, const std::string& a,
+              const std::string& b) {
     for (const auto& p : problems)
         if (p.find(a) != std::string::npos && p.find(b) != std::string::npos) return true;
     return false;
@@ -38,7 +39,8 @@ TEST(clock_tree_test, crystal_at_100_ppm_counts_8_million_plus_minus_800_in_a_1s
 }
 
 TEST(clock_tree_test, pll_output_is_input_times_multiplier_over_dividers) {
-    // PLL output = input x multiplier / (input divider x output divider) (common practice, no source).
+    // PLL output = input x multiplier / (input divider x output divider) (common practice, no
+    // source).
     sim::clock_tree t;
     t.add_crystal("xtal", crystal(8'000'000));
     sim::pll_params p;
@@ -119,8 +121,8 @@ TEST(clock_tree_test, divider_change_waits_for_the_next_output_edge) {
 
 TEST(clock_tree_test, mux_switch_holds_between_the_old_and_new_edge) {
     sim::clock_tree t;
-    t.add_crystal("a", crystal(1'000'000));   // edges every 1 us
-    t.add_crystal("b", crystal(300'000));     // edges every 3.333 us
+    t.add_crystal("a", crystal(1'000'000));  // edges every 1 us
+    t.add_crystal("b", crystal(300'000));    // edges every 3.333 us
     t.add_mux("sys", {"a", "b"}, 0);
     std::vector<sim::time_ps> heard;
     t.subscribe("sys", "timer1", [&](sim::time_ps from) { heard.push_back(from); });
@@ -169,7 +171,8 @@ TEST(clock_tree_test, change_flows_to_a_hundred_consumers_with_exact_time) {
     t.add_divider("half", "rc", 2);
     std::vector<sim::time_ps> heard(100, 0);
     for (int i = 0; i < 100; ++i)
-        t.subscribe("half", "consumer" + std::to_string(i), [&heard, i](sim::time_ps from) { heard[i] = from; });
+        t.subscribe("half", "consumer" + std::to_string(i),
+                    [&heard, i](sim::time_ps from) { heard[i] = from; });
     t.start();
     EXPECT_EQ(t.domain("rc").freq_at(0), frequency::hz(8'040'000));
     const sim::time_ps eff = t.set_trim("rc", -2, 1000 * us);

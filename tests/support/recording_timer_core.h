@@ -1,8 +1,9 @@
 #pragma once
-// A recording stand-in for a timer model, for bus-side tests: it keeps each functional field's value
-// in a table, answers reads from it, and records every call (field writes, field reads, flag clears)
-// with its time, so a test can check exactly what a register access turned into. Flags are a plain
-// value a test sets; clear_flags clears bits of it. force_reload and rearm read 0, as the model's do.
+// A recording stand-in for a timer model, for bus-side tests: it keeps each functional field's
+// value in a table, answers reads from it, and records every call (field writes, field reads, flag
+// clears) with its time, so a test can check exactly what a register access turned into. Flags are
+// a plain value a test sets; clear_flags clears bits of it. force_reload and rearm read 0, as the
+// model's do.
 
 #include "models/timer/timer_types.h"
 
@@ -22,12 +23,14 @@ public:
         std::uint32_t value;  // written value, value read, or clear mask
         models::time_ps at;
         bool operator==(const call& o) const {
-            return what == o.what && field == o.field && channel == o.channel && value == o.value && at == o.at;
+            return what == o.what && field == o.field && channel == o.channel && value == o.value &&
+                   at == o.at;
         }
     };
 
     void advance_to(models::time_ps) override {}
-    void write(models::timer_field f, unsigned channel, std::uint32_t value, models::time_ps t) override {
+    void write(models::timer_field f, unsigned channel, std::uint32_t value,
+               models::time_ps t) override {
         calls.push_back({call::kind::write, f, channel, value, t});
         if (f == models::timer_field::force_reload || f == models::timer_field::rearm) return;
         values[{f, channel}] = value;

@@ -34,11 +34,16 @@ struct timer_event {
 
 inline const char* to_string(timer_event_kind k) {
     switch (k) {
-        case timer_event_kind::pin: return "pin";
-        case timer_event_kind::flag: return "flag";
-        case timer_event_kind::irq: return "irq";
-        case timer_event_kind::trigger: return "trigger";
-        case timer_event_kind::read: return "read";
+        case timer_event_kind::pin:
+            return "pin";
+        case timer_event_kind::flag:
+            return "flag";
+        case timer_event_kind::irq:
+            return "irq";
+        case timer_event_kind::trigger:
+            return "trigger";
+        case timer_event_kind::read:
+            return "read";
     }
     return "?";
 }
@@ -59,10 +64,13 @@ public:
     void on_irq(bool level, sim::time_ps at) override {
         events.push_back({at, timer_event_kind::irq, 0, level ? 1u : 0u});
     }
-    void on_trigger(sim::time_ps at) override { events.push_back({at, timer_event_kind::trigger, 0, 1}); }
+    void on_trigger(sim::time_ps at) override {
+        events.push_back({at, timer_event_kind::trigger, 0, 1});
+    }
     // Records the result of a read, so reads compare like reports.
     void add_read(models::timer_field f, unsigned channel, std::uint32_t value, sim::time_ps at) {
-        events.push_back({at, timer_event_kind::read, static_cast<std::uint32_t>(f) * 8 + channel, value});
+        events.push_back(
+            {at, timer_event_kind::read, static_cast<std::uint32_t>(f) * 8 + channel, value});
     }
 
     // The events ordered by (time, kind, id), stable within equal keys.
@@ -79,7 +87,8 @@ public:
     std::vector<sim::time_ps> pin_edges(unsigned p, bool level) const {
         std::vector<sim::time_ps> out;
         for (const timer_event& e : events)
-            if (e.kind == timer_event_kind::pin && e.id == p && (e.value != 0) == level) out.push_back(e.at);
+            if (e.kind == timer_event_kind::pin && e.id == p && (e.value != 0) == level)
+                out.push_back(e.at);
         return out;
     }
     // Times at which flag bit b set.

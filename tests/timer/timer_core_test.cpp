@@ -13,7 +13,9 @@ struct bench {
     explicit bench(models::timer_config cfg = {}, std::uint64_t hz = 48'000'000)
         : clock(frequency::hz(hz)), timer(cfg, clock, &log) {}
     void set(timer_field f, std::uint32_t v, sim::time_ps at = 0) { timer.write(f, 0, v, at); }
-    void set_ch(unsigned c, timer_field f, std::uint32_t v, sim::time_ps at = 0) { timer.write(f, c, v, at); }
+    void set_ch(unsigned c, timer_field f, std::uint32_t v, sim::time_ps at = 0) {
+        timer.write(f, c, v, at);
+    }
     sim::clock_domain clock;
     tickbench::test_support::timer_event_log log;
     std::vector<sim::time_ps> rises(unsigned p) const { return log.pin_edges(p, true); }
@@ -22,12 +24,14 @@ struct bench {
     std::vector<std::pair<std::uint32_t, sim::time_ps>> flags() const {
         std::vector<std::pair<std::uint32_t, sim::time_ps>> v;
         for (const auto& e : log.events)
-            if (e.kind == tickbench::test_support::timer_event_kind::flag && e.id == 0) v.emplace_back(e.id, e.at);
+            if (e.kind == tickbench::test_support::timer_event_kind::flag && e.id == 0)
+                v.emplace_back(e.id, e.at);
         return v;
     }
     std::size_t irq_changes() const {
         std::size_t n = 0;
-        for (const auto& e : log.events) n += e.kind == tickbench::test_support::timer_event_kind::irq;
+        for (const auto& e : log.events)
+            n += e.kind == tickbench::test_support::timer_event_kind::irq;
         return n;
     }
     models::timer_core timer;
@@ -37,8 +41,8 @@ TEST(timer_core_test, edge_aligned_pwm_frequency_and_duty) {
     // Edge-aligned PWM frequency = f_kernel / ((prescaler + 1) x (period + 1)) and duty =
     // compare / (period + 1) (common practice, no single source).
     bench b;
-    b.set(timer_field::prescaler, 1);   // factor 2: 24 MHz counter clock
-    b.set(timer_field::period, 959);    // 960 values: 25 kHz
+    b.set(timer_field::prescaler, 1);  // factor 2: 24 MHz counter clock
+    b.set(timer_field::period, 959);   // 960 values: 25 kHz
     b.set_ch(0, timer_field::compare, 240);
     b.set_ch(0, timer_field::action, static_cast<std::uint32_t>(models::output_action::pwm_below));
     b.set_ch(0, timer_field::main_enable, 1);
@@ -48,7 +52,8 @@ TEST(timer_core_test, edge_aligned_pwm_frequency_and_duty) {
     const auto rises = b.rises(models::main_pin(0));
     const auto falls = b.falls(models::main_pin(0));
     ASSERT_GT(rises.size(), 200u);
-    for (std::size_t i = 2; i + 1 < rises.size(); ++i) EXPECT_EQ(rises[i + 1] - rises[i], 40'000'000u);  // 40 us
+    for (std::size_t i = 2; i + 1 < rises.size(); ++i)
+        EXPECT_EQ(rises[i + 1] - rises[i], 40'000'000u);  // 40 us
     // Pulse width = 240 / 960 of 40 us = 10 us.
     for (std::size_t i = 2; i + 2 < falls.size(); ++i) {
         auto r = std::lower_bound(rises.begin(), rises.end(), falls[i]) - 1;
@@ -72,7 +77,8 @@ TEST(timer_core_test, center_aligned_pwm_frequency_and_duty) {
     const auto rises = b.rises(models::main_pin(0));
     const auto falls = b.falls(models::main_pin(0));
     ASSERT_GT(rises.size(), 100u);
-    for (std::size_t i = 1; i + 1 < rises.size(); ++i) EXPECT_EQ(rises[i + 1] - rises[i], 40'000'000u);
+    for (std::size_t i = 1; i + 1 < rises.size(); ++i)
+        EXPECT_EQ(rises[i + 1] - rises[i], 40'000'000u);
     for (std::size_t i = 2; i + 2 < falls.size(); ++i) {
         auto r = std::lower_bound(rises.begin(), rises.end(), falls[i]) - 1;
         EXPECT_EQ(falls[i] - *r, 10'000'000u);
@@ -132,7 +138,8 @@ TEST(timer_core_test, dead_time_delays_rises_and_swallows_short_pulses) {
     b.set_ch(0, timer_field::comp_enable, 1);
     b.set(timer_field::enable, 1);
     b.timer.advance_to(250'000'000);
-    // The reference level goes inactive at 50 us: main falls at once, complementary rises 3 ticks on.
+    // The reference level goes inactive at 50 us: main falls at once, complementary rises 3 ticks
+    // on.
     const auto mf = b.falls(models::main_pin(0));
     const auto cr = b.rises(models::comp_pin(0));
     ASSERT_GE(mf.size(), 2u);

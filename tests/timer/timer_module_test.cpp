@@ -16,7 +16,8 @@ using models::timer_field;
 // Watches a pin signal and records the kernel time of each change, as a probe would.
 struct pin_probe : sc_core::sc_module {
     SC_HAS_PROCESS(pin_probe);
-    pin_probe(const sc_core::sc_module_name& n, sc_core::sc_signal<bool>& s) : sc_core::sc_module(n), sig(s) {
+    pin_probe(const sc_core::sc_module_name& n, sc_core::sc_signal<bool>& s)
+        : sc_core::sc_module(n), sig(s) {
         SC_METHOD(sample);
         sensitive << sig.value_changed_event();
         dont_initialize();
@@ -28,14 +29,16 @@ struct pin_probe : sc_core::sc_module {
 
 struct firmware_stub : sc_core::sc_module {
     SC_HAS_PROCESS(firmware_stub);
-    firmware_stub(const sc_core::sc_module_name& n, models::timer_module& t) : sc_core::sc_module(n), timer(t) {
+    firmware_stub(const sc_core::sc_module_name& n, models::timer_module& t)
+        : sc_core::sc_module(n), timer(t) {
         SC_THREAD(run);
     }
     void run() {
         const auto now = [] { return sc_core::sc_time_stamp().value(); };
         timer.write(timer_field::period, 0, 1919, now());  // 48 MHz / 1920 = 25 kHz
         timer.write(timer_field::compare, 0, 480, now());
-        timer.write(timer_field::action, 0, static_cast<std::uint32_t>(models::output_action::pwm_below), now());
+        timer.write(timer_field::action, 0,
+                    static_cast<std::uint32_t>(models::output_action::pwm_below), now());
         timer.write(timer_field::main_enable, 0, 1, now());
         timer.write(timer_field::enable, 0, 1, now());
         wait(sc_core::sc_time(500, sc_core::SC_US));

@@ -2,8 +2,8 @@
 // each value read and written, the order and width of the accesses, and the flags the compiled
 // code branches on after a trapped cmp, test or bt.
 
-#include "fake_peripheral.h"
 #include "volatile_forms.h"
+#include "fake_peripheral.h"
 
 #include <gtest/gtest.h>
 

@@ -16,27 +16,32 @@ const char* const frequency_words =
 
 void findings_list::raise_if_any() {
     if (empty()) return;
-    std::stable_sort(list_.begin(), list_.end(), [](const sim::scenario_finding& a, const sim::scenario_finding& b) {
-        return std::tie(a.line, a.column) < std::tie(b.line, b.column);
-    });
+    std::stable_sort(list_.begin(), list_.end(),
+                     [](const sim::scenario_finding& a, const sim::scenario_finding& b) {
+                         return std::tie(a.line, a.column) < std::tie(b.line, b.column);
+                     });
     std::vector<sim::scenario_finding> all = list_;
     all.insert(all.end(), foreign_.begin(), foreign_.end());
     throw sim::scenario_error(all);
 }
 
-void table_reader::reject_unknown_keys(const std::vector<std::string>& allowed, const std::string& what) {
+void table_reader::reject_unknown_keys(const std::vector<std::string>& allowed,
+                                       const std::string& what) {
     for (auto&& [k, v] : t_) {
         (void)v;
         const std::string key(k.str());
         if (std::find(allowed.begin(), allowed.end(), key) != allowed.end()) continue;
         out_.add(k.source(), key_path(key),
-                 "unknown key " + in_quotes(key) + " in " + what + hint(key, allowed) + "; accepted: " + join(allowed));
+                 "unknown key " + in_quotes(key) + " in " + what + hint(key, allowed) +
+                     "; accepted: " + join(allowed));
     }
 }
 
-const toml::node* table_reader::get(const std::string& key, bool required, const std::string& expected) {
+const toml::node* table_reader::get(const std::string& key, bool required,
+                                    const std::string& expected) {
     const toml::node* n = t_.get(key);
-    if (!n && required) out_.add(t_.source(), path_, "missing key " + in_quotes(key) + "; accepted: " + expected);
+    if (!n && required)
+        out_.add(t_.source(), path_, "missing key " + in_quotes(key) + "; accepted: " + expected);
     return n;
 }
 
@@ -49,9 +54,10 @@ void table_reader::report(const std::string& key, const std::string& message) {
     out_.add(n ? n->source() : t_.source(), n ? key_path(key) : path_, message);
 }
 
-std::optional<std::int64_t> table_reader::integer(const std::string& key, std::int64_t lo, std::int64_t hi,
-                                                  bool required) {
-    const std::string expected = "a whole number from " + std::to_string(lo) + " to " + std::to_string(hi);
+std::optional<std::int64_t> table_reader::integer(const std::string& key, std::int64_t lo,
+                                                  std::int64_t hi, bool required) {
+    const std::string expected =
+        "a whole number from " + std::to_string(lo) + " to " + std::to_string(hi);
     const toml::node* n = get(key, required, expected);
     if (!n) return std::nullopt;
     const auto* v = n->as_integer();
@@ -72,7 +78,8 @@ std::optional<bool> table_reader::boolean(const std::string& key) {
     return n->as_boolean()->get();
 }
 
-std::optional<std::string> table_reader::string(const std::string& key, bool required, const std::string& expected) {
+std::optional<std::string> table_reader::string(const std::string& key, bool required,
+                                                const std::string& expected) {
     const toml::node* n = get(key, required, expected);
     if (!n) return std::nullopt;
     if (!n->is_string() || n->as_string()->get().empty()) {
@@ -82,7 +89,8 @@ std::optional<std::string> table_reader::string(const std::string& key, bool req
     return n->as_string()->get();
 }
 
-std::optional<std::string> table_reader::choice(const std::string& key, const std::vector<std::string>& choices) {
+std::optional<std::string> table_reader::choice(const std::string& key,
+                                                const std::vector<std::string>& choices) {
     std::vector<std::string> quoted;
     for (const auto& c : choices) quoted.push_back(in_quotes(c));
     const std::string expected = "one of " + join(quoted);
