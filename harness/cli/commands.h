@@ -1,7 +1,7 @@
 #pragma once
 // The subcommands of the `tickbench` command and its exit codes (docs/cli.md). Each command is a
 // plain function of its options and an output stream, so its behaviour does not depend on the
-// argument parser; cli/app.cpp maps the command line onto them and errors onto exit codes.
+// argument parser; harness/cli/app.cpp maps the command line onto them and errors onto exit codes.
 
 #include <cstdint>
 #include <optional>
@@ -9,7 +9,7 @@
 #include <string>
 #include <vector>
 
-namespace sim::cli {
+namespace harness::cli {
 
 // Exit codes of the command.
 inline constexpr int exit_ok = 0;
@@ -68,4 +68,4 @@ int run_plan(const plan_options& options, std::ostream& out);
 // "tickbench: error: " and returns the exit code.
 int run(int argc, char** argv);
 
-}  // namespace sim::cli
+}  // namespace harness::cli

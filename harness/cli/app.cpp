@@ -1,7 +1,7 @@
 // The command line of `tickbench`: options, subcommands, logging set-up and the mapping of errors
 // onto exit codes (docs/cli.md). The only translation unit that includes CLI11.
 
-#include "sim/cli/commands.h"
+#include "harness/cli/commands.h"
 
 #include "harness/firmware_library.h"
 #include "harness/run/log_setup.h"
@@ -17,7 +17,7 @@
 #include <iostream>
 #include <sstream>
 
-namespace sim::cli {
+namespace harness::cli {
 
 namespace {
 
@@ -107,19 +107,19 @@ int run(int argc, char** argv) {
         if (*check_cmd) return run_check(check_file, std::cout);
         if (*clocks_cmd) return run_clocks(clocks, std::cout);
         if (*plan_cmd) return run_plan(plan, std::cout);
-    } catch (const scenario_error& e) {
+    } catch (const sim::scenario_error& e) {
         report_error(e.what());
         return exit_bad_input;
-    } catch (const clock_config_error& e) {
+    } catch (const sim::clock_config_error& e) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const harness::firmware_load_error& e) {
         report_error(e.what());
         return exit_bad_input;
-    } catch (const quantity_error& e) {
+    } catch (const sim::quantity_error& e) {
         report_error(e.what());
         return exit_bad_input;
-    } catch (const output_error& e) {
+    } catch (const sim::output_error& e) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const std::exception& e) {
@@ -130,4 +130,4 @@ int run(int argc, char** argv) {
     return exit_internal;
 }
 
-}  // namespace sim::cli
+}  // namespace harness::cli

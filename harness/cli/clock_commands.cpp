@@ -1,6 +1,6 @@
 // The `clocks` and `check` subcommands; see commands.h.
 
-#include "sim/cli/commands.h"
+#include "harness/cli/commands.h"
 
 #include "harness/run/scenario_runner.h"
 #include "sim/clock_plan.h"
@@ -9,14 +9,14 @@
 
 #include <spdlog/spdlog.h>
 
-namespace sim::cli {
+namespace harness::cli {
 
 int run_clocks(const clocks_options& options, std::ostream& out) {
-    clock_tree tree;
-    load_clock_tree_file(options.file, tree);
-    const std::vector<clock_plan_row> rows = tree.plan(0);
+    sim::clock_tree tree;
+    sim::load_clock_tree_file(options.file, tree);
+    const std::vector<sim::clock_plan_row> rows = tree.plan(0);
     spdlog::info("{}: {} clocks read", options.file, rows.size());
-    out << (options.json ? clock_plan_json(rows) : clock_plan_text(rows));
+    out << (options.json ? sim::clock_plan_json(rows) : sim::clock_plan_text(rows));
     if (options.json) out << '\n';
     return exit_ok;
 }
@@ -26,4 +26,4 @@ int run_check(const std::string& file, std::ostream& out) {
     return exit_ok;
 }
 
-}  // namespace sim::cli
+}  // namespace harness::cli

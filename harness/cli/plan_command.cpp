@@ -1,6 +1,6 @@
 // The `plan` subcommand; see commands.h and harness/run/period_plan.h.
 
-#include "sim/cli/commands.h"
+#include "harness/cli/commands.h"
 
 #include "harness/run/period_plan.h"
 #include "sim/quantity.h"
@@ -9,14 +9,14 @@
 #include <string>
 #include <vector>
 
-namespace sim::cli {
+namespace harness::cli {
 
 int run_plan(const plan_options& options, std::ostream& out) {
     harness::run::plan_request rq;
-    rq.clock = parse_frequency(options.clock);
-    rq.target = parse_frequency(options.target);
-    if (rq.clock.is_zero()) throw quantity_error("--clock: expected a frequency above 0 Hz");
-    if (rq.target.is_zero()) throw quantity_error("--target: expected a frequency above 0 Hz");
+    rq.clock = sim::parse_frequency(options.clock);
+    rq.target = sim::parse_frequency(options.target);
+    if (rq.clock.is_zero()) throw sim::quantity_error("--clock: expected a frequency above 0 Hz");
+    if (rq.target.is_zero()) throw sim::quantity_error("--target: expected a frequency above 0 Hz");
     rq.counter_bits = options.width;
     rq.center = options.center;
     rq.max_results = options.max;
@@ -56,4 +56,4 @@ int run_plan(const plan_options& options, std::ostream& out) {
     return exit_ok;
 }
 
-}  // namespace sim::cli
+}  // namespace harness::cli

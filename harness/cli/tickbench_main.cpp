@@ -1,6 +1,6 @@
-// Entry point of the `tickbench` command; everything else lives in sim/cli/.
+// Entry point of the `tickbench` command; everything else lives beside it in harness/cli/.
 
-#include "sim/cli/commands.h"
+#include "harness/cli/commands.h"
 
 #include <cstdlib>
 
@@ -10,5 +10,5 @@ extern "C" int sc_main(int, char*[]) { return 0; }
 int main(int argc, char** argv) {
     // stdout carries only the command's output: no kernel banner.
     setenv("SYSTEMC_DISABLE_COPYRIGHT_MESSAGE", "1", 1);
-    return sim::cli::run(argc, argv);
+    return harness::cli::run(argc, argv);
 }
