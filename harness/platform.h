@@ -26,7 +26,7 @@ namespace harness {
 struct timer_spec {
     std::string name;                // instance name, also its interrupt line's name
     models::register_layout layout;  // its registers (and instance configuration)
-    std::string clock;               // clock-tree node of its kernel clock
+    std::string clock;               // clock-tree node of its timer clock
     std::uint64_t base = 0;          // bus address of its register window
     unsigned irq_priority = 8;
     time_ps irq_extra_delay = 0;                 // injected interrupt delivery delay

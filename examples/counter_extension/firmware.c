@@ -17,15 +17,8 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* Register offsets of the demo part's 16-bit timer (models/layouts/timer16_quad.toml). */
-#define COUNT 0x00u
-#define LIMIT 0x02u
-#define SCALE 0x04u
-#define RUN 0x10u
-#define NOTIFY 0x1cu
-#define STATUS 0x20u
-#define STATUS_CLEAR 0x22u
-#define RELOAD_FLAG 0x0001u
+/* Registers of the demo part's 16-bit timer (models/layouts/timer16_quad.toml). */
+#include "demo_timers.h"
 
 static uint32_t base;
 static volatile uint32_t overflows;
@@ -34,25 +27,25 @@ static volatile uint32_t overflows;
 uint32_t counter_extension_backwards;
 
 static void on_overflow(void) {
-    tick_write16(base + STATUS_CLEAR, RELOAD_FLAG);
+    tick_write16(base + Q16_STATUS_CLEAR, DEMO_FLAG_RELOAD);
     overflows = overflows + 1;
 }
 
 static uint32_t now_naive(void) {
     uint32_t high = overflows;
-    uint32_t low = tick_read16(base + COUNT);
+    uint32_t low = tick_read16(base + Q16_COUNT);
     return (high << 16) | low;
 }
 
 static uint32_t now_careful(void) {
     int was_enabled = tick_irq_disable();
     uint32_t high = overflows;
-    uint32_t low = tick_read16(base + COUNT);
-    if (tick_read16(base + STATUS) & RELOAD_FLAG) {
+    uint32_t low = tick_read16(base + Q16_COUNT);
+    if (tick_read16(base + Q16_STATUS) & DEMO_FLAG_RELOAD) {
         /* The counter wrapped and its interrupt has not run yet: count the wrap, and read the
          * counter again so the low half is surely from after the wrap. */
         high = high + 1;
-        low = tick_read16(base + COUNT);
+        low = tick_read16(base + Q16_COUNT);
     }
     if (was_enabled) tick_irq_enable();
     return (high << 16) | low;
@@ -67,11 +60,11 @@ void tick_firmware_main(void) {
     counter_extension_backwards = 0;
 
     tick_irq_set_handler((unsigned)line, on_overflow);
-    tick_write16(base + LIMIT, 0xffffu);
-    tick_write16(base + SCALE, 0);
-    tick_write16(base + NOTIFY, RELOAD_FLAG);
+    tick_write16(base + Q16_LIMIT, 0xffffu);
+    tick_write16(base + Q16_SCALE, 0);
+    tick_write16(base + Q16_NOTIFY, DEMO_FLAG_RELOAD);
     tick_irq_line_enable((unsigned)line);
-    tick_write16(base + RUN, 1); /* counting up from wherever the counter stands */
+    tick_write16(base + Q16_RUN, Q16_RUN_ENABLE); /* counting up from wherever the counter stands */
 
     uint32_t previous = careful ? now_careful() : now_naive();
     for (long i = 0; i < reads; ++i) {

@@ -16,30 +16,8 @@
 #include <stdint.h>
 #include <stdlib.h>
 
-/* Register offsets of the demo part's 16-bit timer (models/layouts/timer16_quad.toml). */
-#define FANS_LIMIT 0x02u
-#define FANS_SCALE 0x04u
-#define FANS_MATCH(c) (0x08u + 2u * (c))
-#define FANS_RUN 0x10u
-#define FANS_KICK 0x12u
-#define FANS_SHAPE_AB 0x14u
-#define FANS_SHAPE_CD 0x16u
-#define FANS_DEAD 0x18u
-/* run: enable (bit 0), period preload (bit 8). kick: force reload (bit 0). */
-#define RUN_ENABLE 0x0001u
-#define RUN_PERIOD_PRELOAD 0x0100u
-/* shape byte per channel: action (bits 0-2), compare preload (3), main enable (4), comp enable (6).
- */
-#define SHAPE_PWM_BELOW 0x6u
-#define SHAPE_PRELOAD 0x08u
-#define SHAPE_MAIN 0x10u
-#define SHAPE_COMP 0x40u
-
-/* Register offsets of the demo part's 32-bit timer (models/layouts/timer32_dual.toml). */
-#define TICK_SETUP 0x00u
-#define TICK_ALERTS 0x0cu
-#define TICK_TAKE 0x14u
-#define TICK_LIMIT 0x1cu
+/* Registers of the demo part's timers (models/layouts/timer16_quad.toml, timer32_dual.toml). */
+#include "demo_timers.h"
 
 #define FAN_CLOCK_HZ 72000000u
 #define NORMAL_TICKS 2880u /* 40 us: 25 kHz */
@@ -62,19 +40,19 @@ static uint32_t compare_for(uint32_t duty_percent) {
 
 static void set_period(uint32_t period) {
     period_ticks = period;
-    tick_write16(fans + FANS_LIMIT, (uint16_t)(period_ticks - 1u));
+    tick_write16(fans + Q16_LIMIT, (uint16_t)(period_ticks - 1u));
 }
 
 static void set_duties(void) {
-    tick_write16(fans + FANS_MATCH(0), (uint16_t)compare_for(fan1_duty));
-    tick_write16(fans + FANS_MATCH(1), (uint16_t)compare_for(50));
-    tick_write16(fans + FANS_MATCH(2), (uint16_t)compare_for(75));
+    tick_write16(fans + Q16_MATCH(0), (uint16_t)compare_for(fan1_duty));
+    tick_write16(fans + Q16_MATCH(1), (uint16_t)compare_for(50));
+    tick_write16(fans + Q16_MATCH(2), (uint16_t)compare_for(75));
     /* The pump's main output also rises a dead time late, which is the point of dead time there. */
-    tick_write16(fans + FANS_MATCH(3), (uint16_t)(period_ticks * 40u / 100u)); /* pump */
+    tick_write16(fans + Q16_MATCH(3), (uint16_t)(period_ticks * 40u / 100u)); /* pump */
 }
 
 static void on_tick(void) {
-    (void)tick_read32(tick + TICK_TAKE); /* reading clears the reload flag */
+    (void)tick_read32(tick + D32_TAKE); /* reading clears the reload flag */
     ticks = ticks + 1;
     if (fan1_duty < fan1_target)
         fan1_duty++;
@@ -93,25 +71,30 @@ void tick_firmware_main(void) {
     quiet_at = (uint32_t)strtoul(tick_param("quiet_at_ms", "20"), NULL, 0);
 
     /* Fans: preloaded period and compares, PWM on channels 1-3, a complementary pump pair. */
-    tick_write16(fans + FANS_SCALE, 0);
-    tick_write16(fans + FANS_RUN, RUN_PERIOD_PRELOAD);
+    tick_write16(fans + Q16_SCALE, 0);
+    tick_write8(fans + Q16_PRELOAD, Q16_PRELOAD_PERIOD | Q16_PRELOAD_COMPARE(0) |
+                                        Q16_PRELOAD_COMPARE(1) | Q16_PRELOAD_COMPARE(2) |
+                                        Q16_PRELOAD_COMPARE(3));
     set_period(NORMAL_TICKS);
     set_duties();
-    const uint16_t fan_shape = SHAPE_PWM_BELOW | SHAPE_PRELOAD | SHAPE_MAIN;
-    tick_write16(fans + FANS_SHAPE_AB, (uint16_t)(fan_shape | (fan_shape << 8)));
-    tick_write16(fans + FANS_SHAPE_CD, (uint16_t)(fan_shape | ((fan_shape | SHAPE_COMP) << 8)));
-    tick_write16(fans + FANS_DEAD, DEAD_TIME_TICKS);
-    tick_write8(fans + FANS_KICK, 1); /* load the shadows now */
-    tick_write16(fans + FANS_RUN, RUN_PERIOD_PRELOAD | RUN_ENABLE);
+    const unsigned fan_shape = Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) | Q16_SHAPE_MAIN_ENABLE;
+    const unsigned pump_shape = fan_shape | Q16_SHAPE_COMP_ENABLE;
+    tick_write16(fans + Q16_SHAPE_AB,
+                 (uint16_t)(Q16_SHAPE_BYTE(0, fan_shape) | Q16_SHAPE_BYTE(1, fan_shape)));
+    tick_write16(fans + Q16_SHAPE_CD,
+                 (uint16_t)(Q16_SHAPE_BYTE(2, fan_shape) | Q16_SHAPE_BYTE(3, pump_shape)));
+    tick_write16(fans + Q16_DEAD, DEAD_TIME_TICKS);
+    tick_write8(fans + Q16_KICK, Q16_KICK_FORCE_RELOAD); /* load the shadows now */
+    tick_write16(fans + Q16_RUN, Q16_RUN_ENABLE | Q16_RUN_SLOPE(DEMO_SLOPE_BOTH));
 
     /* Tick: 1 kHz reload interrupt. */
     const int line = tick_irq_line("tick");
     tick_check(line >= 0, "the tick timer has an interrupt line", __FILE__, __LINE__);
     tick_irq_set_handler((unsigned)line, on_tick);
-    tick_write32(tick + TICK_LIMIT, FAN_CLOCK_HZ / TICK_HZ - 1u);
-    tick_write32(tick + TICK_ALERTS, 1);
+    tick_write32(tick + D32_LIMIT, FAN_CLOCK_HZ / TICK_HZ - 1u);
+    tick_write32(tick + D32_ALERTS, DEMO_FLAG_RELOAD);
     tick_irq_line_enable((unsigned)line);
-    tick_write32(tick + TICK_SETUP, 1);
+    tick_write32(tick + D32_SETUP, D32_SETUP_ENABLE | D32_SETUP_SLOPE(DEMO_SLOPE_BOTH));
 
     for (;;) tick_wait_for_interrupt();
 }

@@ -77,8 +77,7 @@ int run(int argc, char** argv) {
     plan_options plan;
     CLI::App* plan_cmd = app.add_subcommand(
         "plan", "List prescaler and period settings that reach a target frequency, best first");
-    plan_cmd->add_option("--clock", plan.clock, "The timer's kernel clock, e.g. \"48 MHz\"")
-        ->required();
+    plan_cmd->add_option("--clock", plan.clock, "The timer's clock, e.g. \"48 MHz\"")->required();
     plan_cmd->add_option("--target", plan.target, "The output frequency wanted, e.g. \"25 kHz\"")
         ->required();
     plan_cmd->add_option("--width", plan.width, "Counter width in bits (the prescaler has 16)")

@@ -162,7 +162,7 @@ void read_instance(reader& r, const toml::table& root, timer_config& cfg) {
     if (node == nullptr) {
         r.fail(root.source(), "instance",
                "missing table; accepted: [instance] with counter_bits, channels and the optional "
-               "prescaler_bits, repetition_bits, prescaler_shadowed, complementary, dead_time_max, "
+               "prescaler_bits, wrap_skip_bits, prescaler_shadowed, complementary, dead_time_max, "
                "compare_latency");
         return;
     }
@@ -173,13 +173,12 @@ void read_instance(reader& r, const toml::table& root, timer_config& cfg) {
     }
     const std::string p = "instance";
     r.only_keys(*t, p,
-                {"counter_bits", "channels", "prescaler_bits", "repetition_bits",
+                {"counter_bits", "channels", "prescaler_bits", "wrap_skip_bits",
                  "prescaler_shadowed", "complementary", "dead_time_max", "compare_latency"});
     if (auto v = r.number(*t, "counter_bits", p, 8, 32, true)) cfg.counter_bits = unsigned(*v);
     if (auto v = r.number(*t, "channels", p, 1, 6, true)) cfg.channels = unsigned(*v);
     if (auto v = r.number(*t, "prescaler_bits", p, 1, 32, false)) cfg.prescaler_bits = unsigned(*v);
-    if (auto v = r.number(*t, "repetition_bits", p, 0, 16, false))
-        cfg.repetition_bits = unsigned(*v);
+    if (auto v = r.number(*t, "wrap_skip_bits", p, 0, 16, false)) cfg.wrap_skip_bits = unsigned(*v);
     if (auto v = r.flag(*t, "prescaler_shadowed", p)) cfg.prescaler_shadowed = *v;
     if (auto v = r.flag(*t, "complementary", p)) cfg.complementary = *v;
     if (auto v = r.number(*t, "dead_time_max", p, 0, 0xffff'ffffu, false))
@@ -339,8 +338,8 @@ void read_field(reader& r, const toml::node& n, const std::string& path, const t
 
     if (!ok) return;
     if (!instance_has(cfg, f.field, f.channel)) {
-        std::string why = f.field == timer_field::repetition
-                              ? "the instance has no repetition counter (repetition_bits = 0)"
+        std::string why = f.field == timer_field::wrap_skip
+                              ? "the instance has no wrap skip count (wrap_skip_bits = 0)"
                               : "the instance has no complementary outputs (complementary = false)";
         r.fail(*t->get("field"), path + ".field",
                std::string("\"") + to_string(f.field) + "\" does not exist here: " + why +
@@ -613,8 +612,8 @@ std::vector<std::pair<timer_field, unsigned>> register_layout::unmapped_fields()
 bool instance_has(const timer_config& instance, timer_field f, unsigned channel) {
     if (is_channel_field(f) && channel >= instance.channels) return false;
     switch (f) {
-        case timer_field::repetition:
-            return instance.repetition_bits > 0;
+        case timer_field::wrap_skip:
+            return instance.wrap_skip_bits > 0;
         case timer_field::dead_time:
         case timer_field::fault_enable:
         case timer_field::fault_latency:
@@ -637,22 +636,23 @@ unsigned value_width(const timer_config& instance, timer_field f) {
             return instance.counter_bits;
         case timer_field::prescaler:
             return instance.prescaler_bits;
-        case timer_field::repetition:
-            return instance.repetition_bits;
+        case timer_field::wrap_skip:
+            return instance.wrap_skip_bits;
         case timer_field::dead_time:
             return bits_for(instance.dead_time_max);
         case timer_field::fault_latency:
             return 16;
         case timer_field::mode:
         case timer_field::slope:
+        case timer_field::reload_policy:
             return 2;
         case timer_field::action:
-            return 3;
+            return 4;
         case timer_field::trigger_select:
-            return bits_for(1 + instance.channels);
+            return 3;
         case timer_field::flags:
         case timer_field::irq_enable:
-            return 8;
+            return 10;
         default:
             return 1;
     }

@@ -96,7 +96,7 @@ register_layout load_register_layout_file(const std::string& path);
 register_layout load_register_layout_text(std::string_view toml_text, const std::string& file);
 
 // Whether the instance has the functional field at all (dead time and the fault need complementary
-// outputs, repetition needs a repetition counter, per-channel fields need the channel).
+// outputs, wrap_skip needs a wrap skip count, per-channel fields need the channel).
 bool instance_has(const timer_config& instance, timer_field f, unsigned channel);
 // Bits of the functional field's value in this instance (the counter width for counter values...).
 unsigned value_width(const timer_config& instance, timer_field f);

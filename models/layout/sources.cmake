@@ -3,6 +3,7 @@
 # of these folders includes it.
 target_sources(tickbench_models PRIVATE
   ${CMAKE_CURRENT_LIST_DIR}/register_layout.cpp
+  ${CMAKE_CURRENT_LIST_DIR}/layout_table.cpp
   ${CMAKE_CURRENT_LIST_DIR}/unmapped_access.cpp
   ${CMAKE_CURRENT_LIST_DIR}/register_file.cpp
   ${CMAKE_CURRENT_LIST_DIR}/../bus/timer_target.cpp

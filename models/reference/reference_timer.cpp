@@ -12,11 +12,17 @@ std::uint32_t mask_bits(std::uint32_t v, unsigned bits) {
     return bits >= 32 ? v : v & ((1u << bits) - 1);
 }
 
+// The action codes docs/timer-model.md lists; every other code is reserved and ignored.
+bool action_code_listed(std::uint32_t code) {
+    static constexpr std::uint32_t listed[] = {0x0, 0x4, 0x5, 0x8, 0x9, 0xa, 0xc, 0xd};
+    return std::find(std::begin(listed), std::end(listed), code) != std::end(listed);
+}
+
 }  // namespace
 
-reference_timer::reference_timer(const timer_config& cfg, const sim::clock_domain& kernel,
+reference_timer::reference_timer(const timer_config& cfg, const sim::clock_domain& timer_clock,
                                  timer_observer* observer)
-    : cfg_(cfg), kernel_(kernel), observer_(observer), max_(cfg.counter_max()) {
+    : cfg_(cfg), clock_(timer_clock), observer_(observer), max_(cfg.counter_max()) {
     cfg_.validate();
     // Reset values: period = max, slope = both; everything else 0.
     period_written_ = period_ = max_;
@@ -52,8 +58,7 @@ std::uint32_t reference_timer::valid_flag_bits() const {
 
 void reference_timer::advance_to(time_ps t) {
     for (;;) {
-        const auto edge =
-            started_ ? kernel_.edge_after(last_tick_at_) : kernel_.edge_at_or_after(0);
+        const auto edge = started_ ? clock_.edge_after(last_tick_at_) : clock_.edge_at_or_after(0);
         if (!edge || edge->at > t) return;
         started_ = true;
         last_tick_at_ = edge->at;
@@ -62,7 +67,7 @@ void reference_timer::advance_to(time_ps t) {
 }
 
 bool reference_timer::next_event(time_ps& at) const {
-    const auto edge = started_ ? kernel_.edge_after(last_tick_at_) : kernel_.edge_at_or_after(0);
+    const auto edge = started_ ? clock_.edge_after(last_tick_at_) : clock_.edge_at_or_after(0);
     if (!edge) return false;
     at = edge->at;
     return true;
@@ -70,7 +75,7 @@ bool reference_timer::next_event(time_ps& at) const {
 
 void reference_timer::clock_changed(time_ps) {}
 
-// ---- one kernel tick ----
+// ---- one timer clock tick ----
 
 void reference_timer::tick(time_ps at) {
     ++ticks_;
@@ -109,12 +114,12 @@ void reference_timer::tick(time_ps at) {
     // 5. Wrap -> reload event (6. inside reload_event_from_wrap).
     if (wrapped) {
         ++wraps_;
-        if (!reload_disable_) {
-            if (repetition_count_ == 0) {
+        if (policy_ != reload_policy::held) {
+            if (skip_count_ == 0) {
                 reload_event_from_wrap(at);
-                repetition_count_ = repetition_;
+                skip_count_ = wrap_skip_;
             } else {
-                repetition_count_ -= 1;
+                skip_count_ -= 1;
             }
         }
     }
@@ -143,7 +148,7 @@ void reference_timer::tick(time_ps at) {
                 default:
                     break;
             }
-            if (trigger_select_ == 2 + i) send_trigger(at);
+            if (trigger_select_ == trigger_on_match(i)) send_trigger(at);
         }
     }
     // 8. Levels.
@@ -217,26 +222,26 @@ void reference_timer::load_shadows() {
         if (c.waiting) c.compare = c.compare_written;
         c.waiting = false;
     }
-    repetition_ = repetition_written_;
+    wrap_skip_ = wrap_skip_written_;
 }
 
 void reference_timer::reload_event_from_wrap(time_ps at) {
     ++reload_events_;
     load_shadows();
     set_flags(flag_reload, at);
-    if (trigger_select_ == 1) send_trigger(at);
+    if (trigger_select_ == trigger_on_reload) send_trigger(at);
     if (one_pulse_) enable_ = false;
 }
 
 void reference_timer::forced_reload(time_ps at) {
     ++reload_events_;
-    if (!reload_disable_) load_shadows();
+    if (policy_ != reload_policy::held) load_shadows();
     counter_ = mode_ == count_mode::down ? period_ : 0;
     if (mode_ == count_mode::center) down_ = false;
     pcount_ = 0;
-    repetition_count_ = repetition_;
-    if (flag_rule_ != reload_flag_rule::wrap_only && !reload_disable_) set_flags(flag_reload, at);
-    if (trigger_select_ == 1) send_trigger(at);
+    skip_count_ = wrap_skip_;
+    if (policy_ == reload_policy::every) set_flags(flag_reload, at);
+    if (trigger_select_ == trigger_on_reload) send_trigger(at);
 }
 
 // ---- levels and pins ----
@@ -379,11 +384,9 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
         case timer_field::period_preload:
             period_preload_ = bit;
             break;
-        case timer_field::reload_disable:
-            reload_disable_ = bit;
-            break;
-        case timer_field::reload_flag_rule:
-            if (value <= 1) flag_rule_ = static_cast<reload_flag_rule>(value);
+        case timer_field::reload_policy:
+            // 0 every, 1 quiet_forced, 2 held; 3 and above are reserved and ignored.
+            if (value <= 2) policy_ = static_cast<reload_policy>(value);
             break;
         case timer_field::force_reload:
             if (bit) forced_reload(t);
@@ -400,9 +403,8 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
         case timer_field::counter:
             counter_ = value & max_;
             break;
-        case timer_field::repetition:
-            if (cfg_.repetition_bits > 0)
-                repetition_written_ = mask_bits(value, cfg_.repetition_bits);
+        case timer_field::wrap_skip:
+            if (cfg_.wrap_skip_bits > 0) wrap_skip_written_ = mask_bits(value, cfg_.wrap_skip_bits);
             break;
         case timer_field::direction:
             break;  // read-only
@@ -424,7 +426,9 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             irq_enable_ = value & valid_flag_bits();
             break;
         case timer_field::trigger_select:
-            trigger_select_ = value;
+            // 0 none, 1 + c a channel the instance has, 7 the reload event; others ignored.
+            if (value == 0 || value == 7 || (value >= 1 && value <= cfg_.channels))
+                trigger_select_ = value;
             break;
         case timer_field::compare: {
             channel_state& c = channel_at(channel);
@@ -442,7 +446,8 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             channel_at(channel).compare_preload = bit;
             break;
         case timer_field::action:
-            if (value <= 7) channel_at(channel).action = static_cast<output_action>(value);
+            if (action_code_listed(value))
+                channel_at(channel).action = static_cast<output_action>(value);
             break;
         case timer_field::main_enable:
             channel_at(channel).main_enable = bit;
@@ -479,10 +484,8 @@ std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) 
             return one_pulse_;
         case timer_field::period_preload:
             return period_preload_;
-        case timer_field::reload_disable:
-            return reload_disable_;
-        case timer_field::reload_flag_rule:
-            return static_cast<std::uint32_t>(flag_rule_);
+        case timer_field::reload_policy:
+            return static_cast<std::uint32_t>(policy_);
         case timer_field::force_reload:
             return 0;
         case timer_field::prescaler:
@@ -491,8 +494,8 @@ std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) 
             return period_written_;
         case timer_field::counter:
             return counter_;
-        case timer_field::repetition:
-            return repetition_written_;
+        case timer_field::wrap_skip:
+            return wrap_skip_written_;
         case timer_field::direction:
             return down_ ? 1 : 0;
         case timer_field::dead_time:

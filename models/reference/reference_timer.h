@@ -2,7 +2,7 @@
 // The tick-exact reference timer: the test oracle for the fast timer model.
 //
 // This model implements docs/timer-model.md the slow and obvious way (DESIGN section 5): it keeps
-// every register and every piece of internal state, and advance_to() walks the kernel clock one
+// every register and every piece of internal state, and advance_to() walks the timer clock one
 // tick at a time, doing the numbered per-tick steps of the specification in their written order.
 // There is no cleverness here on purpose: when the fast model and this one disagree, this one
 // should be the easier to believe. It is slow; it is never linked into the product.
@@ -18,10 +18,11 @@ namespace models::reference {
 
 class reference_timer final : public models::timer_core_if {
 public:
-    // A timer of the given configuration counting the edges of `kernel`, reporting to `observer`
+    // A timer of the given configuration counting the edges of `timer_clock`, reporting to
+    // `observer`
     // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad
     // config.
-    reference_timer(const timer_config& cfg, const sim::clock_domain& kernel,
+    reference_timer(const timer_config& cfg, const sim::clock_domain& timer_clock,
                     timer_observer* observer);
 
     void advance_to(time_ps t) override;
@@ -29,8 +30,8 @@ public:
     std::uint32_t read(timer_field f, unsigned channel, time_ps t) override;
     void clear_flags(std::uint32_t mask, time_ps t) override;
     void set_fault_input(bool level, time_ps t) override;
-    // The next kernel tick (the reference has work at every tick), or false while the clock stays
-    // stopped.
+    // The next timer clock tick (the reference has work at every tick), or false while the clock
+    // stays stopped.
     bool next_event(time_ps& at) const override;
     // Nothing to do: the next tick is always asked of the domain.
     void clock_changed(time_ps t) override;
@@ -42,7 +43,7 @@ public:
     bool pin(unsigned p) const { return pins_.at(p); }
     // Current level of the interrupt request line.
     bool irq() const { return irq_; }
-    // Kernel ticks processed so far.
+    // Timer clock ticks processed so far.
     std::uint64_t ticks() const { return ticks_; }
     // Counter wraps so far (whether or not they caused a reload event).
     std::uint64_t wraps() const { return wraps_; }
@@ -70,7 +71,7 @@ private:
         std::uint32_t compare = 0;          // active value
         std::deque<pending_compare> pending;
         bool compare_preload = false;
-        output_action action = output_action::none;
+        output_action action = output_action::hold;
         bool main_enable = false, main_active_low = false;
         bool comp_enable = false, comp_active_low = false;
         bool main_safe_level = false, comp_safe_level = false;
@@ -78,7 +79,7 @@ private:
         output_state main_out, comp_out;
     };
 
-    // One kernel tick at time `at`: the numbered steps of the specification, in order.
+    // One timer clock tick at time `at`: the numbered steps of the specification, in order.
     void tick(time_ps at);
     // Step 4: move the counter by one step; clears `stepped` if nothing moved.
     void step_counter(bool& stepped, bool& wrapped, bool& slope_down);
@@ -106,7 +107,7 @@ private:
     std::uint32_t valid_flag_bits() const;
 
     timer_config cfg_;
-    const sim::clock_domain& kernel_;
+    const sim::clock_domain& clock_;
     timer_observer* observer_;
     std::uint32_t max_;
 
@@ -116,12 +117,11 @@ private:
     match_slope slope_ = match_slope::both;
     bool one_pulse_ = false;
     bool period_preload_ = false;
-    bool reload_disable_ = false;
-    reload_flag_rule flag_rule_ = reload_flag_rule::any;
+    reload_policy policy_ = reload_policy::every;
     std::uint32_t prescaler_written_ = 0, prescaler_ = 0;
     std::uint32_t period_written_ = 0, period_ = 0;
     bool period_waiting_ = false;  // written with preload on, not yet loaded
-    std::uint32_t repetition_written_ = 0, repetition_ = 0;
+    std::uint32_t wrap_skip_written_ = 0, wrap_skip_ = 0;
     std::uint32_t dead_time_ = 0;
     bool fault_enable_ = false;
     std::uint32_t fault_latency_ = 0;
@@ -134,7 +134,7 @@ private:
     std::uint64_t pcount_ = 0;
     std::uint32_t counter_ = 0;
     bool down_ = false;  // direction
-    std::uint32_t repetition_count_ = 0;
+    std::uint32_t skip_count_ = 0;
 
     // Fault state.
     bool fault_input_ = false;
@@ -146,7 +146,7 @@ private:
     std::array<bool, 2 * max_channels> pins_{};
     bool irq_ = false;
 
-    // Where the walk over the kernel ticks stands.
+    // Where the walk over the timer clock ticks stands.
     bool started_ = false;      // false until the first tick has been processed
     time_ps last_tick_at_ = 0;  // time of the last processed tick
 

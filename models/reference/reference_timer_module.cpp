@@ -6,7 +6,7 @@ namespace models::reference {
 
 reference_timer_module::reference_timer_module(sc_core::sc_module_name name,
                                                const timer_config& cfg,
-                                               const sim::clock_domain& kernel,
+                                               const sim::clock_domain& timer_clock,
                                                timer_observer* extra)
     : sc_core::sc_module(name),
       clock("clock"),
@@ -14,7 +14,7 @@ reference_timer_module::reference_timer_module(sc_core::sc_module_name name,
       irq("irq"),
       trigger_event("trigger_event"),
       observer_(*this, extra),
-      core_(cfg, kernel, &observer_) {
+      core_(cfg, timer_clock, &observer_) {
     if (sc_core::sc_get_time_resolution() != sc_core::sc_time(1, sc_core::SC_PS))
         throw std::logic_error("reference_timer_module: needs a 1 ps time resolution, found " +
                                sc_core::sc_get_time_resolution().to_string());

@@ -4,7 +4,7 @@
 //
 // It exists for the benchmark that compares the fast model with the per-tick style
 // (fast_vs_reference_speedup) and for test benches that want the reference on signals. Each
-// activation processes every tick of the kernel clock domain at or before the current time, so the
+// activation processes every tick of the timer clock domain at or before the current time, so the
 // reported times stay the domain's exact times even when the sc_clock driving the port is rounded
 // to the time resolution. The timing behaviour lives in reference_timer; this module only forwards.
 
@@ -20,7 +20,7 @@ namespace models::reference {
 
 class reference_timer_module : public sc_core::sc_module {
 public:
-    // The kernel clock, one activation per rising edge.
+    // The timer clock, one activation per rising edge.
     sc_core::sc_in<bool> clock;
     // Output pins, index main_pin(c) / comp_pin(c).
     sc_core::sc_vector<sc_core::sc_signal<bool>> pins;
@@ -30,11 +30,11 @@ public:
     sc_core::sc_event trigger_event;
 
     SC_HAS_PROCESS(reference_timer_module);
-    // A reference timer counting the edges of `kernel` (which must describe the clock driving the
-    // `clock` port and outlive the module). `extra` (may be null) also receives every report.
+    // A reference timer counting the edges of `timer_clock` (which must describe the clock driving
+    // the `clock` port and outlive the module). `extra` (may be null) also receives every report.
     // Requires the SystemC time resolution to be 1 ps; throws std::logic_error otherwise.
     reference_timer_module(sc_core::sc_module_name name, const timer_config& cfg,
-                           const sim::clock_domain& kernel, timer_observer* extra = nullptr);
+                           const sim::clock_domain& timer_clock, timer_observer* extra = nullptr);
 
     // Register access at the current simulation time, from a test-bench process.
     void write(timer_field f, unsigned channel, std::uint32_t value);

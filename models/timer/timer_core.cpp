@@ -5,9 +5,9 @@
 
 namespace models {
 
-timer_core::timer_core(const timer_config& cfg, const sim::clock_domain& kernel,
+timer_core::timer_core(const timer_config& cfg, const sim::clock_domain& timer_clock,
                        timer_observer* observer)
-    : cfg_(cfg), clock_(kernel), observer_(observer) {
+    : cfg_(cfg), clock_(timer_clock), observer_(observer) {
     cfg_.validate();
     max_ = cfg_.counter_max();
     period_ = period_shadow_ = max_;
@@ -21,7 +21,7 @@ std::optional<time_ps> timer_core::time_of_tick(std::uint64_t n) const {
     try {
         return clock_.time_of(n);
     } catch (const std::out_of_range&) {
-        return std::nullopt;  // the kernel clock is stopped for ever before tick n
+        return std::nullopt;  // the timer clock is stopped for ever before tick n
     } catch (const sim::time_limit_error&) {
         return std::nullopt;  // beyond the end of simulated time: nothing can be scheduled there
     }
@@ -172,23 +172,23 @@ void timer_core::load_shadows() {
         if (ch_[i].waiting) ch_[i].compare = ch_[i].compare_shadow;
         ch_[i].waiting = false;
     }
-    repetition_ = repetition_shadow_;
+    wrap_skip_ = wrap_skip_shadow_;
 }
 
 void timer_core::reload_event(bool from_wrap, time_ps at) {
     load_shadows();
-    if (from_wrap) repetition_count_ = repetition_;
-    if (from_wrap || flag_rule_ == reload_flag_rule::any) set_flags(flag_reload, at);
-    if (trigger_select_ == 1) trigger(at);
+    if (from_wrap) skip_count_ = wrap_skip_;
+    if (from_wrap || policy_ == reload_policy::every) set_flags(flag_reload, at);
+    if (trigger_select_ == trigger_on_reload) trigger(at);
     if (from_wrap && one_pulse_) enable_ = false;
 }
 
 void timer_core::on_wrap(time_ps at) {
-    if (reload_disable_) return;
-    if (repetition_count_ == 0)
+    if (policy_ == reload_policy::held) return;
+    if (skip_count_ == 0)
         reload_event(true, at);
     else
-        --repetition_count_;
+        --skip_count_;
 }
 
 bool timer_core::pwm_level(const channel& c) const {
@@ -334,7 +334,7 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
                 c.ref = false;
             else if (c.action == output_action::toggle_on_match)
                 c.ref = !c.ref;
-            if (trigger_select_ == 2 + i) trigger(at);
+            if (trigger_select_ == trigger_on_match(i)) trigger(at);
         }
     }
     evaluate_levels();
@@ -384,7 +384,7 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             enable_ = bit;
             break;
         case timer_field::mode:
-            if (v > 2) break;  // no meaning: ignored
+            if (!is_defined_value(cfg_, f, v)) break;  // reserved: ignored
             if (static_cast<count_mode>(v) != count_mode::center)
                 down_ = static_cast<count_mode>(v) == count_mode::down;
             else if (mode_ != count_mode::center)
@@ -392,7 +392,7 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             mode_ = static_cast<count_mode>(v);
             break;
         case timer_field::slope:
-            if (v <= 2) slope_ = static_cast<match_slope>(v);
+            if (is_defined_value(cfg_, f, v)) slope_ = static_cast<match_slope>(v);
             break;
         case timer_field::one_pulse:
             one_pulse_ = bit;
@@ -400,21 +400,18 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
         case timer_field::period_preload:
             period_preload_ = bit;
             break;
-        case timer_field::reload_disable:
-            reload_disable_ = bit;
-            break;
-        case timer_field::reload_flag_rule:
-            flag_rule_ = static_cast<reload_flag_rule>(v & 1u);
+        case timer_field::reload_policy:
+            if (is_defined_value(cfg_, f, v)) policy_ = static_cast<reload_policy>(v);
             break;
         case timer_field::force_reload:
             if (!bit) break;
-            if (!reload_disable_) load_shadows();
+            if (policy_ != reload_policy::held) load_shadows();
             counter_ = mode_ == count_mode::down ? period_ : 0;
             if (mode_ == count_mode::center) down_ = false;
             pcount_ = 0;
-            repetition_count_ = repetition_;
-            if (flag_rule_ == reload_flag_rule::any && !reload_disable_) set_flags(flag_reload, t);
-            if (trigger_select_ == 1) trigger(t);
+            skip_count_ = wrap_skip_;
+            if (policy_ == reload_policy::every) set_flags(flag_reload, t);
+            if (trigger_select_ == trigger_on_reload) trigger(t);
             break;
         case timer_field::prescaler: {
             const std::uint32_t mask =
@@ -431,9 +428,8 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
         case timer_field::counter:
             counter_ = v & max_;
             break;
-        case timer_field::repetition:
-            if (cfg_.repetition_bits > 0)
-                repetition_shadow_ = v & ((1u << cfg_.repetition_bits) - 1);
+        case timer_field::wrap_skip:
+            if (cfg_.wrap_skip_bits > 0) wrap_skip_shadow_ = v & ((1u << cfg_.wrap_skip_bits) - 1);
             break;
         case timer_field::direction:
             break;  // read-only
@@ -459,7 +455,7 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             break;
         }
         case timer_field::trigger_select:
-            trigger_select_ = v;
+            if (is_defined_value(cfg_, f, v)) trigger_select_ = v;
             break;
         default: {
             if (channel_index >= cfg_.channels) break;
@@ -479,7 +475,7 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
                     c.preload = bit;
                     break;
                 case timer_field::action:
-                    if (v <= 7) c.action = static_cast<output_action>(v);
+                    if (is_defined_value(cfg_, f, v)) c.action = static_cast<output_action>(v);
                     break;
                 case timer_field::main_enable:
                     c.main_enable = bit;
@@ -522,10 +518,8 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
             return one_pulse_;
         case timer_field::period_preload:
             return period_preload_;
-        case timer_field::reload_disable:
-            return reload_disable_;
-        case timer_field::reload_flag_rule:
-            return static_cast<std::uint32_t>(flag_rule_);
+        case timer_field::reload_policy:
+            return static_cast<std::uint32_t>(policy_);
         case timer_field::force_reload:
             return 0;
         case timer_field::prescaler:
@@ -534,8 +528,8 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
             return period_shadow_;
         case timer_field::counter:
             return counter_;
-        case timer_field::repetition:
-            return repetition_shadow_;
+        case timer_field::wrap_skip:
+            return wrap_skip_shadow_;
         case timer_field::direction:
             return mode_ == count_mode::down || (mode_ == count_mode::center && down_) ? 1 : 0;
         case timer_field::dead_time:

@@ -1,13 +1,13 @@
 #pragma once
 // The fast general-purpose timer: counters computed, not ticked (DESIGN section 4).
 //
-// The state is "after kernel tick n the counter held c, prescaler count p, direction d". Between
-// two instants that matter (a wrap, a step onto a compare value, a delayed compare or fault taking
-// effect, the end of a dead time) nothing observable happens, so the model jumps over those ticks
-// with arithmetic and processes only the instants that matter, each exactly as docs/timer-model.md
-// says. Cost is proportional to the events that matter, not to the clock frequency. The tick-exact
-// reference in models/reference/ implements the same page the slow way; the differential test holds
-// the two together.
+// The state is "after timer clock tick n the counter held c, prescaler count p, direction d".
+// Between two instants that matter (a wrap, a step onto a compare value, a delayed compare or fault
+// taking effect, the end of a dead time) nothing observable happens, so the model jumps over those
+// ticks with arithmetic and processes only the instants that matter, each exactly as
+// docs/timer-model.md says. Cost is proportional to the events that matter, not to the clock
+// frequency. The tick-exact reference in models/reference/ implements the same page the slow way;
+// the differential test holds the two together.
 
 #include "models/timer/timer_types.h"
 #include "sim/clock_domain.h"
@@ -21,10 +21,11 @@ namespace models {
 
 class timer_core final : public timer_core_if {
 public:
-    // A timer of the given configuration counting edges of `kernel`, reporting to `observer`
+    // A timer of the given configuration counting edges of `timer_clock`, reporting to `observer`
     // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad
     // config.
-    timer_core(const timer_config& cfg, const sim::clock_domain& kernel, timer_observer* observer);
+    timer_core(const timer_config& cfg, const sim::clock_domain& timer_clock,
+               timer_observer* observer);
 
     void advance_to(time_ps t) override;
     void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) override;
@@ -38,7 +39,8 @@ public:
     // Current pin level (after everything up to the last call's time).
     bool pin(unsigned p) const { return pins_[p].level; }
     bool irq() const { return irq_; }
-    // Number of kernel ticks processed one by one (instants that mattered); the rest were skipped.
+    // Number of timer clock ticks processed one by one (instants that mattered); the rest were
+    // skipped.
     std::uint64_t ticks_processed() const { return ticks_processed_; }
 
 private:
@@ -55,7 +57,7 @@ private:
         std::deque<pending_compare> pending;
         bool preload = false;
         bool waiting = false;  // written with preload on, not loaded yet
-        output_action action = output_action::none;
+        output_action action = output_action::hold;
         bool ref = false;
         bool main_enable = false, main_active_low = false;
         bool comp_enable = false, comp_active_low = false;
@@ -114,12 +116,12 @@ private:
     bool enable_ = false;
     count_mode mode_ = count_mode::up;
     match_slope slope_ = match_slope::both;
-    bool one_pulse_ = false, period_preload_ = false, reload_disable_ = false;
-    reload_flag_rule flag_rule_ = reload_flag_rule::any;
+    bool one_pulse_ = false, period_preload_ = false;
+    reload_policy policy_ = reload_policy::every;
     std::uint32_t prescaler_shadow_ = 0, prescaler_ = 0;
     std::uint32_t period_shadow_ = 0, period_ = 0;
     bool period_waiting_ = false;
-    std::uint32_t repetition_shadow_ = 0, repetition_ = 0;
+    std::uint32_t wrap_skip_shadow_ = 0, wrap_skip_ = 0;
     std::uint32_t dead_time_ = 0;
     bool fault_enable_ = false;
     std::uint32_t fault_latency_ = 0;
@@ -131,7 +133,7 @@ private:
     std::uint32_t counter_ = 0;
     bool down_ = false;
     std::uint64_t pcount_ = 0;
-    std::uint32_t repetition_count_ = 0;
+    std::uint32_t skip_count_ = 0;
 
     // Fault.
     bool fault_input_ = false, fault_active_ = false;

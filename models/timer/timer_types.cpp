@@ -16,10 +16,8 @@ const char* to_string(timer_field f) {
             return "one_pulse";
         case timer_field::period_preload:
             return "period_preload";
-        case timer_field::reload_disable:
-            return "reload_disable";
-        case timer_field::reload_flag_rule:
-            return "reload_flag_rule";
+        case timer_field::reload_policy:
+            return "reload_policy";
         case timer_field::force_reload:
             return "force_reload";
         case timer_field::prescaler:
@@ -28,8 +26,8 @@ const char* to_string(timer_field f) {
             return "period";
         case timer_field::counter:
             return "counter";
-        case timer_field::repetition:
-            return "repetition";
+        case timer_field::wrap_skip:
+            return "wrap_skip";
         case timer_field::direction:
             return "direction";
         case timer_field::dead_time:
@@ -78,10 +76,38 @@ void timer_config::validate() const {
         bad("channels " + std::to_string(channels) + "; accepted: 1 to 6");
     if (prescaler_bits < 1 || prescaler_bits > 32)
         bad("prescaler width " + std::to_string(prescaler_bits) + " bits; accepted: 1 to 32");
-    if (repetition_bits > 16)
-        bad("repetition width " + std::to_string(repetition_bits) + " bits; accepted: 0 to 16");
+    if (wrap_skip_bits > 16)
+        bad("wrap skip width " + std::to_string(wrap_skip_bits) + " bits; accepted: 0 to 16");
     if (compare_latency > 2)
         bad("compare latency " + std::to_string(compare_latency) + " ticks; accepted: 0 to 2");
+}
+
+bool is_defined_value(const timer_config& cfg, timer_field f, std::uint32_t value) {
+    switch (f) {
+        case timer_field::mode:
+        case timer_field::slope:
+            return value <= 2;
+        case timer_field::reload_policy:
+            return value <= static_cast<std::uint32_t>(reload_policy::held);
+        case timer_field::trigger_select:
+            return value == trigger_none || value == trigger_on_reload ||
+                   (value >= trigger_on_match(0) && value < trigger_on_match(cfg.channels));
+        case timer_field::action:
+            switch (static_cast<output_action>(value)) {
+                case output_action::hold:
+                case output_action::pwm_below:
+                case output_action::pwm_at_or_above:
+                case output_action::toggle_on_match:
+                case output_action::set_on_match:
+                case output_action::clear_on_match:
+                case output_action::force_low:
+                case output_action::force_high:
+                    return true;
+            }
+            return false;
+        default:
+            return true;
+    }
 }
 
 }  // namespace models

@@ -20,42 +20,54 @@ using sim::time_ps;
 enum class count_mode : std::uint32_t { up = 0, down = 1, center = 2 };
 // In center mode, which slope raises channel matches: the rising slope, the falling one, or both.
 enum class match_slope : std::uint32_t { up = 0, down = 1, both = 2 };
-// What a compare channel does with its output level.
+
+// What a compare channel does with its output level. The value is a 4-bit code of our own: a kind
+// in bits 2..3 (0 hold, 1 PWM, 2 on match, 3 forced) and a variant in bits 0..1. Codes not listed
+// are reserved (docs/timer-model.md, "Out-of-range writes").
 enum class output_action : std::uint32_t {
-    none = 0,             // level frozen
-    set_on_match = 1,     // goes active on a match
-    clear_on_match = 2,   // goes inactive on a match
-    toggle_on_match = 3,  // flips on a match
-    force_low = 4,        // inactive now and stays
-    force_high = 5,       // active now and stays
-    pwm_below = 6,        // active while counter < compare
-    pwm_at_or_above = 7,  // active while counter >= compare
+    hold = 0x0,             // level frozen where it was last set
+    pwm_below = 0x4,        // active while counter < compare
+    pwm_at_or_above = 0x5,  // active while counter >= compare
+    toggle_on_match = 0x8,  // flips on a match
+    set_on_match = 0x9,     // goes active on a match
+    clear_on_match = 0xa,   // goes inactive on a match
+    force_low = 0xc,        // inactive now and stays
+    force_high = 0xd,       // active now and stays
 };
-// What raises the reload flag: any reload event (including a forced one), or only a wrap.
-enum class reload_flag_rule : std::uint32_t { any = 0, wrap_only = 1 };
+// What a wrap and a forced reload do.
+enum class reload_policy : std::uint32_t {
+    every = 0,         // every wrap (after the wrap skip) and every forced reload is a reload
+                       // event that sets the reload flag
+    quiet_forced = 1,  // as `every`, but a forced reload sets no reload flag
+    held = 2,          // wraps cause no reload event; a forced reload moves the counter only
+};
+// Values of `trigger_select`: what sends a trigger pulse.
+inline constexpr std::uint32_t trigger_none = 0;
+// Channel c's match sends the trigger pulse.
+inline constexpr std::uint32_t trigger_on_match(unsigned c) { return 1 + c; }
+inline constexpr std::uint32_t trigger_on_reload = 7;
 
 // Functional fields. Per-channel fields take the channel index (0-based) as a second argument.
 enum class timer_field : std::uint32_t {
-    enable,            // 1: counting
-    mode,              // count_mode
-    slope,             // match_slope (center mode)
-    one_pulse,         // 1: counting stops at the next reload event caused by a wrap
-    period_preload,    // 1: period writes wait for the next reload event
-    reload_disable,    // 1: wraps cause no reload event
-    reload_flag_rule,  // reload_flag_rule
-    force_reload,      // write 1: forced reload event now (reads 0)
-    prescaler,         // counter steps every (prescaler + 1) kernel ticks
-    period,            // counter turning value
-    counter,           // the counter; reads give the value now
-    repetition,        // a reload event every (repetition + 1) wraps
-    direction,         // read-only: 0 counting up, 1 counting down
-    dead_time,         // kernel ticks between one output falling and the other rising
-    fault_enable,      // 1: the fault input forces the safe levels
-    fault_latency,     // kernel ticks from a fault input rising to the outputs forced
-    rearm,             // write 1: leave the fault state (if the fault input is low)
-    flags,             // bit 0 reload, bit 1+c channel c match, bit 7 fault
-    irq_enable,        // same bits: which flags raise the interrupt request
-    trigger_select,    // 0 none, 1 reload event, 2 + c: channel c match
+    enable,          // 1: counting
+    mode,            // count_mode
+    slope,           // match_slope (center mode)
+    one_pulse,       // 1: counting stops at the next reload event caused by a wrap
+    period_preload,  // 1: period writes wait for the next reload event
+    reload_policy,   // reload_policy
+    force_reload,    // write 1: forced reload event now (reads 0)
+    prescaler,       // counter steps every (prescaler + 1) timer clock ticks
+    period,          // counter turning value
+    counter,         // the counter; reads give the value now
+    wrap_skip,       // wraps skipped between reload events: a reload event every (wrap_skip + 1)
+    direction,       // read-only: 0 counting up, 1 counting down
+    dead_time,       // timer clock ticks between one output falling and the other rising
+    fault_enable,    // 1: the fault input forces the safe levels
+    fault_latency,   // timer clock ticks from a fault input rising to the outputs forced
+    rearm,           // write 1: leave the fault state (if the fault input is low)
+    flags,           // flag bits (flag_channel, flag_reload, flag_fault)
+    irq_enable,      // same bits: which flags raise the interrupt request
+    trigger_select,  // trigger_none, trigger_on_match(c) or trigger_on_reload
     // per channel
     compare,          // compare value
     compare_preload,  // 1: compare writes wait for the next reload event
@@ -72,21 +84,21 @@ const char* to_string(timer_field f);
 // Whether the field is indexed by channel.
 bool is_channel_field(timer_field f);
 
-// Flag bits.
-inline constexpr std::uint32_t flag_reload = 1u << 0;
-inline constexpr std::uint32_t flag_channel(unsigned c) { return 1u << (1 + c); }
-inline constexpr std::uint32_t flag_fault = 1u << 7;
+// Flag bits: channel c's match at bit c, the reload event at bit 8, the fault at bit 9.
+inline constexpr std::uint32_t flag_channel(unsigned c) { return 1u << c; }
+inline constexpr std::uint32_t flag_reload = 1u << 8;
+inline constexpr std::uint32_t flag_fault = 1u << 9;
 
 // What one timer instance has: fixed by the part, not by firmware.
 struct timer_config {
     unsigned counter_bits = 16;      // 8..32
     unsigned channels = 4;           // 1..6
     unsigned prescaler_bits = 16;    // width of the prescaler register
-    unsigned repetition_bits = 8;    // 0: no repetition counter
+    unsigned wrap_skip_bits = 8;     // width of the wrap skip count; 0: none
     bool prescaler_shadowed = true;  // prescaler writes wait for the next reload event
     bool complementary = false;      // complementary outputs, dead time and fault input
-    unsigned dead_time_max = 1023;   // largest dead time in kernel ticks
-    unsigned compare_latency = 0;    // 0..2 kernel ticks before a compare write takes effect
+    unsigned dead_time_max = 1023;   // largest dead time in timer clock ticks
+    unsigned compare_latency = 0;    // 0..2 timer clock ticks before a compare write acts
     // Throws std::invalid_argument naming the first out-of-range value.
     void validate() const;
     std::uint32_t counter_max() const {
@@ -94,11 +106,16 @@ struct timer_config {
     }
 };
 
+// Whether a write of `value` to field f means something in this instance. Enumerated fields (mode,
+// slope, reload_policy, action, trigger_select) have reserved values, which both models ignore
+// (docs/timer-model.md, "Out-of-range writes"); every other field takes any value.
+bool is_defined_value(const timer_config& cfg, timer_field f, std::uint32_t value);
+
 // Output pins: 2c is channel c's main output, 2c + 1 its complementary output.
 inline constexpr unsigned main_pin(unsigned c) { return 2 * c; }
 inline constexpr unsigned comp_pin(unsigned c) { return 2 * c + 1; }
 
-// What a timer model reports as it runs. All times are exact kernel times.
+// What a timer model reports as it runs. All times are exact simulation times in picoseconds.
 class timer_observer {
 public:
     virtual ~timer_observer() = default;
@@ -113,8 +130,8 @@ public:
 };
 
 // The plain C++ interface both timer models implement; the SystemC shell and the tests drive it.
-// Calls come in non-decreasing time. A write or read at time t sees every kernel tick at or before
-// t as already happened.
+// Calls come in non-decreasing time. A write or read at time t sees every timer clock tick at or
+// before t as already happened.
 class timer_core_if {
 public:
     virtual ~timer_core_if() = default;
@@ -130,7 +147,7 @@ public:
     virtual void set_fault_input(bool level, time_ps t) = 0;
     // The earliest time something may happen that was not yet processed, or none.
     virtual bool next_event(time_ps& at) const = 0;
-    // The kernel clock's timeline changed from time t on (the clock tree rebuilt it).
+    // The timer clock's timeline changed from time t on (the clock tree rebuilt it).
     virtual void clock_changed(time_ps t) = 0;
 };
 

@@ -12,6 +12,7 @@
 //   duties to a 3-channel 25 kHz PWM on the 16-bit timer (preloaded compares); median of several
 //   runs.
 
+#include "examples/parts/demo_timers.h"
 #include "harness/platform.h"
 #include "models/layout/register_layout.h"
 #include "tests/bench/isolated_run.h"
@@ -31,15 +32,6 @@ using clock_type = std::chrono::steady_clock;
 constexpr std::uint32_t tick_base = 0x4000'0000;
 constexpr std::uint32_t pwm_base = 0x4000'1000;
 constexpr std::uint64_t cpu_hz = 72'000'000;
-
-// Register offsets of the two layouts (models/layouts/timer32_dual.toml, timer16_quad.toml).
-namespace tick_reg {
-constexpr std::uint32_t setup = 0x00, outputs = 0x08, alerts = 0x0c, take = 0x14, limit = 0x1c;
-}
-namespace pwm_reg {
-constexpr std::uint32_t count = 0x00, limit = 0x02, match_a = 0x08, run = 0x10, shape_ab = 0x14,
-                        shape_cd = 0x16;
-}
 
 double seconds_since(clock_type::time_point t0) {
     return std::chrono::duration<double>(clock_type::now() - t0).count();
@@ -81,8 +73,8 @@ void build_part(harness::platform& p, std::function<void()> entry, bool map_peri
 
 // The 16-bit counter free-running at the CPU clock, no interrupt enabled.
 void start_free_running_counter() {
-    tick_write16(pwm_base + pwm_reg::limit, 0xffff);
-    tick_write16(pwm_base + pwm_reg::run, 1);
+    tick_write16(pwm_base + Q16_LIMIT, 0xffff);
+    tick_write16(pwm_base + Q16_RUN, Q16_RUN_ENABLE);
 }
 
 // Wall ns per read of the counter through the C API, `reads` reads. Child process only.
@@ -95,7 +87,7 @@ double api_read_ns(long reads) {
         start_free_running_counter();
         std::uint32_t sum = 0;
         const auto t0 = clock_type::now();
-        for (long i = 0; i < count; ++i) sum += tick_read16(pwm_base + pwm_reg::count);
+        for (long i = 0; i < count; ++i) sum += tick_read16(pwm_base + Q16_COUNT);
         result = seconds_since(t0) * 1e9 / static_cast<double>(count);
         benchmark::DoNotOptimize(sum);
     });
@@ -114,7 +106,7 @@ double trapped_read_us(long reads) {
         [] {
             start_free_running_counter();
             const auto* counter = reinterpret_cast<const volatile std::uint16_t*>(
-                std::uintptr_t{pwm_base + pwm_reg::count});
+                std::uintptr_t{pwm_base + Q16_COUNT});
             std::uint32_t sum = 0;
             const auto t0 = clock_type::now();
             for (long i = 0; i < count; ++i) sum += *counter;
@@ -132,32 +124,32 @@ constexpr std::uint32_t pwm_period = cpu_hz / 25'000;
 std::uint32_t ticks;
 
 void on_tick() {
-    (void)tick_read32(tick_base + tick_reg::take);
+    (void)tick_read32(tick_base + D32_TAKE);
     ++ticks;
     for (std::uint32_t c = 0; c < 3; ++c) {
         const std::uint32_t duty = (ticks * 7 + c * pwm_period / 3) % pwm_period;
-        tick_write16(pwm_base + pwm_reg::match_a + 2 * c, static_cast<std::uint16_t>(duty));
+        tick_write16(pwm_base + Q16_MATCH(c), static_cast<std::uint16_t>(duty));
     }
 }
 
 void tick_and_pwm_firmware() {
     // PWM: up counting, channels 0..2 active below their compare, compare preload on.
-    tick_write16(pwm_base + pwm_reg::limit, pwm_period - 1);
+    tick_write16(pwm_base + Q16_LIMIT, pwm_period - 1);
     for (std::uint32_t c = 0; c < 3; ++c)
-        tick_write16(pwm_base + pwm_reg::match_a + 2 * c,
-                     static_cast<std::uint16_t>(pwm_period * (c + 1) / 4));
-    constexpr std::uint16_t shape =
-        6 | 1 << 3 | 1 << 4;  // pwm_below, compare preload, main output on
-    tick_write16(pwm_base + pwm_reg::shape_ab, shape | shape << 8);
-    tick_write16(pwm_base + pwm_reg::shape_cd, shape);
-    tick_write16(pwm_base + pwm_reg::run, 1);
+        tick_write16(pwm_base + Q16_MATCH(c), static_cast<std::uint16_t>(pwm_period * (c + 1) / 4));
+    tick_write8(pwm_base + Q16_PRELOAD,
+                Q16_PRELOAD_COMPARE(0) | Q16_PRELOAD_COMPARE(1) | Q16_PRELOAD_COMPARE(2));
+    constexpr unsigned shape = Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) | Q16_SHAPE_MAIN_ENABLE;
+    tick_write16(pwm_base + Q16_SHAPE_AB, Q16_SHAPE_BYTE(0, shape) | Q16_SHAPE_BYTE(1, shape));
+    tick_write16(pwm_base + Q16_SHAPE_CD, Q16_SHAPE_BYTE(2, shape));
+    tick_write16(pwm_base + Q16_RUN, Q16_RUN_ENABLE);
     // Tick: reload at 1 kHz, reload interrupt on.
     const int line = tick_irq_line("tick");
     tick_irq_set_handler(static_cast<unsigned>(line), on_tick);
-    tick_write32(tick_base + tick_reg::limit, cpu_hz / 1000 - 1);
-    tick_write32(tick_base + tick_reg::alerts, 1);
+    tick_write32(tick_base + D32_LIMIT, cpu_hz / 1000 - 1);
+    tick_write32(tick_base + D32_ALERTS, DEMO_FLAG_RELOAD);
     tick_irq_line_enable(static_cast<unsigned>(line));
-    tick_write32(tick_base + tick_reg::setup, 1);
+    tick_write32(tick_base + D32_SETUP, D32_SETUP_ENABLE);
     for (;;) tick_wait_for_interrupt();
 }
 

@@ -18,11 +18,11 @@ inline models::timer_config pwm_config() {
     return cfg;
 }
 
-// Programs the PWM for a kernel clock of `kernel_hz` through `write(field, channel, value)`.
+// Programs the PWM for a timer clock of `clock_hz` through `write(field, channel, value)`.
 template <typename Write>
-void program_pwm(std::uint64_t kernel_hz, Write write) {
+void program_pwm(std::uint64_t clock_hz, Write write) {
     using models::timer_field;
-    const auto period = static_cast<std::uint32_t>(kernel_hz / pwm_hz);  // ticks per period
+    const auto period = static_cast<std::uint32_t>(clock_hz / pwm_hz);  // ticks per period
     write(timer_field::period, 0, period - 1);
     for (unsigned c = 0; c < 3; ++c) {
         write(timer_field::compare, c, period * (c + 1) / 4);

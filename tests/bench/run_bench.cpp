@@ -43,9 +43,9 @@ double probed_pwm(sim::signal_sink& sink, sim::time_ps simulated) {
     sim::clock_tree tree;
     sim::crystal_params x;
     x.nominal = sim::frequency::hz(hz);
-    tree.add_crystal("kernel", x);
+    tree.add_crystal("timer_clock", x);
     const models::timer_config cfg = bench::pwm_config();
-    models::timer_module timer("pwm", cfg, tree, "kernel");
+    models::timer_module timer("pwm", cfg, tree, "timer_clock");
     models::timer_probe probe("pwm", cfg, sink, 0);
     timer.add_observer(&probe);
     tree.start();

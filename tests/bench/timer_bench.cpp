@@ -4,10 +4,10 @@
 // fan controller runs. Every SystemC workload runs in a child process of its own (isolated_run.h).
 //
 // - fast_vs_reference_speedup: wall time of the tick-exact reference driven by an sc_clock (one
-//   method activation per kernel tick, the way timer models are usually written in SystemC) over
-//   the fast model in its module, both on 0.2 s simulated at a 48 MHz kernel clock.
+//   method activation per timer clock tick, the way timer models are usually written in SystemC)
+//   over the fast model in its module, both on 0.2 s simulated at a 48 MHz timer clock.
 // - clock_independence_spread: the fast model's wall time for the same PWM at 1 MHz, 48 MHz and
-//   1 GHz kernel clocks; slowest over fastest.
+//   1 GHz timer clocks; slowest over fastest.
 // - edges_per_second: output edges per wall second from the fast model in its module, no tracing.
 //
 // The fast model's pins go to an observer, not to sc_signals, so its module asks nothing of the
@@ -52,13 +52,13 @@ struct fast_result {
     std::uint64_t edges;
 };
 
-// The fast model in its SystemC module, kernel clock `hz`, for `simulated` ps. Child process only.
+// The fast model in its SystemC module, timer clock `hz`, for `simulated` ps. Child process only.
 fast_result fast_pwm(std::uint64_t hz, sim::time_ps simulated) {
     sim::clock_tree tree;
     sim::crystal_params x;
     x.nominal = sim::frequency::hz(hz);
-    tree.add_crystal("kernel", x);
-    models::timer_module timer("pwm", pwm_config(), tree, "kernel");
+    tree.add_crystal("timer_clock", x);
+    models::timer_module timer("pwm", pwm_config(), tree, "timer_clock");
     edge_counter counter;
     timer.add_observer(&counter);
     tree.start();
@@ -75,9 +75,9 @@ fast_result fast_pwm(std::uint64_t hz, sim::time_ps simulated) {
 
 // The reference, one activation per edge of an sc_clock at `hz`. Child process only.
 double reference_pwm(std::uint64_t hz, sim::time_ps simulated) {
-    sim::clock_domain kernel(sim::frequency::hz(hz));
+    sim::clock_domain timer_clock(sim::frequency::hz(hz));
     sc_core::sc_clock clk("clk", sc_core::sc_time::from_value(sim::ps_per_second / hz));
-    models::reference::reference_timer_module timer("reference", pwm_config(), kernel);
+    models::reference::reference_timer_module timer("reference", pwm_config(), timer_clock);
     timer.clock(clk);
     program_pwm(
         hz, [&](timer_field f, unsigned c, std::uint32_t v) { timer.core().write(f, c, v, 0); });

@@ -135,7 +135,7 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
         // 1: read "count" of timer_b, after waiting 1 us.
         sc_core::wait(1000 * ns);
         core_b.set(timer_field::counter, 0, 0xcafe'f00d);
-        r.push_back(self.access(TLM_READ_COMMAND, base_b + 0x18, 4, 0, 3 * ns));
+        r.push_back(self.access(TLM_READ_COMMAND, base_b + 0x00, 4, 0, 3 * ns));
         // 2-4: unmapped address under each policy.
         r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x800, 4, 0));
         logs.push_back(take_log());
@@ -197,11 +197,11 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
     EXPECT_EQ(logs[1],
               "warning read of 4 bytes at 0x40000800 hits no peripheral; nearest register: "
               "status_clear of "
-              "timer_a, 0x7dd bytes above it; at 1000000 ps\n");
+              "timer_a, 0x7df bytes above it; at 1000000 ps\n");
     // error: an address error and an error message.
     EXPECT_EQ(r[4].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
     EXPECT_EQ(logs[2],
-              "error write of 4 bytes at 0x40000ffc hits no peripheral; nearest register: setup of "
+              "error write of 4 bytes at 0x40000ffc hits no peripheral; nearest register: count of "
               "timer_b, "
               "0x4 bytes below it; at 1007000 ps\n");
     // A reserved location inside a window, found by the register file under its own policy.
@@ -209,7 +209,7 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
     EXPECT_NE(
         logs[3].find(
             "error read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest "
-            "register: status_clear of timer_a, 0x1 byte above it; at 1000000 ps"),
+            "register: status_clear of timer_a, 0x3 bytes above it; at 1000000 ps"),
         std::string::npos)
         << logs[3];
 
@@ -228,7 +228,7 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
         EXPECT_NE(c.field, timer_field::enable);
         EXPECT_NE(c.field, timer_field::mode);
     }
-    EXPECT_EQ(core_a.value(timer_field::period_preload), 1u);
+    EXPECT_EQ(core_a.value(timer_field::reload_policy), 1u);
     EXPECT_EQ(core_a.value(timer_field::trigger_select), 2u);
 
     EXPECT_FALSE(dmi);

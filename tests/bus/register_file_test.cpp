@@ -48,18 +48,16 @@ struct dual_fixture : ::testing::Test {
 };
 
 TEST_F(quad_fixture, a_full_write_becomes_field_writes_in_bit_order) {
-    // run: enable 0, one_pulse 1, mode 2..3, slope 4..5, direction 6 (read-only), period_preload 8,
-    // reload_disable 9, reload_flag_rule 10, trigger_select 12..14.
-    regs.write(0x10, 2, 0b0011'0111'0010'1001, 500);
+    // run: enable 0, mode 1..2, slope 3..4, one_pulse 5, direction 7 (read-only), reload_policy
+    // 8..9, trigger_select 12..14.
+    regs.write(0x10, 2, 0b0011'0001'1001'0101, 500);
     using c = recording_timer_core::call;
     const std::vector<c> expected = {
         {kind::write, timer_field::enable, 0, 1, 500},
-        {kind::write, timer_field::one_pulse, 0, 0, 500},
         {kind::write, timer_field::mode, 0, 2, 500},
         {kind::write, timer_field::slope, 0, 2, 500},
-        {kind::write, timer_field::period_preload, 0, 1, 500},
-        {kind::write, timer_field::reload_disable, 0, 1, 500},
-        {kind::write, timer_field::reload_flag_rule, 0, 1, 500},
+        {kind::write, timer_field::one_pulse, 0, 0, 500},
+        {kind::write, timer_field::reload_policy, 0, 1, 500},
         {kind::write, timer_field::trigger_select, 0, 3, 500},
     };
     EXPECT_EQ(core.calls, expected);
@@ -67,23 +65,24 @@ TEST_F(quad_fixture, a_full_write_becomes_field_writes_in_bit_order) {
 
 TEST_F(quad_fixture, a_byte_write_touches_only_the_fields_in_that_byte) {
     core.set(timer_field::enable, 0, 1);
-    regs.write(0x11, 1, 0x21, 7);  // byte 1 of "run": period_preload = 1, trigger_select = 2
+    regs.write(0x11, 1, 0x21, 7);  // byte 1 of "run": reload_policy = 1, trigger_select = 2
     ASSERT_EQ(core.of(kind::read).size(), 0u);  // no read-modify-write of the other byte
     const auto w = core.of(kind::write);
-    ASSERT_EQ(w.size(), 4u);
-    EXPECT_EQ(w[0].field, timer_field::period_preload);
+    ASSERT_EQ(w.size(), 2u);
+    EXPECT_EQ(w[0].field, timer_field::reload_policy);
     EXPECT_EQ(w[0].value, 1u);
-    EXPECT_EQ(w[3].field, timer_field::trigger_select);
-    EXPECT_EQ(w[3].value, 2u);
+    EXPECT_EQ(w[1].field, timer_field::trigger_select);
+    EXPECT_EQ(w[1].value, 2u);
     EXPECT_EQ(core.value(timer_field::enable), 1u);
 
     core.calls.clear();
-    regs.write(0x15, 1, 0x1e, 8);  // byte 1 of "shape_ab": channel 1 only
+    regs.write(0x15, 1, 0x54, 8);  // byte 1 of "shape_ab": channel 1 only
     for (const auto& c : core.calls) EXPECT_EQ(c.channel, 1u);
-    EXPECT_EQ(core.value(timer_field::action, 1), 6u);
-    EXPECT_EQ(core.value(timer_field::compare_preload, 1), 1u);
+    EXPECT_EQ(core.value(timer_field::action, 1), 4u);
     EXPECT_EQ(core.value(timer_field::main_enable, 1), 1u);
-    EXPECT_EQ(core.calls.size(), 6u);
+    EXPECT_EQ(core.value(timer_field::comp_enable, 1), 0u);
+    EXPECT_EQ(core.value(timer_field::main_active_low, 1), 1u);
+    EXPECT_EQ(core.calls.size(), 5u);
 }
 
 TEST_F(quad_fixture, a_field_covered_in_part_is_merged_with_the_model_value) {
@@ -109,20 +108,20 @@ TEST_F(quad_fixture, reads_compose_fields_and_leave_reserved_bits_zero) {
     core.set(timer_field::slope, 0, 2);
     core.set(timer_field::direction, 0, 1);
     core.set(timer_field::trigger_select, 0, 5);
-    EXPECT_EQ(read(0x10, 2), 0x5061u);
-    EXPECT_EQ(read(0x10, 1), 0x61u);
+    EXPECT_EQ(read(0x10, 2), 0x5091u);
+    EXPECT_EQ(read(0x10, 1), 0x91u);
     EXPECT_EQ(read(0x11, 1), 0x50u);
-    // Writing every bit sets no reserved bit (7, 11, 15) and the read-only direction is not
+    // Writing every bit sets no reserved bit (6, 10, 11, 15) and the read-only direction is not
     // written.
     core.calls.clear();
     regs.write(0x10, 2, 0xffff, 11);
     for (const auto& c : core.calls) EXPECT_NE(c.field, timer_field::direction);
-    EXPECT_EQ(read(0x10, 2) & 0x8880u, 0u);
-    // The 8-bit "repeat" register and its reserved neighbour byte, read as one halfword.
-    core.set(timer_field::repetition, 0, 0x42);
+    EXPECT_EQ(read(0x10, 2) & 0x8c40u, 0u);
+    // The 8-bit "skip" register and its reserved neighbour byte, read as one halfword.
+    core.set(timer_field::wrap_skip, 0, 0x42);
     EXPECT_EQ(read(0x06, 2), 0x42u);
     regs.write(0x06, 2, 0xff07, 12);
-    EXPECT_EQ(core.value(timer_field::repetition), 7u);
+    EXPECT_EQ(core.value(timer_field::wrap_skip), 7u);
 }
 
 TEST_F(quad_fixture, write_only_fields_read_zero_and_act_on_write) {
@@ -137,32 +136,32 @@ TEST_F(quad_fixture, write_only_fields_read_zero_and_act_on_write) {
 }
 
 TEST_F(quad_fixture, flags_read_only_and_write_one_to_clear) {
-    core.set(timer_field::flags, 0, 0x85);  // fault, channel 1, reload
-    EXPECT_EQ(read(0x20, 2), 0x8005u);
-    EXPECT_EQ(read(0x22, 2), 0x8005u);  // the clear register reads the flags too
+    core.set(timer_field::flags, 0, 0x306);  // fault, reload, channels 1 and 2
+    EXPECT_EQ(read(0x1e, 2), 0x0306u);
+    EXPECT_EQ(read(0x20, 2), 0x0306u);  // the clear register reads the flags too
     core.calls.clear();
-    regs.write(0x20, 2, 0xffff, 30);  // read-only status: ignored
+    regs.write(0x1e, 2, 0xffff, 30);  // read-only status: ignored
     EXPECT_TRUE(core.calls.empty());
-    regs.write(0x22, 2, 0x8001, 31);
+    regs.write(0x20, 2, 0x0202, 31);
     const std::vector<recording_timer_core::call> expected = {
-        {kind::clear, timer_field::flags, 0, 0x01, 31},
-        {kind::clear, timer_field::flags, 0, 0x80, 31},
+        {kind::clear, timer_field::flags, 0, 0x002, 31},
+        {kind::clear, timer_field::flags, 0, 0x200, 31},
     };
     EXPECT_EQ(core.calls, expected);
-    EXPECT_EQ(core.value(timer_field::flags), 0x04u);
+    EXPECT_EQ(core.value(timer_field::flags), 0x104u);
     core.calls.clear();
-    regs.write(0x22, 2, 0, 32);  // zeros clear nothing
+    regs.write(0x20, 2, 0, 32);  // zeros clear nothing
     EXPECT_TRUE(core.calls.empty());
-    regs.write(0x23, 1, 0x80, 33);  // the high byte alone reaches only the fault flag
+    regs.write(0x21, 1, 0x01, 33);  // the high byte alone reaches only the reload and fault flags
     ASSERT_EQ(core.calls.size(), 1u);
-    EXPECT_EQ(core.calls[0].value, 0x80u);
+    EXPECT_EQ(core.calls[0].value, 0x100u);
 }
 
 TEST_F(quad_fixture, a_value_split_over_fields_is_merged) {
     core.set(timer_field::irq_enable, 0, 0x06);
-    regs.write(0x1c, 2, 0x8001, 40);  // notify: bits 0..4 and bit 15 -> value bit 7
-    EXPECT_EQ(core.value(timer_field::irq_enable), 0x81u);
-    EXPECT_EQ(read(0x1c, 2), 0x8001u);
+    regs.write(0x1c, 2, 0x0201, 40);  // notify: bits 0..3, and bits 8..9 from value bit 8
+    EXPECT_EQ(core.value(timer_field::irq_enable), 0x201u);
+    EXPECT_EQ(read(0x1c, 2), 0x0201u);
 }
 
 TEST_F(quad_fixture, accesses_never_go_back_in_time) {
@@ -181,7 +180,7 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     EXPECT_EQ(
         o.message,
         "read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest register: "
-        "status_clear of timer_a, 0x1 byte above it; at 123 ps");
+        "status_clear of timer_a, 0x3 bytes above it; at 123 ps");
 
     std::ostringstream log;
     auto logger = std::make_shared<spdlog::logger>(
@@ -191,12 +190,12 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     spdlog::register_logger(logger);
 
     regs.set_policy(models::unmapped_policy::warn);
-    o = regs.write(0x1e, 2, 0xffff, 200);
+    o = regs.write(0x22, 2, 0xffff, 200);
     EXPECT_FALSE(o.failed);
     EXPECT_TRUE(core.calls.empty());
     EXPECT_NE(log.str().find(
-                  "warning write of 2 bytes at 0x4000001e hits a location reserved in timer_a; "
-                  "nearest register: notify of timer_a, 0x1 byte above it; at 200 ps"),
+                  "warning write of 2 bytes at 0x40000022 hits a location reserved in timer_a; "
+                  "nearest register: status_clear of timer_a, 0x1 byte above it; at 200 ps"),
               std::string::npos)
         << log.str();
 
@@ -205,7 +204,7 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     EXPECT_TRUE(o.failed);
     EXPECT_NE(log.str().find("error write of 1 byte at 0x4000003f"), std::string::npos)
         << log.str();
-    EXPECT_NE(log.str().find("status_clear of timer_a, 0x1c bytes above it; at 300 ps"),
+    EXPECT_NE(log.str().find("status_clear of timer_a, 0x1e bytes above it; at 300 ps"),
               std::string::npos);
     spdlog::drop("bus");
 }
@@ -230,36 +229,36 @@ TEST_F(quad_fixture, refuses_missing_channels_and_bad_lengths) {
 }
 
 TEST_F(dual_fixture, clear_on_read_clears_exactly_what_it_returned) {
-    core.set(timer_field::flags, 0, 0x5);
+    core.set(timer_field::flags, 0, 0x101);  // reload, channel 0
     std::uint32_t v = 0;
-    regs.read(0x10, 4, v, 1);  // "pending": no side effect
-    EXPECT_EQ(v, 5u);
-    EXPECT_EQ(core.value(timer_field::flags), 5u);
-    regs.read(0x15, 1, v, 2);  // byte 1 of "take" holds no flag bits: nothing read, nothing cleared
+    regs.read(0x24, 4, v, 1);  // "pending": no side effect
+    EXPECT_EQ(v, 0x101u);
+    EXPECT_EQ(core.value(timer_field::flags), 0x101u);
+    regs.read(0x22, 1, v, 2);  // byte 2 of "take" holds no flag bits: nothing read, nothing cleared
     EXPECT_EQ(v, 0u);
-    EXPECT_EQ(core.value(timer_field::flags), 5u);
-    regs.read(0x14, 4, v, 3);
-    EXPECT_EQ(v, 5u);
+    EXPECT_EQ(core.value(timer_field::flags), 0x101u);
+    regs.read(0x20, 4, v, 3);
+    EXPECT_EQ(v, 0x101u);
     EXPECT_EQ(core.calls.back().what, kind::clear);
-    EXPECT_EQ(core.calls.back().value, 5u);
+    EXPECT_EQ(core.calls.back().value, 0x101u);
     EXPECT_EQ(core.value(timer_field::flags), 0u);
-    regs.read(0x14, 4, v, 4);
+    regs.read(0x20, 4, v, 4);
     EXPECT_EQ(v, 0u);
     EXPECT_EQ(core.calls.back().what, kind::read);  // nothing set, nothing to clear
     core.calls.clear();
-    regs.write(0x14, 4, 0xffff'ffff, 5);  // clear-on-read ignores writes
+    regs.write(0x20, 4, 0xffff'ffff, 5);  // clear-on-read ignores writes
     EXPECT_TRUE(core.calls.empty());
 }
 
 TEST_F(dual_fixture, halfword_accesses_on_word_registers) {
-    regs.write(0x1e, 2, 0xbeef, 1);  // high half of "limit"
+    regs.write(0x06, 2, 0xbeef, 1);  // high half of "limit"
     EXPECT_EQ(core.value(timer_field::period), 0xbeef'0000u);
-    regs.write(0x1c, 2, 0x1234, 2);
+    regs.write(0x04, 2, 0x1234, 2);
     EXPECT_EQ(core.value(timer_field::period), 0xbeef'1234u);
     std::uint32_t v = 0;
-    regs.read(0x1e, 2, v, 3);
+    regs.read(0x06, 2, v, 3);
     EXPECT_EQ(v, 0xbeefu);
-    regs.read(0x1d, 1, v, 3);
+    regs.read(0x05, 1, v, 3);
     EXPECT_EQ(v, 0x12u);
 }
 

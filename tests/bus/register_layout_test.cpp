@@ -27,7 +27,7 @@ TEST(register_layout_test, loads_timer16_quad) {
     EXPECT_EQ(l.instance.counter_bits, 16u);
     EXPECT_EQ(l.instance.channels, 4u);
     EXPECT_TRUE(l.instance.complementary);
-    EXPECT_EQ(l.registers.size(), 17u);
+    EXPECT_EQ(l.registers.size(), 18u);
     // Every functional field the instance has sits somewhere.
     EXPECT_TRUE(l.unmapped_fields().empty()) << missing_text(l);
     // Registers come in offset order and are found by name and by any of their bytes.
@@ -36,13 +36,13 @@ TEST(register_layout_test, loads_timer16_quad) {
     ASSERT_NE(l.find("limit"), nullptr);
     EXPECT_EQ(l.find("limit")->reset, 0xffffu);
     EXPECT_EQ(l.find(std::uint32_t{0x0b}), l.find("match_b"));
-    EXPECT_EQ(l.find(std::uint32_t{0x07}), nullptr);  // reserved byte after the 8-bit "repeat"
+    EXPECT_EQ(l.find(std::uint32_t{0x07}), nullptr);  // reserved byte after the 8-bit "skip"
     // Fields are in bit order.
     const auto* run = l.find("run");
     ASSERT_NE(run, nullptr);
     for (std::size_t i = 1; i < run->fields.size(); ++i)
         EXPECT_LT(run->fields[i - 1].bit, run->fields[i].bit);
-    EXPECT_EQ(run->reserved_mask(), 0x8880u);  // bits 7, 11, 15
+    EXPECT_EQ(run->reserved_mask(), 0x8c40u);  // bits 6, 10, 11, 15
 }
 
 TEST(register_layout_test, loads_timer32_dual) {
@@ -51,7 +51,7 @@ TEST(register_layout_test, loads_timer32_dual) {
     EXPECT_EQ(l.instance.counter_bits, 32u);
     EXPECT_EQ(l.instance.channels, 2u);
     EXPECT_FALSE(l.instance.complementary);
-    EXPECT_EQ(l.instance.repetition_bits, 0u);
+    EXPECT_EQ(l.instance.wrap_skip_bits, 0u);
     EXPECT_TRUE(l.unmapped_fields().empty()) << missing_text(l);
     for (const auto& r : l.registers) EXPECT_EQ(r.width, 32u) << r.name;
     ASSERT_NE(l.find("take"), nullptr);
@@ -65,7 +65,7 @@ size = 4
 [instance]
 counter_bits = 16
 channels = 1
-repetition_bits = 0
+wrap_skip_bits = 0
 [registers.count]
 offset = 0
 width = 16
@@ -87,14 +87,14 @@ fields = [ { field = "counter", bits = "0..15", access = "read-write" } ]
 
 TEST(register_layout_test, finds_the_nearest_register) {
     const auto l = models::load_register_layout_file(layouts_dir + "timer16_quad.toml");
-    auto n = l.nearest(0x07);  // just past "repeat" (0x06), just below "match_a" (0x08)
+    auto n = l.nearest(0x07);  // just past "skip" (0x06), just below "match_a" (0x08)
     ASSERT_NE(n.reg, nullptr);
-    EXPECT_EQ(n.reg->name, "repeat");  // tie: the lower register
+    EXPECT_EQ(n.reg->name, "skip");  // tie: the lower register
     EXPECT_EQ(n.distance, 1u);
     EXPECT_FALSE(n.below);
     n = l.nearest(0x30);
     EXPECT_EQ(n.reg->name, "status_clear");
-    EXPECT_EQ(n.distance, 0x30u - 0x23u);
+    EXPECT_EQ(n.distance, 0x30u - 0x21u);
     n = l.nearest(0x0c);
     EXPECT_EQ(n.reg->name, "match_c");
     EXPECT_EQ(n.distance, 0u);

@@ -76,15 +76,16 @@ TEST(check_kinds_test, period_absolute_and_tick_tolerances) {
     s.set("a", true, 80 * us + 20'833 + 20'834).set("a", false, 81 * us);
     check_spec c = make(check_kind::period, {"a"});
     c.expected = 40 * us;
-    c.tol = tolerance::ticks_of(1, "kernel", sim::frequency::hz(48'000'000));
+    c.tol = tolerance::ticks_of(1, "timer_clock", sim::frequency::hz(48'000'000));
     auto r = run_one(s, c, 1 * ms);
     EXPECT_TRUE(r.passed) << r.detail;
-    EXPECT_EQ(r.tolerance_text, "1 tick of kernel");
+    EXPECT_EQ(r.tolerance_text, "1 tick of timer_clock");
     s.set("a", true,
           120 * us + 20'833 + 20'834 + 41'667 + 2);  // two ticks late (and 1 ps beyond rounding)
     r = run_one(s, c, 1 * ms);
     EXPECT_FALSE(r.passed);
-    EXPECT_NE(r.detail.find("exceeds 40 us +/- 1 tick of kernel"), std::string::npos) << r.detail;
+    EXPECT_NE(r.detail.find("exceeds 40 us +/- 1 tick of timer_clock"), std::string::npos)
+        << r.detail;
 
     c.tol = tolerance::absolute_units(20 * ns);
     r = run_one(s, c, 1 * ms);

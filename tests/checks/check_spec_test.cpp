@@ -67,7 +67,7 @@ TEST(check_spec_test, problems_name_the_field_and_what_is_accepted) {
     d.kind = check_kind::duty_cycle;
     d.signals = {"a"};
     d.expected = 1'500'000'000;
-    d.tol = sim::tolerance::ticks_of(2, "kernel", sim::time_ps{0});
+    d.tol = sim::tolerance::ticks_of(2, "timer_clock", sim::time_ps{0});
     EXPECT_EQ(problems(d),
               "expected: a duty cycle lies between 0 % and 100 %\n"
               "tolerance: a tick tolerance needs the clock's period (name a running clock)\n");
@@ -138,7 +138,7 @@ TEST(check_spec_test, angles_and_duty_cycles_read_exactly) {
 }
 
 TEST(check_spec_test, tick_tolerance_of_a_clock_keeps_the_exact_period) {
-    const auto t = sim::tolerance::ticks_of(2, "kernel", sim::frequency::hz(48'000'000));
+    const auto t = sim::tolerance::ticks_of(2, "timer_clock", sim::frequency::hz(48'000'000));
     EXPECT_EQ(t.tick_num, 62'500u);  // 1e12 / 48e6 = 62500 / 3 ps
     EXPECT_EQ(t.tick_den, 3u);
 }

@@ -59,17 +59,17 @@ std::vector<check_spec> one_of_each_kind() {
         v.push_back(s);
         return v.back();
     };
-    add(check_kind::frequency, {"pwm.ch0"}).expected_frequency = sim::frequency::hz(25'000);
-    add(check_kind::period, {"pwm.ch1"}).expected = 40 * us;
-    add(check_kind::duty_cycle, {"pwm.ch2"}).minimum = 0;
-    add(check_kind::pulse_width, {"pwm.ch0n"}).maximum = 40 * us;
-    add(check_kind::edge_count, {"pwm.ch1n"}).minimum = 1;
-    add(check_kind::phase, {"pwm.ch0", "pwm.ch1"}).maximum = 40 * us;
-    add(check_kind::dead_time, {"pwm.ch2", "pwm.ch2n"}).minimum = 1 * us;
-    add(check_kind::latency, {"pwm.ch0", "pwm.ch0n"}).maximum = 40 * us;
+    add(check_kind::frequency, {"pwm.channel1"}).expected_frequency = sim::frequency::hz(25'000);
+    add(check_kind::period, {"pwm.channel2"}).expected = 40 * us;
+    add(check_kind::duty_cycle, {"pwm.channel3"}).minimum = 0;
+    add(check_kind::pulse_width, {"pwm.channel1_complement"}).maximum = 40 * us;
+    add(check_kind::edge_count, {"pwm.channel2_complement"}).minimum = 1;
+    add(check_kind::phase, {"pwm.channel1", "pwm.channel2"}).maximum = 40 * us;
+    add(check_kind::dead_time, {"pwm.channel3", "pwm.channel3_complement"}).minimum = 1 * us;
+    add(check_kind::latency, {"pwm.channel1", "pwm.channel1_complement"}).maximum = 40 * us;
     auto& n = add(check_kind::never, {});
     n.signals.clear();
-    n.condition = "ch0 and ch0n";
+    n.condition = "channel1 and channel1_complement";
     return v;
 }
 

@@ -1,9 +1,10 @@
 #pragma once
 // Test helper: the fast timer driving a check engine directly, as the simulation will.
 //
-// A 48 MHz kernel clock, a timer with complementary outputs, three edge-aligned PWM channels at
-// 25 kHz (prescaler 0, period 1919) with compares 480, 960 and 1440, and a dead time in kernel
-// ticks. Each pin change goes straight to the sink; signals are "pwm.ch<c>" and "pwm.ch<c>n".
+// A 48 MHz timer clock, a timer with complementary outputs, three edge-aligned PWM channels at
+// 25 kHz (prescaler 0, period 1919) with compares 480, 960 and 1440, and a dead time in timer
+// clock ticks. Each pin change goes straight to the sink; signals are "pwm.channel<c + 1>" and
+// "pwm.channel<c + 1>_complement".
 
 #include "models/timer/timer_core.h"
 #include "sim/signal_sink.h"
@@ -21,7 +22,7 @@ public:
         for (unsigned p = 0; p < 6; ++p) {
             sim::signal_info info;
             info.scope = "pwm";
-            info.name = "ch" + std::to_string(p / 2) + (p % 2 ? "n" : "");
+            info.name = "channel" + std::to_string(p / 2 + 1) + (p % 2 ? "_complement" : "");
             sink_.declare(p, info);
         }
         timer_.write(timer_field::period, 0, 1919, 0);

@@ -38,9 +38,9 @@ std::uint64_t first_seed() { return env_or("TICKBENCH_DIFF_FIRST_SEED", 1); }
 
 template <class model>
 model_factory factory_of() {
-    return [](const models::timer_config& cfg, const sim::clock_domain& kernel,
+    return [](const models::timer_config& cfg, const sim::clock_domain& timer_clock,
               models::timer_observer* obs) {
-        return std::unique_ptr<models::timer_core_if>(new model(cfg, kernel, obs));
+        return std::unique_ptr<models::timer_core_if>(new model(cfg, timer_clock, obs));
     };
 }
 
@@ -127,7 +127,7 @@ TEST(differential_harness_test, programs_write_around_wraps_in_every_mode) {
     std::set<std::uint32_t> modes_near_wrap;
     for (std::uint64_t seed = 1; seed <= 150; ++seed) {
         const timer_program p = generate_program(seed);
-        sim::clock_domain domain(sim::frequency::hz(p.kernel_hz));
+        sim::clock_domain domain(sim::frequency::hz(p.clock_hz));
         models::reference::reference_timer model(p.config, domain, nullptr);
         std::vector<std::uint64_t> wrap_ticks;
         std::vector<std::uint32_t> wrap_modes;

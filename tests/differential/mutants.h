@@ -14,9 +14,9 @@ namespace tickbench::differential {
 // Base: forwards everything to a reference timer.
 class forwarding_timer : public models::timer_core_if {
 public:
-    forwarding_timer(const models::timer_config& cfg, const sim::clock_domain& kernel,
+    forwarding_timer(const models::timer_config& cfg, const sim::clock_domain& timer_clock,
                      models::timer_observer* observer)
-        : inner_(cfg, kernel, observer) {}
+        : inner_(cfg, timer_clock, observer) {}
     void advance_to(sim::time_ps t) override { inner_.advance_to(t); }
     void write(models::timer_field f, unsigned ch, std::uint32_t v, sim::time_ps t) override {
         inner_.write(f, ch, v, t);
@@ -33,7 +33,7 @@ protected:
     models::reference::reference_timer inner_;
 };
 
-// Off by one tick: a compare write without preload takes effect one kernel tick late.
+// Off by one tick: a compare write without preload takes effect one timer clock tick late.
 class late_compare_timer final : public forwarding_timer {
 public:
     using forwarding_timer::forwarding_timer;
@@ -81,8 +81,8 @@ private:
     std::deque<late_write> late_;
 };
 
-// Off by one tick: dead times one kernel tick longer than written (reads still give the written
-// value).
+// Off by one tick: dead times one timer clock tick longer than written (reads still give the
+// written value).
 class long_dead_time_timer final : public forwarding_timer {
 public:
     using forwarding_timer::forwarding_timer;

@@ -10,7 +10,7 @@ using test_support::timer_event;
 
 run_result run_program(const timer_program& p, const model_factory& make) {
     run_result r;
-    sim::clock_domain domain(sim::frequency::hz(p.kernel_hz));
+    sim::clock_domain domain(sim::frequency::hz(p.clock_hz));
     test_support::timer_event_log log;
     try {
         std::unique_ptr<models::timer_core_if> model = make(p.config, domain, &log);

@@ -31,8 +31,8 @@ private:
     std::mt19937_64 rng_;
 };
 
-const std::vector<std::uint64_t> kernel_choices = {48'000'000, 1'000'000, 1'000'000'000, 32'768,
-                                                   16'000'000};
+const std::vector<std::uint64_t> clock_choices = {48'000'000, 1'000'000, 1'000'000'000, 32'768,
+                                                  16'000'000};
 
 // Picks the time of an operation near the next wrap (or reload event) of the model, if one comes
 // within `horizon` ticks: within +/-2 ticks of it, exactly at a tick, just before one, or between.
@@ -89,12 +89,30 @@ models::timer_config random_config(dice& d) {
         d.chance(0.5) ? d.pick(std::vector<std::uint64_t>{8, 16, 32}) : d.range(8, 32));
     cfg.channels = static_cast<unsigned>(d.range(1, 6));
     cfg.prescaler_bits = static_cast<unsigned>(d.chance(0.7) ? 16 : d.range(1, 32));
-    cfg.repetition_bits = static_cast<unsigned>(d.pick(std::vector<std::uint64_t>{0, 1, 3, 8, 16}));
+    cfg.wrap_skip_bits = static_cast<unsigned>(d.pick(std::vector<std::uint64_t>{0, 1, 3, 8, 16}));
     cfg.prescaler_shadowed = d.chance(0.5);
     cfg.complementary = d.chance(0.5);
     cfg.dead_time_max = static_cast<unsigned>(d.pick(std::vector<std::uint64_t>{0, 3, 15, 1023}));
     cfg.compare_latency = static_cast<unsigned>(d.range(0, 2));
     return cfg;
+}
+
+// An action code: mostly PWM, sometimes any listed code, now and then a reserved one.
+std::uint32_t random_action(dice& d) {
+    using models::output_action;
+    static const std::vector<std::uint64_t> listed = {std::uint64_t(output_action::hold),
+                                                      std::uint64_t(output_action::pwm_below),
+                                                      std::uint64_t(output_action::pwm_at_or_above),
+                                                      std::uint64_t(output_action::toggle_on_match),
+                                                      std::uint64_t(output_action::set_on_match),
+                                                      std::uint64_t(output_action::clear_on_match),
+                                                      std::uint64_t(output_action::force_low),
+                                                      std::uint64_t(output_action::force_high)};
+    if (d.chance(0.6))
+        return static_cast<std::uint32_t>(d.chance(0.5) ? output_action::pwm_below
+                                                        : output_action::pwm_at_or_above);
+    if (d.chance(0.9)) return static_cast<std::uint32_t>(d.pick(listed));
+    return static_cast<std::uint32_t>(d.range(0, 15));
 }
 
 std::uint32_t valid_flags(const models::timer_config& cfg) {
@@ -132,14 +150,15 @@ std::uint32_t random_value(timer_field f, const models::timer_config& cfg,
     switch (f) {
         case timer_field::enable:
             return d.chance(0.8) ? 1 : 0;
-        case timer_field::mode:
-            return static_cast<std::uint32_t>(d.range(0, 2));
+        case timer_field::mode:  // 3 is reserved: written now and then
+            return static_cast<std::uint32_t>(d.chance(0.95) ? d.range(0, 2) : 3);
         case timer_field::slope:
-            return static_cast<std::uint32_t>(d.range(0, 2));
+            return static_cast<std::uint32_t>(d.chance(0.95) ? d.range(0, 2) : 3);
         case timer_field::one_pulse:
             return d.chance(0.3) ? 1 : 0;
-        case timer_field::reload_disable:
-            return d.chance(0.3) ? 1 : 0;
+        case timer_field::reload_policy:
+            // Mostly every (0); sometimes quiet_forced, held, or the reserved value 3.
+            return d.chance(0.6) ? 0 : static_cast<std::uint32_t>(d.range(0, 3));
         case timer_field::force_reload:
             return d.chance(0.9) ? 1 : 0;
         case timer_field::prescaler:
@@ -163,7 +182,7 @@ std::uint32_t random_value(timer_field f, const models::timer_config& cfg,
         case timer_field::counter:
             if (d.chance(0.05)) return max - static_cast<std::uint32_t>(d.range(0, 2));
             return small_or_edge(period);
-        case timer_field::repetition:
+        case timer_field::wrap_skip:
             return static_cast<std::uint32_t>(d.range(0, 4));
         case timer_field::dead_time:
             return static_cast<std::uint32_t>(d.chance(0.9) ? d.range(0, 12) : d.range(0, 3000));
@@ -172,37 +191,25 @@ std::uint32_t random_value(timer_field f, const models::timer_config& cfg,
         case timer_field::rearm:
             return 1;
         case timer_field::irq_enable:
-            return static_cast<std::uint32_t>(d.range(0, 0xff)) & valid_flags(cfg);
-        case timer_field::trigger_select:
-            return static_cast<std::uint32_t>(d.range(0, 1 + cfg.channels));
+            return static_cast<std::uint32_t>(d.range(0, 0x3ff)) & valid_flags(cfg);
+        case timer_field::trigger_select:  // all 3-bit values, channels the instance lacks too
+            return static_cast<std::uint32_t>(d.range(0, 7));
         case timer_field::compare:
             return small_or_edge(period);
         case timer_field::action:
-            return static_cast<std::uint32_t>(d.chance(0.5) ? d.range(6, 7) : d.range(0, 7));
+            return random_action(d);
         default:
             return d.chance(0.5) ? 1 : 0;  // single-bit fields
     }
 }
 
 const std::vector<timer_field> global_fields = {
-    timer_field::enable,
-    timer_field::mode,
-    timer_field::slope,
-    timer_field::one_pulse,
-    timer_field::period_preload,
-    timer_field::reload_disable,
-    timer_field::reload_flag_rule,
-    timer_field::force_reload,
-    timer_field::prescaler,
-    timer_field::period,
-    timer_field::counter,
-    timer_field::repetition,
-    timer_field::dead_time,
-    timer_field::fault_enable,
-    timer_field::fault_latency,
-    timer_field::rearm,
-    timer_field::irq_enable,
-    timer_field::trigger_select,
+    timer_field::enable,       timer_field::mode,           timer_field::slope,
+    timer_field::one_pulse,    timer_field::period_preload, timer_field::reload_policy,
+    timer_field::force_reload, timer_field::prescaler,      timer_field::period,
+    timer_field::counter,      timer_field::wrap_skip,      timer_field::dead_time,
+    timer_field::fault_enable, timer_field::fault_latency,  timer_field::rearm,
+    timer_field::irq_enable,   timer_field::trigger_select,
 };
 const std::vector<timer_field> channel_fields = {
     timer_field::compare,         timer_field::compare_preload, timer_field::action,
@@ -213,7 +220,7 @@ const std::vector<timer_field> channel_fields = {
 const std::vector<timer_field> hot_fields = {
     timer_field::period,  timer_field::counter,      timer_field::prescaler, timer_field::compare,
     timer_field::compare, timer_field::force_reload, timer_field::mode,      timer_field::enable,
-    timer_field::action,  timer_field::repetition,
+    timer_field::action,  timer_field::wrap_skip,
 };
 
 // Applies an operation to the generator's model and domain.
@@ -253,12 +260,12 @@ timer_program generate_program(std::uint64_t seed) {
     timer_program p;
     p.seed = seed;
     p.config = random_config(d);
-    p.kernel_hz = d.pick(kernel_choices);
+    p.clock_hz = d.pick(clock_choices);
     const models::timer_config& cfg = p.config;
 
-    sim::clock_domain domain(sim::frequency::hz(p.kernel_hz));
+    sim::clock_domain domain(sim::frequency::hz(p.clock_hz));
     models::reference::reference_timer model(cfg, domain, nullptr);
-    std::uint64_t hz = p.kernel_hz;
+    std::uint64_t hz = p.clock_hz;
     auto tick_ps = [&] {
         return std::max<sim::time_ps>(1, sim::ps_per_second / std::max<std::uint64_t>(hz, 1));
     };
@@ -282,7 +289,7 @@ timer_program generate_program(std::uint64_t seed) {
     write(timer_field::mode, 0, static_cast<std::uint32_t>(d.range(0, 2)), start);
     write(timer_field::slope, 0, static_cast<std::uint32_t>(d.range(0, 2)), start);
     if (d.chance(0.5))
-        write(timer_field::repetition, 0, static_cast<std::uint32_t>(d.range(0, 3)), start);
+        write(timer_field::wrap_skip, 0, static_cast<std::uint32_t>(d.range(0, 3)), start);
     if (cfg.complementary) {
         write(timer_field::dead_time, 0, static_cast<std::uint32_t>(d.range(0, 5)), start);
         write(timer_field::fault_enable, 0, d.chance(0.6), start);
@@ -291,8 +298,7 @@ timer_program generate_program(std::uint64_t seed) {
     for (unsigned c = 0; c < cfg.channels; ++c) {
         write(timer_field::compare_preload, c, d.chance(0.5), start);
         write(timer_field::compare, c, static_cast<std::uint32_t>(d.range(0, 32)), start);
-        write(timer_field::action, c,
-              static_cast<std::uint32_t>(d.chance(0.6) ? d.range(6, 7) : d.range(0, 7)), start);
+        write(timer_field::action, c, random_action(d), start);
         write(timer_field::main_enable, c, d.chance(0.85), start);
         write(timer_field::comp_enable, c, d.chance(0.7), start);
         if (d.chance(0.3)) write(timer_field::main_active_low, c, 1, start);
@@ -335,7 +341,7 @@ timer_program generate_program(std::uint64_t seed) {
         if (stopped || (clock_changes && what < 4)) {
             op.kind = op_kind::clock_change;
             if (stopped || d.chance(0.7)) {
-                hz = d.pick(kernel_choices);
+                hz = d.pick(clock_choices);
                 op.value = static_cast<std::uint32_t>(hz);
                 stopped = false;
             } else {
@@ -377,7 +383,7 @@ timer_program generate_program(std::uint64_t seed) {
         emit(op);
     }
     if (stopped) {
-        hz = d.pick(kernel_choices);
+        hz = d.pick(clock_choices);
         emit(program_op{now + tick_ps(), op_kind::clock_change, timer_field::enable, 0,
                         static_cast<std::uint32_t>(hz)});
     }
@@ -407,9 +413,9 @@ std::string describe(const program_op& op) {
             break;
         case op_kind::clock_change:
             if (op.value == 0)
-                s << "kernel clock stops";
+                s << "timer clock stops";
             else
-                s << "kernel clock -> " << op.value << " Hz";
+                s << "timer clock -> " << op.value << " Hz";
             break;
     }
     return s.str();
@@ -419,18 +425,18 @@ std::string describe(const timer_program& p) {
     std::ostringstream s;
     const models::timer_config& c = p.config;
     s << "program seed " << p.seed << ": counter_bits " << c.counter_bits << ", channels "
-      << c.channels << ", prescaler_bits " << c.prescaler_bits << ", repetition_bits "
-      << c.repetition_bits << ", prescaler_shadowed " << c.prescaler_shadowed << ", complementary "
+      << c.channels << ", prescaler_bits " << c.prescaler_bits << ", wrap_skip_bits "
+      << c.wrap_skip_bits << ", prescaler_shadowed " << c.prescaler_shadowed << ", complementary "
       << c.complementary << ", dead_time_max " << c.dead_time_max << ", compare_latency "
-      << c.compare_latency << "; kernel " << p.kernel_hz << " Hz from 0 ps; end " << p.end
+      << c.compare_latency << "; timer clock " << p.clock_hz << " Hz from 0 ps; end " << p.end
       << " ps; " << p.ops.size() << " operations\n";
-    sim::clock_domain domain(sim::frequency::hz(p.kernel_hz));
+    sim::clock_domain domain(sim::frequency::hz(p.clock_hz));
     for (const program_op& op : p.ops) {
         s << "  " << describe(op);
         if (op.kind == op_kind::clock_change) {
             apply_clock_change(domain, op);
         } else {
-            // Where the operation sits relative to the kernel ticks.
+            // Where the operation sits relative to the timer clock ticks.
             s << "  (after " << domain.tick_at(op.at + 1) << " ticks)";
         }
         s << "\n";

@@ -1,10 +1,10 @@
 #pragma once
 // Random register programs for the differential test of the timer models.
 //
-// A program is a timer configuration, a kernel clock and a timed list of operations (register
-// writes and reads, flag clears, fault-input changes, kernel clock changes), all at absolute
+// A program is a timer configuration, a timer clock and a timed list of operations (register
+// writes and reads, flag clears, fault-input changes, timer clock changes), all at absolute
 // picosecond times. The generator is seeded and deterministic. It places many operations within
-// +/-2 kernel ticks of counter wraps and reload events; it finds those instants by running the
+// +/-2 timer clock ticks of counter wraps and reload events; it finds those instants by running the
 // tick-exact reference on the program built so far and probing a copy of it forwards.
 
 #include "models/timer/timer_types.h"
@@ -18,7 +18,7 @@ namespace tickbench::differential {
 
 enum class op_kind : std::uint32_t { write, read, clear_flags, fault_input, clock_change };
 
-// One timed operation. For clock_change, value is the new kernel frequency in Hz (0: stop).
+// One timed operation. For clock_change, value is the new timer clock frequency in Hz (0: stop).
 struct program_op {
     sim::time_ps at = 0;
     op_kind kind = op_kind::write;
@@ -30,12 +30,12 @@ struct program_op {
 struct timer_program {
     std::uint64_t seed = 0;
     models::timer_config config;
-    std::uint64_t kernel_hz = 48'000'000;  // initial kernel frequency, clock running from 0 ps
-    std::vector<program_op> ops;           // non-decreasing times
-    sim::time_ps end = 0;                  // the run stops after every tick at or before end
+    std::uint64_t clock_hz = 48'000'000;  // initial timer clock frequency, clock running from 0 ps
+    std::vector<program_op> ops;          // non-decreasing times
+    sim::time_ps end = 0;                 // the run stops after every tick at or before end
 };
 
-// The program of a seed: a few hundred to a few thousand kernel ticks.
+// The program of a seed: a few hundred to a few thousand timer clock ticks.
 timer_program generate_program(std::uint64_t seed);
 // Human-readable listing: configuration, clock and one line per operation.
 std::string describe(const timer_program& p);

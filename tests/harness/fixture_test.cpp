@@ -2,6 +2,7 @@
 // written as lambdas runs on a described part in a child process, and the test sees how the run
 // ended, the firmware's checks with their places and times, and its log lines.
 
+#include "examples/parts/demo_timers.h"
 #include "harness/testing/firmware_fixture.h"
 #include "tickbench/firmware.h"
 
@@ -14,14 +15,14 @@ namespace {
 
 // Register offsets of the shipped layouts (models/layouts/timer16_quad.toml, timer32_dual.toml).
 constexpr std::uint32_t stopwatch = 0x4000'1000;
-constexpr std::uint32_t stopwatch_count = stopwatch + 0x00;
-constexpr std::uint32_t stopwatch_limit = stopwatch + 0x02;
-constexpr std::uint32_t stopwatch_run = stopwatch + 0x10;
+constexpr std::uint32_t stopwatch_count = stopwatch + Q16_COUNT;
+constexpr std::uint32_t stopwatch_limit = stopwatch + Q16_LIMIT;
+constexpr std::uint32_t stopwatch_run = stopwatch + Q16_RUN;
 constexpr std::uint32_t tick = 0x4000'0000;
-constexpr std::uint32_t tick_setup = tick + 0x00;
-constexpr std::uint32_t tick_alerts = tick + 0x0c;
-constexpr std::uint32_t tick_take = tick + 0x14;
-constexpr std::uint32_t tick_limit = tick + 0x1c;
+constexpr std::uint32_t tick_setup = tick + D32_SETUP;
+constexpr std::uint32_t tick_alerts = tick + D32_ALERTS;
+constexpr std::uint32_t tick_take = tick + D32_TAKE;
+constexpr std::uint32_t tick_limit = tick + D32_LIMIT;
 
 // The part of every test here: a 72 MHz system clock (8 MHz crystal, PLL x9) clocking the cpu, a
 // 32-bit timer "tick" (line 0) and a 16-bit timer "stopwatch" (line 1).
@@ -109,7 +110,7 @@ TEST_F(fixture_test, interrupts_parameters_and_after_run_inspection) {
                 tick_log("tick %u", ticks);
             });
             tick_write32(tick_limit, 72'000 - 1);  // 1 ms at 72 MHz
-            tick_write32(tick_alerts, 1);
+            tick_write32(tick_alerts, DEMO_FLAG_RELOAD);
             tick_irq_line_enable(static_cast<unsigned>(line));
             tick_write32(tick_setup, 1);
             while (ticks < wanted) tick_wait_for_interrupt();

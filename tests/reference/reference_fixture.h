@@ -1,5 +1,5 @@
 #pragma once
-// A small fixture for driving the reference timer by kernel tick index in unit tests.
+// A small fixture for driving the reference timer by timer clock tick index in unit tests.
 
 #include "models/reference/reference_timer.h"
 #include "models/timer/timer_types.h"
@@ -16,12 +16,12 @@ using models::timer_field;
 class reference_fixture {
 public:
     explicit reference_fixture(const models::timer_config& cfg,
-                               sim::frequency kernel = sim::frequency::hz(48'000'000))
-        : domain(kernel), timer(cfg, domain, &log) {}
+                               sim::frequency timer_clock = sim::frequency::hz(48'000'000))
+        : domain(timer_clock), timer(cfg, domain, &log) {}
 
-    // Time of kernel tick k: an access "at tick k" happens right after that tick.
+    // Time of timer clock tick k: an access "at tick k" happens right after that tick.
     sim::time_ps at(std::uint64_t k) const { return domain.time_of(k); }
-    // Kernel tick index of an edge time.
+    // Timer clock tick index of an edge time.
     std::uint64_t tick_of(sim::time_ps t) const { return domain.tick_at(t); }
     void write(std::uint64_t k, timer_field f, std::uint32_t v, unsigned ch = 0) {
         timer.write(f, ch, v, at(k));

@@ -22,7 +22,7 @@ using models::output_action;
 using models::timer_config;
 using test_support::timer_event_kind;
 
-constexpr double f_kernel = 48e6;
+constexpr double f_timer = 48e6;
 
 timer_config plain_config() {
     timer_config cfg;
@@ -71,8 +71,8 @@ TEST(reference_timer_test, edge_aligned_pwm_frequency_up_mode) {
     fx.run_to(20'000);
     const auto rises = fx.log.pin_edges(main_pin(0), true);
     ASSERT_GE(rises.size(), 40u);
-    // common practice, no single source: f_pwm = f_kernel / ((prescaler + 1) x (period + 1))
-    EXPECT_NEAR(measured_frequency(rises, 1, 30), f_kernel / (3.0 * 100.0), 1e-3);
+    // common practice, no single source: f_pwm = f_timer / ((prescaler + 1) x (period + 1))
+    EXPECT_NEAR(measured_frequency(rises, 1, 30), f_timer / (3.0 * 100.0), 1e-3);
     EXPECT_EQ(fx.tick_of(rises[2]) - fx.tick_of(rises[1]), 3u * 100u);
 }
 
@@ -83,8 +83,8 @@ TEST(reference_timer_test, edge_aligned_pwm_frequency_and_duty_down_mode) {
     const auto rises = fx.log.pin_edges(main_pin(0), true);
     const auto falls = fx.log.pin_edges(main_pin(0), false);
     ASSERT_GE(rises.size(), 40u);
-    // common practice, no single source: f_pwm = f_kernel / ((prescaler + 1) x (period + 1))
-    EXPECT_NEAR(measured_frequency(rises, 1, 30), f_kernel / 200.0, 1e-3);
+    // common practice, no single source: f_pwm = f_timer / ((prescaler + 1) x (period + 1))
+    EXPECT_NEAR(measured_frequency(rises, 1, 30), f_timer / 200.0, 1e-3);
     // common practice, no single source: pwm_below duty = compare / (period + 1)
     EXPECT_NEAR(measured_duty(rises, falls, 3), 50.0 / 200.0,
                 1e-6);  // edge times are exact to 0.5 ps
@@ -108,8 +108,8 @@ TEST(reference_timer_test, center_aligned_pwm_frequency_and_duty) {
     const auto rises = fx.log.pin_edges(main_pin(0), true);
     const auto falls = fx.log.pin_edges(main_pin(0), false);
     ASSERT_GE(rises.size(), 40u);
-    // common practice, no single source: f_pwm = f_kernel / ((prescaler + 1) x 2 x period)
-    EXPECT_NEAR(measured_frequency(rises, 1, 30), f_kernel / (2.0 * 2.0 * 50.0), 1e-3);
+    // common practice, no single source: f_pwm = f_timer / ((prescaler + 1) x 2 x period)
+    EXPECT_NEAR(measured_frequency(rises, 1, 30), f_timer / (2.0 * 2.0 * 50.0), 1e-3);
     // common practice, no single source: center-aligned pwm_below duty = compare / period
     EXPECT_NEAR(measured_duty(rises, falls, 2), 20.0 / 50.0,
                 1e-6);  // edge times are exact to 0.5 ps
@@ -118,7 +118,7 @@ TEST(reference_timer_test, center_aligned_pwm_frequency_and_duty) {
 TEST(reference_timer_test, up_counter_takes_period_plus_one_values) {
     reference_fixture fx(plain_config());
     fx.write(0, timer_field::period, 9);
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     std::set<std::uint32_t> seen;
     std::vector<std::uint32_t> sequence;
@@ -137,7 +137,7 @@ TEST(reference_timer_test, preloaded_period_loads_at_reload_event_only) {
     fx.write(0, timer_field::period_preload, 1);
     fx.write(0, timer_field::period, 9);
     fx.write(0, timer_field::force_reload, 1);  // loads the shadow now
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     fx.write(15, timer_field::period, 4);
     EXPECT_EQ(fx.read(15, timer_field::period), 4u);   // reads the shadow
@@ -153,7 +153,7 @@ TEST(reference_timer_test, immediate_period_below_counter_runs_on_to_max) {
     cfg.counter_bits = 8;
     reference_fixture fx(cfg);
     fx.write(0, timer_field::period, 9);
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     EXPECT_EQ(fx.read(7, timer_field::counter), 7u);
     fx.write(7, timer_field::period, 3);
@@ -170,7 +170,7 @@ TEST(reference_timer_test, shadowed_prescaler_waits_for_reload_event) {
     fx.write(0, timer_field::prescaler, 1);
     fx.write(0, timer_field::period, 9);
     fx.write(0, timer_field::force_reload, 1);
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     fx.write(5, timer_field::prescaler, 3);
     EXPECT_EQ(fx.read(5, timer_field::prescaler), 3u);
@@ -197,7 +197,7 @@ TEST(reference_timer_test, one_pulse_stops_at_the_first_reload_event) {
     reference_fixture fx(plain_config());
     fx.write(0, timer_field::period, 4);
     fx.write(0, timer_field::one_pulse, 1);
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     EXPECT_EQ(fx.read(4, timer_field::enable), 1u);
     EXPECT_EQ(fx.read(5, timer_field::enable), 0u);
@@ -207,13 +207,15 @@ TEST(reference_timer_test, one_pulse_stops_at_the_first_reload_event) {
     EXPECT_EQ(fx.tick_of(triggers[0]), 5u);
 }
 
-TEST(reference_timer_test, repetition_counter_spaces_reload_events) {
+TEST(reference_timer_test, wrap_skip_spaces_reload_events) {
     reference_fixture fx(plain_config());
-    fx.write(0, timer_field::repetition, 2);
+    fx.write(0, timer_field::wrap_skip, 2);
     fx.write(0, timer_field::period, 3);
-    fx.write(0, timer_field::reload_flag_rule, 1);  // wrap_only: the forced reload sets no flag
+    // quiet_forced: the forced reload sets no flag.
+    fx.write(0, timer_field::reload_policy,
+             static_cast<std::uint32_t>(models::reload_policy::quiet_forced));
     fx.write(0, timer_field::force_reload, 1);
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     EXPECT_EQ(fx.read(11, timer_field::flags) & flag_reload, 0u);
     EXPECT_EQ(fx.read(12, timer_field::flags) & flag_reload, flag_reload);
@@ -223,11 +225,11 @@ TEST(reference_timer_test, repetition_counter_spaces_reload_events) {
     EXPECT_EQ(ticks, (std::vector<std::uint64_t>{12, 24}));
 }
 
-TEST(reference_timer_test, repetition_count_starts_at_zero_after_reset) {
+TEST(reference_timer_test, skip_count_starts_at_zero_after_reset) {
     reference_fixture fx(plain_config());
-    fx.write(0, timer_field::repetition, 2);
+    fx.write(0, timer_field::wrap_skip, 2);
     fx.write(0, timer_field::period, 3);
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     fx.run_to(30);
     std::vector<std::uint64_t> ticks;
@@ -239,7 +241,7 @@ TEST(reference_timer_test, forced_reload_restarts_counter_and_prescaler) {
     reference_fixture fx(plain_config());
     fx.write(0, timer_field::prescaler, 1);
     fx.write(0, timer_field::period, 9);
-    fx.write(0, timer_field::trigger_select, 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_reload);
     fx.write(0, timer_field::enable, 1);
     fx.write(13, timer_field::force_reload, 1);  // counter 6, pcount 1
     EXPECT_EQ(fx.read(13, timer_field::counter), 0u);
@@ -250,8 +252,8 @@ TEST(reference_timer_test, forced_reload_restarts_counter_and_prescaler) {
     std::vector<std::uint64_t> ticks;
     for (auto t : fx.log.of_kind(timer_event_kind::trigger)) ticks.push_back(fx.tick_of(t));
     EXPECT_EQ(ticks, (std::vector<std::uint64_t>{13, 33}));
-    EXPECT_EQ(fx.log.flag_sets(0).size(), 1u);  // set at 13, never cleared
-    EXPECT_EQ(fx.tick_of(fx.log.flag_sets(0)[0]), 13u);
+    EXPECT_EQ(fx.log.flag_sets(flag_reload).size(), 1u);  // set at 13, never cleared
+    EXPECT_EQ(fx.tick_of(fx.log.flag_sets(flag_reload)[0]), 13u);
 }
 
 TEST(reference_timer_test, forced_reload_in_down_mode_loads_period) {
@@ -328,7 +330,7 @@ TEST(reference_timer_test, fault_forces_safe_levels_after_latency_until_rearm) {
     fx.run_to(21);
     fx.log.clear();
     fx.run_to(22);
-    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(7)), (std::vector<std::uint64_t>{22}));
+    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_fault)), (std::vector<std::uint64_t>{22}));
     EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)), (std::vector<std::uint64_t>{22}));
     EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)), (std::vector<std::uint64_t>{22}));
     fx.run_to(30);
@@ -351,7 +353,7 @@ TEST(reference_timer_test, fault_without_latency_acts_at_the_input_change) {
     const sim::time_ps t = fx.at(3) + 7;
     fx.timer.set_fault_input(true, t);
     EXPECT_EQ(fx.log.pin_edges(main_pin(0), true), (std::vector<sim::time_ps>{t}));
-    EXPECT_EQ(fx.log.flag_sets(7), (std::vector<sim::time_ps>{t}));
+    EXPECT_EQ(fx.log.flag_sets(flag_fault), (std::vector<sim::time_ps>{t}));
 }
 
 TEST(reference_timer_test, flags_raise_and_drop_the_interrupt_line) {
@@ -363,8 +365,8 @@ TEST(reference_timer_test, flags_raise_and_drop_the_interrupt_line) {
     fx.write(11, timer_field::irq_enable, 0);
     fx.write(12, timer_field::irq_enable, flag_reload | flag_channel(0));
     fx.run_to(13);
-    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(0)), (std::vector<std::uint64_t>{5, 10}));
-    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(1)),
+    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_reload)), (std::vector<std::uint64_t>{5, 10}));
+    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_channel(0))),
               (std::vector<std::uint64_t>{5}));  // compare 0 matches at the wrap
     std::vector<std::uint64_t> irq_ticks = ticks_of(fx, fx.log.of_kind(timer_event_kind::irq));
     EXPECT_EQ(irq_ticks, (std::vector<std::uint64_t>{5, 7, 10, 11, 12}));
@@ -375,12 +377,12 @@ TEST(reference_timer_test, channel_match_sets_flag_and_sends_trigger) {
     reference_fixture fx(plain_config());
     fx.write(0, timer_field::period, 9);
     fx.write(0, timer_field::compare, 3, 1);
-    fx.write(0, timer_field::trigger_select, 2 + 1);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_match(1));
     fx.write(0, timer_field::enable, 1);
     fx.run_to(25);
     EXPECT_EQ(ticks_of(fx, fx.log.of_kind(timer_event_kind::trigger)),
               (std::vector<std::uint64_t>{3, 13, 23}));
-    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(2)), (std::vector<std::uint64_t>{3}));
+    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_channel(1))), (std::vector<std::uint64_t>{3}));
 }
 
 TEST(reference_timer_test, center_mode_matches_only_on_the_chosen_slope) {
@@ -389,7 +391,7 @@ TEST(reference_timer_test, center_mode_matches_only_on_the_chosen_slope) {
     fx.write(0, timer_field::slope, static_cast<std::uint32_t>(match_slope::down));
     fx.write(0, timer_field::period, 10);
     fx.write(0, timer_field::compare, 4);
-    fx.write(0, timer_field::trigger_select, 2);
+    fx.write(0, timer_field::trigger_select, models::trigger_on_match(0));
     fx.write(0, timer_field::enable, 1);
     fx.run_to(40);
     // Up 0..10 at ticks 1..10, down to 4 at tick 16, to 0 at 20, up to 4 at 24, down to 4 at 36.

@@ -91,11 +91,12 @@ public:
                 out.push_back(e.at);
         return out;
     }
-    // Times at which flag bit b set.
-    std::vector<sim::time_ps> flag_sets(unsigned b) const {
+    // Times at which `flag` (one flag bit as a mask: models::flag_reload...) set.
+    std::vector<sim::time_ps> flag_sets(std::uint32_t flag) const {
         std::vector<sim::time_ps> out;
         for (const timer_event& e : events)
-            if (e.kind == timer_event_kind::flag && e.id == b) out.push_back(e.at);
+            if (e.kind == timer_event_kind::flag && (std::uint32_t{1} << e.id) == flag)
+                out.push_back(e.at);
         return out;
     }
     std::vector<sim::time_ps> of_kind(timer_event_kind k) const {

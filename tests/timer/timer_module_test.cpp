@@ -48,7 +48,7 @@ struct firmware_stub : sc_core::sc_module {
     models::timer_module& timer;
 };
 
-TEST(timer_module_test, drives_pwm_signals_at_exact_kernel_times) {
+TEST(timer_module_test, drives_pwm_signals_at_exact_clock_edge_times) {
     sim::clock_tree tree;
     sim::crystal_params x;
     x.nominal = sim::frequency::hz(48'000'000);

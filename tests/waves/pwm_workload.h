@@ -1,5 +1,5 @@
 #pragma once
-// The waveform tests' workload: a timer driving a 3-channel 25 kHz PWM from a 48 MHz kernel clock.
+// The waveform tests' workload: a timer driving a 3-channel 25 kHz PWM from a 48 MHz timer clock.
 //
 // 48 MHz / 1920 ticks = 25 kHz, a 40 us period; the compare values are multiples of 48 ticks
 // (1 us), so every edge lies on a whole microsecond and a 10 ns or 100 ns timescale keeps it exact.
@@ -12,7 +12,7 @@
 
 namespace tickbench::waves_test {
 
-inline constexpr std::uint64_t kernel_hz = 48'000'000;
+inline constexpr std::uint64_t clock_hz = 48'000'000;
 inline constexpr std::uint32_t period_ticks = 1920;
 inline constexpr std::array<std::uint32_t, 3> compare_ticks = {192, 960, 1632};
 inline constexpr sim::time_ps period_ps = 40'000'000;  // 1920 / 48 MHz

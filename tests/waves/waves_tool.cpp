@@ -41,7 +41,7 @@ int dump_pwm(const std::string& dir) {
         // Two probes chained: one timer feeds both files and the event log.
         models::timer_probe second("pwm_timer", pwm_config(), sampled, 0, &log);
         models::timer_probe first("pwm_timer", pwm_config(), exact, 0, &second);
-        const sim::clock_domain clock(sim::frequency::hz(kernel_hz));
+        const sim::clock_domain clock(sim::frequency::hz(clock_hz));
         models::timer_core timer(pwm_config(), clock, &first);
         exact.begin();
         sampled.begin();

@@ -3,7 +3,7 @@
  *   base    address of the timer's window (default 0x40001000)
  *   reloads how many reload interrupts to wait for before the firmware's own check (default 20)
  *   ending  "return" (default), "crash" (a store through a null pointer) or "fail-check"
- * The kernel clock is 48 MHz: 1920 ticks are 40 us; channel 1 is active for 480 ticks (25 %),
+ * The timer clock is 48 MHz: 1920 ticks are 40 us; channel 1 is active for 480 ticks (25 %),
  * channel 2 for 960 (50 %).
  */
 #include <tickbench/firmware.h>
@@ -12,22 +12,14 @@
 #include <stdlib.h>
 #include <string.h>
 
-#define LIMIT 0x02u
-#define SCALE 0x04u
-#define MATCH_A 0x08u
-#define MATCH_B 0x0au
-#define RUN 0x10u
-#define KICK 0x12u
-#define SHAPE_AB 0x14u
-#define NOTIFY 0x1cu
-#define STATUS_CLEAR 0x22u
-#define RELOAD_FLAG 0x0001u
+/* Registers of the demo part's 16-bit timer (models/layouts/timer16_quad.toml). */
+#include "demo_timers.h"
 
 static uint32_t base;
 static volatile uint32_t reloads;
 
 static void on_reload(void) {
-    tick_write16(base + STATUS_CLEAR, RELOAD_FLAG);
+    tick_write16(base + Q16_STATUS_CLEAR, DEMO_FLAG_RELOAD);
     reloads = reloads + 1;
 }
 
@@ -39,17 +31,19 @@ void tick_firmware_main(void) {
     reloads = 0;
 
     tick_irq_set_handler((unsigned)line, on_reload);
-    tick_write16(base + SCALE, 0);
-    tick_write16(base + LIMIT, 1919);
-    tick_write16(base + MATCH_A, 480);
-    tick_write16(base + MATCH_B, 960);
+    tick_write16(base + Q16_SCALE, 0);
+    tick_write16(base + Q16_LIMIT, 1919);
+    tick_write16(base + Q16_MATCH(0), 480);
+    tick_write16(base + Q16_MATCH(1), 960);
     /* Channels 1 and 2: active while the counter is below the compare value, main output on. */
-    tick_write16(base + SHAPE_AB, 0x1616u);
-    tick_write8(base + KICK, 1); /* load the settings now */
-    tick_write16(base + STATUS_CLEAR, RELOAD_FLAG);
-    tick_write16(base + NOTIFY, RELOAD_FLAG);
+    const unsigned shape = Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) | Q16_SHAPE_MAIN_ENABLE;
+    tick_write16(base + Q16_SHAPE_AB,
+                 (uint16_t)(Q16_SHAPE_BYTE(0, shape) | Q16_SHAPE_BYTE(1, shape)));
+    tick_write8(base + Q16_KICK, Q16_KICK_FORCE_RELOAD); /* load the settings now */
+    tick_write16(base + Q16_STATUS_CLEAR, DEMO_FLAG_RELOAD);
+    tick_write16(base + Q16_NOTIFY, DEMO_FLAG_RELOAD);
     tick_irq_line_enable((unsigned)line);
-    tick_write16(base + RUN, 0x0021u); /* count up; keep the reset slope bits */
+    tick_write16(base + Q16_RUN, Q16_RUN_ENABLE | Q16_RUN_SLOPE(DEMO_SLOPE_BOTH)); /* count up */
 
     while (reloads < (uint32_t)wanted) tick_wait_for_interrupt();
     tick_log("%u reloads seen", (unsigned)reloads);

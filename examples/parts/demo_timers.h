@@ -1,0 +1,116 @@
+/* Register offsets and bit encodings of the demo part's two timer layouts, for firmware written
+ * against the demo part (models/layouts/timer16_quad.toml and timer32_dual.toml; the tables are in
+ * docs/register-layouts.md). The layouts are of our own design. A test (tests/bus/
+ * demo_encoding_test.cpp) reads both layout files and proves every value here is what the timer
+ * model decodes, so this header, the layout files and the docs cannot drift apart.
+ */
+#ifndef TICKBENCH_DEMO_TIMERS_H
+#define TICKBENCH_DEMO_TIMERS_H
+
+/* Output action codes (docs/timer-model.md, "Output actions"): a 4-bit code, the kind in bits 2..3
+ * and the variant in bits 0..1. */
+#define DEMO_ACTION_HOLD 0x0u
+#define DEMO_ACTION_PWM_BELOW 0x4u
+#define DEMO_ACTION_PWM_AT_OR_ABOVE 0x5u
+#define DEMO_ACTION_TOGGLE_ON_MATCH 0x8u
+#define DEMO_ACTION_SET_ON_MATCH 0x9u
+#define DEMO_ACTION_CLEAR_ON_MATCH 0xau
+#define DEMO_ACTION_FORCE_LOW 0xcu
+#define DEMO_ACTION_FORCE_HIGH 0xdu
+
+/* Count modes, match slopes and reload policies as the demo layouts encode them. */
+#define DEMO_MODE_UP 0u
+#define DEMO_MODE_DOWN 1u
+#define DEMO_MODE_CENTER 2u
+#define DEMO_SLOPE_UP 0u
+#define DEMO_SLOPE_DOWN 1u
+#define DEMO_SLOPE_BOTH 2u
+#define DEMO_RELOAD_EVERY 0u
+#define DEMO_RELOAD_QUIET_FORCED 1u
+#define DEMO_RELOAD_HELD 2u
+/* trigger_select: 0 none, 1 + c channel c's match, 7 the reload event. */
+#define DEMO_TRIGGER_NONE 0u
+#define DEMO_TRIGGER_ON_MATCH(c) (1u + (c))
+#define DEMO_TRIGGER_ON_RELOAD 7u
+
+/* Flag and interrupt-enable bits of both layouts: channel c at bit c, reload 8, fault 9. */
+#define DEMO_FLAG_CHANNEL(c) (1u << (c))
+#define DEMO_FLAG_RELOAD 0x100u
+#define DEMO_FLAG_FAULT 0x200u
+
+/* ---- timer16_quad: 16-bit counter, 4 channels, complementary outputs, dead time, fault ---- */
+#define Q16_COUNT 0x00u        /* counter */
+#define Q16_LIMIT 0x02u        /* period */
+#define Q16_SCALE 0x04u        /* prescaler */
+#define Q16_SKIP 0x06u         /* wrap skip (8-bit register) */
+#define Q16_MATCH(c) (0x08u + 2u * (c))
+#define Q16_RUN 0x10u          /* counting */
+#define Q16_KICK 0x12u         /* one-shot commands (8-bit register) */
+#define Q16_PRELOAD 0x13u      /* preload switches (8-bit register) */
+#define Q16_SHAPE_AB 0x14u     /* output shaping of channels 0 (low byte) and 1 (high byte) */
+#define Q16_SHAPE_CD 0x16u     /* the same for channels 2 and 3 */
+#define Q16_DEAD 0x18u         /* dead time */
+#define Q16_GUARD 0x1au        /* fault input */
+#define Q16_NOTIFY 0x1cu       /* interrupt enables */
+#define Q16_STATUS 0x1eu       /* flags, read-only */
+#define Q16_STATUS_CLEAR 0x20u /* flags, write 1 to clear */
+
+/* run */
+#define Q16_RUN_ENABLE 0x0001u
+#define Q16_RUN_MODE(m) ((unsigned)(m) << 1)
+#define Q16_RUN_SLOPE(s) ((unsigned)(s) << 3)
+#define Q16_RUN_ONE_PULSE 0x0020u
+#define Q16_RUN_DIRECTION_DOWN 0x0080u
+#define Q16_RUN_RELOAD_POLICY(p) ((unsigned)(p) << 8)
+#define Q16_RUN_TRIGGER(t) ((unsigned)(t) << 12)
+/* kick */
+#define Q16_KICK_FORCE_RELOAD 0x01u
+#define Q16_KICK_REARM 0x02u
+/* preload */
+#define Q16_PRELOAD_COMPARE(c) (1u << (c))
+#define Q16_PRELOAD_PERIOD 0x80u
+/* one shaping byte per channel; place it with Q16_SHAPE_BYTE(c, byte) in SHAPE_AB / SHAPE_CD */
+#define Q16_SHAPE_ACTION(a) ((unsigned)(a))
+#define Q16_SHAPE_MAIN_ENABLE 0x10u
+#define Q16_SHAPE_COMP_ENABLE 0x20u
+#define Q16_SHAPE_MAIN_ACTIVE_LOW 0x40u
+#define Q16_SHAPE_COMP_ACTIVE_LOW 0x80u
+#define Q16_SHAPE_REG(c) ((c) < 2u ? Q16_SHAPE_AB : Q16_SHAPE_CD)
+#define Q16_SHAPE_BYTE(c, byte) ((unsigned)(byte) << (8u * ((c) & 1u)))
+/* guard */
+#define Q16_GUARD_MAIN_SAFE_HIGH(c) (1u << (c))
+#define Q16_GUARD_COMP_SAFE_HIGH(c) (1u << (4u + (c)))
+#define Q16_GUARD_LATENCY(ticks) ((unsigned)(ticks) << 8)
+#define Q16_GUARD_FAULT_ENABLE 0x8000u
+
+/* ---- timer32_dual: 32-bit counter, 2 channels ---- */
+#define D32_COUNT 0x00u
+#define D32_LIMIT 0x04u
+#define D32_SCALE 0x08u
+#define D32_MATCH(c) (0x0cu + 4u * (c))
+#define D32_SETUP 0x14u
+#define D32_COMMAND 0x18u
+#define D32_OUTPUTS 0x1cu
+#define D32_TAKE 0x20u    /* flags, cleared by the read that returns them */
+#define D32_PENDING 0x24u /* flags, read-only */
+#define D32_ALERTS 0x28u  /* interrupt enables */
+
+/* setup */
+#define D32_SETUP_ENABLE 0x0001u
+#define D32_SETUP_ONE_PULSE 0x0002u
+#define D32_SETUP_PERIOD_PRELOAD 0x0004u
+#define D32_SETUP_MODE(m) ((unsigned)(m) << 4)
+#define D32_SETUP_SLOPE(s) ((unsigned)(s) << 6)
+#define D32_SETUP_RELOAD_POLICY(p) ((unsigned)(p) << 8)
+#define D32_SETUP_TRIGGER(t) ((unsigned)(t) << 12)
+#define D32_SETUP_DIRECTION_DOWN 0x80000000u
+/* command */
+#define D32_COMMAND_FORCE_RELOAD 0x1u
+/* one outputs byte per channel, at bits 8c..8c+7 */
+#define D32_OUTPUT_ACTION(a) ((unsigned)(a))
+#define D32_OUTPUT_MAIN_ENABLE 0x10u
+#define D32_OUTPUT_MAIN_ACTIVE_LOW 0x20u
+#define D32_OUTPUT_COMPARE_PRELOAD 0x40u
+#define D32_OUTPUT_BYTE(c, byte) ((unsigned)(byte) << (8u * (c)))
+
+#endif
