@@ -1,7 +1,7 @@
 #pragma once
-// Wording shared by the scenario readers (the clock-tree loader, the scenario loader): how a TOML
+// Wording shared by the TOML reader (sim/toml_reader.h) and the loaders built on it: how a TOML
 // value reads in a message, "did you mean" hints for misspelt keys and names, and lists.
-// Includes toml++: only scenario-reading sources include this header.
+// Includes toml++ for got()'s node: only file-reading sources include this header.
 
 #include <toml++/toml.h>
 

@@ -39,10 +39,10 @@
 #define DEMO_FLAG_FAULT 0x200u
 
 /* ---- timer16_quad: 16-bit counter, 4 channels, complementary outputs, dead time, fault ---- */
-#define Q16_COUNT 0x00u        /* counter */
-#define Q16_LIMIT 0x02u        /* period */
-#define Q16_SCALE 0x04u        /* prescaler */
-#define Q16_SKIP 0x06u         /* wrap skip (8-bit register) */
+#define Q16_COUNT 0x00u /* counter */
+#define Q16_LIMIT 0x02u /* period */
+#define Q16_SCALE 0x04u /* prescaler */
+#define Q16_SKIP 0x06u  /* wrap skip (8-bit register) */
 #define Q16_MATCH(c) (0x08u + 2u * (c))
 #define Q16_RUN 0x10u          /* counting */
 #define Q16_KICK 0x12u         /* one-shot commands (8-bit register) */
@@ -76,7 +76,7 @@
 #define Q16_SHAPE_MAIN_ACTIVE_LOW 0x40u
 #define Q16_SHAPE_COMP_ACTIVE_LOW 0x80u
 #define Q16_SHAPE_REG(c) ((c) < 2u ? Q16_SHAPE_AB : Q16_SHAPE_CD)
-#define Q16_SHAPE_BYTE(c, byte) ((unsigned)(byte) << (8u * ((c) & 1u)))
+#define Q16_SHAPE_BYTE(c, byte) ((unsigned)(byte) << (8u * ((c)&1u)))
 /* guard */
 #define Q16_GUARD_MAIN_SAFE_HIGH(c) (1u << (c))
 #define Q16_GUARD_COMP_SAFE_HIGH(c) (1u << (4u + (c)))

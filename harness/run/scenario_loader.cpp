@@ -8,16 +8,16 @@
 
 #include "harness/run/scenario.h"
 
-#include "harness/run/detail/toml_reader.h"
 #include "models/layout/register_layout.h"
 #include "sim/checks/check_spec_text.h"
 #include "sim/checks/condition.h"
 #include "sim/clock_tree_loader_toml.h"
 #include "sim/quantity.h"
+#include "sim/toml_reader.h"
+#include "sim/toml_text.h"
 #include "sim/vcd_writer.h"
 
 #include <algorithm>
-#include <cctype>
 #include <filesystem>
 #include <set>
 
@@ -25,12 +25,14 @@ namespace harness::run {
 
 namespace {
 
-using detail::findings_list;
-using detail::got;
-using detail::hint;
-using detail::in_quotes;
-using detail::join;
-using detail::table_reader;
+using sim::findings_list;
+using sim::got;
+using sim::hint;
+using sim::in_quotes;
+using sim::join;
+using sim::named_table;
+using sim::table_reader;
+using sim::unknown_name;
 namespace fs = std::filesystem;
 
 constexpr std::int64_t int64_max = std::numeric_limits<std::int64_t>::max();
@@ -38,13 +40,6 @@ constexpr std::int64_t max_cycles = 1'000'000'000;
 const char* const stimulus_message =
     "not supported yet (reserved for input stimulus, which a later version adds); remove this "
     "table";
-
-bool valid_name(const std::string& n) {
-    if (n.empty() || !std::isalpha(static_cast<unsigned char>(n[0]))) return false;
-    return std::all_of(n.begin(), n.end(), [](char c) {
-        return std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-';
-    });
-}
 
 std::string hex(std::uint64_t v) {
     char b[24];
@@ -70,17 +65,10 @@ std::string resolve(const fs::path& dir, const std::string& p) {
     return (dir / path).lexically_normal().string();
 }
 
-// The table under `key` of `root`, or null with a finding when it is something else.
+// The optional table under `key` of `root`, or null (with a finding when it is something else).
 const toml::table* sub_table(context& c, const toml::table& root, const std::string& key,
                              const std::string& accepted) {
-    const toml::node* n = root.get(key);
-    if (!n) return nullptr;
-    if (!n->is_table()) {
-        c.out.add(n->source(), key,
-                  "expected a table [" + key + "], got " + got(*n) + "; accepted: " + accepted);
-        return nullptr;
-    }
-    return n->as_table();
+    return table_reader(c.out, root, "").sub_table(key, false, accepted);
 }
 
 // ---- [run] ---------------------------------------------------------------------------------
@@ -89,13 +77,8 @@ void read_run(context& c, const toml::table& root) {
     const toml::table* t = sub_table(c, root, "run", "duration, seed, resolution, unmapped");
     if (!t) return;
     table_reader r(c.out, *t, "run");
-    r.reject_unknown_keys({"duration", "seed", "resolution", "unmapped"}, "[run]");
-    c.s.run.duration = r.time("duration");
-    if (c.s.run.duration && *c.s.run.duration == 0) {
-        r.report("duration", "expected a time above 0 ps, got \"0\"; accepted: " +
-                                 std::string(detail::time_words));
-        c.s.run.duration.reset();
-    }
+    r.reject_unknown_keys({"duration", "seed", "resolution", "unmapped"}, "the run");
+    c.s.run.duration = r.positive_time("duration");
     if (auto seed = r.integer("seed", 0, int64_max))
         c.s.run.seed = static_cast<std::uint64_t>(*seed);
     if (const toml::node* res = r.get("resolution", false, "")) {
@@ -147,8 +130,7 @@ bool known_clock(context& c, table_reader& r, const std::string& key, const std:
     if (c.tree.has_node(name)) return true;
     auto names = c.tree.node_names();
     std::sort(names.begin(), names.end());
-    r.report(key, "unknown clock " + in_quotes(name) + hint(name, names) + "; accepted: one of " +
-                      join(names));
+    r.report(key, unknown_name("clock", name, names));
     return false;
 }
 
@@ -167,31 +149,17 @@ void read_timers(context& c, const toml::table& root) {
     const toml::table* timers = sub_table(c, root, "timers", "one table [timers.NAME] per timer");
     if (!timers) return;
     std::vector<const toml::table*> windows;  // parallel to c.s.timers
-    std::vector<std::pair<const toml::key*, const toml::node*>> entries;
-    for (auto&& [k, v] : *timers) entries.emplace_back(&k, &v);
-    std::stable_sort(entries.begin(), entries.end(), [](const auto& a, const auto& b) {
-        return a.second->source().begin < b.second->source().begin;
-    });
-    for (const auto& [k, v] : entries) {
-        const std::string name(k->str());
-        const std::string path = "timers." + name;
-        if (!valid_name(name)) {
-            c.out.add(k->source(), "timers.\"" + name + "\"",
-                      "timer name " + in_quotes(name) +
-                          " is not accepted; accepted: a letter followed by letters, digits, \"_\" "
-                          "or \"-\"");
+    for (const named_table& entry :
+         table_reader(c.out, *timers, "timers")
+             .named_tables("timer", sim::is_plain_name, sim::plain_name_words)) {
+        const std::string& name = entry.name;
+        if (!entry.name_ok || !entry.table) {
             c.broken_timers.insert(name);
             continue;
         }
-        if (!v->is_table()) {
-            c.out.add(v->source(), path,
-                      "expected a table [" + path + "] describing a timer, got " + got(*v));
-            c.broken_timers.insert(name);
-            continue;
-        }
-        const toml::table& t = *v->as_table();
-        table_reader r(c.out, t, path);
-        r.reject_unknown_keys(timer_keys, "a timer table");
+        const toml::table& t = *entry.table;
+        table_reader r(c.out, t, "timers." + name);
+        r.reject_unknown_keys(timer_keys, "a timer");
         timer_spec spec;
         spec.name = name;
         bool ok = true;
@@ -301,7 +269,7 @@ void read_cpu(context& c, const toml::table& root) {
     r.reject_unknown_keys(
         {"clock", "access-cycles", "interrupt-entry-cycles", "interrupt-exit-cycles", "quantum",
          "start-offset", "hang-accesses", "hang-wall-time"},
-        "[cpu]");
+        "the cpu");
     cpu_config cfg;
     if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
         cfg.clock = *clock;
@@ -313,12 +281,7 @@ void read_cpu(context& c, const toml::table& root) {
         cfg.irq_entry_cycles = static_cast<unsigned>(*v);
     if (auto v = r.integer("interrupt-exit-cycles", 0, max_cycles))
         cfg.irq_exit_cycles = static_cast<unsigned>(*v);
-    if (auto q = r.time("quantum")) {
-        if (*q == 0)
-            r.report("quantum", "expected a time above 0 ps, got \"0\"");
-        else
-            cfg.quantum = *q;
-    }
+    if (auto q = r.positive_time("quantum")) cfg.quantum = *q;
     if (auto v = r.integer("start-offset", 0, int64_max))
         cfg.start_offset_cycles = static_cast<std::uint64_t>(*v);
     if (auto v = r.integer("hang-accesses", 1, int64_max))
@@ -338,7 +301,8 @@ void read_firmware(context& c, const toml::table& root, const scenario_overrides
     firmware_settings fw;
     if (t) {
         table_reader r(c.out, *t, "firmware");
-        r.reject_unknown_keys({"library", "entry", "map-peripherals", "parameters"}, "[firmware]");
+        r.reject_unknown_keys({"library", "entry", "map-peripherals", "parameters"},
+                              "the firmware");
         if (auto lib = r.string(
                 "library", !ov.firmware,
                 "the path of the firmware's shared library, relative to the scenario file")) {
@@ -390,7 +354,7 @@ void read_waves(context& c, const toml::table& root, const std::vector<std::stri
         return;
     }
     table_reader r(c.out, *t, "waves");
-    r.reject_unknown_keys({"signals", "timescale", "enabled"}, "[waves]");
+    r.reject_unknown_keys({"signals", "timescale", "enabled"}, "the waveform");
     if (auto e = r.boolean("enabled")) c.s.waves.enabled = *e;
     if (const toml::node* ts = r.get("timescale", false, "")) {
         bool ok = false;
@@ -445,10 +409,9 @@ void read_waves(context& c, const toml::table& root, const std::vector<std::stri
         if (!matched && !c.broken_timers.count(owner)) {
             std::vector<std::string> accepted = signals;
             for (const timer_spec& ts : c.s.timers) accepted.push_back(ts.name + ".*");
-            c.out.add(e.source(), "waves." + key,
-                      "no signal " + in_quotes(pattern) + hint(pattern, accepted) + "; accepted: " +
-                          (signals.empty() ? std::string("none (the scenario has no timers)")
-                                           : join(accepted)));
+            c.out.add(
+                e.source(), "waves." + key,
+                unknown_name("signal", pattern, accepted, "none (the scenario has no timers)"));
         }
     }
     for (std::size_t s = 0; s < signals.size(); ++s)
@@ -540,7 +503,7 @@ std::optional<std::uint64_t> check_value(table_reader& r, const std::string& key
                 expected = "nothing (a never check has only a condition)";
                 break;
             default:
-                expected = detail::time_words;
+                expected = sim::time_words;
                 if (n->is_string()) return sim::parse_time(n->as_string()->get());
                 break;
         }
@@ -614,9 +577,8 @@ void read_tolerance(context& c, table_reader& r, sim::check_spec& spec) {
         if (!c.tree.has_node(clock)) {
             auto names = c.tree.node_names();
             std::sort(names.begin(), names.end());
-            r.report("tolerance", "tolerance " + in_quotes(text) + ": unknown clock " +
-                                      in_quotes(clock) + hint(clock, names) +
-                                      "; accepted: one of " + join(names));
+            r.report("tolerance",
+                     "tolerance " + in_quotes(text) + ": " + unknown_name("clock", clock, names));
             return;
         }
         for (const sim::clock_plan_row& row : c.tree.plan(0)) {
@@ -639,10 +601,8 @@ void check_signal_name(context& c, const toml::node& where, const std::string& k
                        const std::string& name, const std::vector<std::string>& signals) {
     if (std::find(signals.begin(), signals.end(), name) != signals.end()) return;
     if (c.broken_timers.count(name.substr(0, name.find('.')))) return;
-    c.out.add(
-        where.source(), key,
-        "unknown signal " + in_quotes(name) + hint(name, signals) + "; accepted: " +
-            (signals.empty() ? std::string("none (the scenario has no timers)") : join(signals)));
+    c.out.add(where.source(), key,
+              unknown_name("signal", name, signals, "none (the scenario has no timers)"));
 }
 
 void read_check(context& c, const toml::table& t, const std::string& path,
@@ -667,11 +627,8 @@ void read_check(context& c, const toml::table& t, const std::string& path,
     } else {
         ok = false;
     }
-    const auto kind_text = r.choice("kind", kinds);
-    if (!kind_text) {
-        if (!r.has("kind")) r.get("kind", true, "one of " + join(kinds));
-        return;
-    }
+    const auto kind_text = r.choice("kind", kinds, true);
+    if (!kind_text) return;
     spec.kind = *sim::check_kind_from_string(*kind_text);
 
     // Signals.
@@ -772,23 +729,9 @@ void read_check(context& c, const toml::table& t, const std::string& path,
                          "period check");
                 ok = false;
             }
-        if (const toml::node* n = r.get("expected", true, detail::frequency_words)) {
-            try {
-                if (const auto* i = n->as_integer(); i && i->get() > 0)
-                    spec.expected_frequency =
-                        sim::frequency::hz(static_cast<std::uint64_t>(i->get()));
-                else if (n->is_string())
-                    spec.expected_frequency = sim::parse_frequency(n->as_string()->get());
-                else
-                    r.wrong(*n, "expected", detail::frequency_words);
-            } catch (const sim::quantity_error& e) {
-                r.report("expected",
-                         std::string(e.what()) + "; expected " + detail::frequency_words);
-            }
-            if (!spec.expected_frequency) ok = false;
-        } else {
-            ok = false;
-        }
+        // 0 Hz reads, and validate() below says a frequency check needs more.
+        spec.expected_frequency = r.frequency_at("expected", true);
+        if (!spec.expected_frequency) ok = false;
     } else {
         for (const char* key : {"expected", "minimum", "maximum"}) {
             auto v = check_value(r, key, spec);

@@ -26,7 +26,8 @@ std::string describe_fields(const register_map& reg) {
         out += bit_range(f.bit, f.width) + " " + to_string(f.field);
         if (is_channel_field(f.field)) out += "[" + std::to_string(f.channel) + "]";
         if (f.value_bit != 0)
-            out += (f.width == 1 ? " value bit " : " value bits ") + bit_range(f.value_bit, f.width);
+            out +=
+                (f.width == 1 ? " value bit " : " value bits ") + bit_range(f.value_bit, f.width);
         if (f.access != access_kind::read_write)
             out += std::string(" (") + to_string(f.access) + ")";
     }

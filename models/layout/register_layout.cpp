@@ -1,16 +1,17 @@
 #include "models/layout/register_layout.h"
 
-#include <toml++/toml.h>
+#include "sim/toml_reader.h"
 
 #include <algorithm>
 #include <array>
-#include <fstream>
 #include <sstream>
 #include <utility>
 
 namespace models {
 
 namespace {
+
+using sim::table_reader;
 
 constexpr std::array<access_kind, 5> all_access_kinds = {
     access_kind::read_write, access_kind::read_only, access_kind::write_one_to_clear,
@@ -24,17 +25,17 @@ std::string hex(std::uint64_t v) {
     return s.str();
 }
 
-std::string field_names() {
-    std::string s;
+std::vector<std::string> field_names() {
+    std::vector<std::string> names;
     for (auto i = 0u; i <= static_cast<unsigned>(last_field); ++i)
-        s += (i ? ", " : "") + std::string(to_string(static_cast<timer_field>(i)));
-    return s;
+        names.emplace_back(to_string(static_cast<timer_field>(i)));
+    return names;
 }
 
-std::string access_names() {
-    std::string s;
-    for (auto k : all_access_kinds) s += (s.empty() ? "" : ", ") + std::string(to_string(k));
-    return s;
+std::vector<std::string> access_names() {
+    std::vector<std::string> names;
+    for (auto k : all_access_kinds) names.emplace_back(to_string(k));
+    return names;
 }
 
 std::string bit_range(unsigned lo, unsigned width) {
@@ -48,152 +49,41 @@ unsigned bits_for(std::uint64_t max_value) {
     return n;
 }
 
-// Collects findings while one file is read; every check goes on after a mistake so a user sees
-// them all at once.
-class reader {
-public:
-    explicit reader(std::string file) : file_(std::move(file)) {}
-
-    void fail(const toml::source_region& where, const std::string& key,
-              const std::string& message) {
-        findings_.push_back({file_, where.begin.line, where.begin.column, key, message});
-    }
-    void fail(const toml::node& where, const std::string& key, const std::string& message) {
-        fail(where.source(), key, message);
-    }
-    bool failed() const { return !findings_.empty(); }
-    [[noreturn]] void raise() {
-        std::stable_sort(findings_.begin(), findings_.end(), [](const auto& a, const auto& b) {
-            return std::pair(a.line, a.column) < std::pair(b.line, b.column);
-        });
-        throw sim::scenario_error(std::move(findings_));
-    }
-    const std::string& file() const { return file_; }
-
-    // Reports keys of `t` not in `accepted`.
-    void only_keys(const toml::table& t, const std::string& path,
-                   std::initializer_list<std::string_view> accepted) {
-        for (auto&& [k, v] : t) {
-            if (std::find(accepted.begin(), accepted.end(), k.str()) != accepted.end()) continue;
-            std::string list;
-            for (auto a : accepted) list += (list.empty() ? "" : ", ") + std::string(a);
-            fail(k.source(), join(path, k.str()), "unknown key; accepted: " + list);
-        }
-    }
-
-    // A required or optional whole number within [lo, hi].
-    std::optional<std::uint64_t> number(const toml::table& t, std::string_view key,
-                                        const std::string& path, std::uint64_t lo, std::uint64_t hi,
-                                        bool required, const std::string& range_text = "") {
-        const auto* n = t.get(key);
-        const auto full = join(path, key);
-        const auto accepted = range_text.empty() ? "a whole number from " + std::to_string(lo) +
-                                                       " to " + std::to_string(hi)
-                                                 : range_text;
-        if (n == nullptr) {
-            if (required) fail(t, full, "missing; accepted: " + accepted);
-            return std::nullopt;
-        }
-        const auto* i = n->as_integer();
-        if (i == nullptr) {
-            fail(*n, full,
-                 "expected a whole number, got a " + type_name(*n) + "; accepted: " + accepted);
-            return std::nullopt;
-        }
-        const auto v = i->get();
-        if (v < 0 || static_cast<std::uint64_t>(v) < lo || static_cast<std::uint64_t>(v) > hi) {
-            fail(*n, full, std::to_string(v) + " is out of range; accepted: " + accepted);
-            return std::nullopt;
-        }
-        return static_cast<std::uint64_t>(v);
-    }
-
-    std::optional<std::string> text(const toml::table& t, std::string_view key,
-                                    const std::string& path, bool required,
-                                    const std::string& accepted) {
-        const auto* n = t.get(key);
-        if (n == nullptr) {
-            if (required) fail(t, join(path, key), "missing; accepted: " + accepted);
-            return std::nullopt;
-        }
-        if (const auto* s = n->as_string()) return s->get();
-        fail(*n, join(path, key),
-             "expected a string, got a " + type_name(*n) + "; accepted: " + accepted);
-        return std::nullopt;
-    }
-
-    std::optional<bool> flag(const toml::table& t, std::string_view key, const std::string& path) {
-        const auto* n = t.get(key);
-        if (n == nullptr) return std::nullopt;
-        if (const auto* b = n->as_boolean()) return b->get();
-        fail(*n, join(path, key), "expected true or false, got a " + type_name(*n));
-        return std::nullopt;
-    }
-
-    static std::string join(const std::string& path, std::string_view key) {
-        return path.empty() ? std::string(key) : path + "." + std::string(key);
-    }
-    static std::string type_name(const toml::node& n) {
-        switch (n.type()) {
-            case toml::node_type::table:
-                return "table";
-            case toml::node_type::array:
-                return "array";
-            case toml::node_type::string:
-                return "string";
-            case toml::node_type::integer:
-                return "whole number";
-            case toml::node_type::floating_point:
-                return "decimal number";
-            case toml::node_type::boolean:
-                return "boolean";
-            default:
-                return "date or time";
-        }
-    }
-
-private:
-    std::string file_;
-    std::vector<sim::scenario_finding> findings_;
-};
-
-void read_instance(reader& r, const toml::table& root, timer_config& cfg) {
-    const auto* node = root.get("instance");
-    if (node == nullptr) {
-        r.fail(root.source(), "instance",
-               "missing table; accepted: [instance] with counter_bits, channels and the optional "
-               "prescaler_bits, wrap_skip_bits, prescaler_shadowed, complementary, dead_time_max, "
-               "compare_latency");
-        return;
-    }
-    const auto* t = node->as_table();
-    if (t == nullptr) {
-        r.fail(*node, "instance", "expected a table, got a " + reader::type_name(*node));
-        return;
-    }
-    const std::string p = "instance";
-    r.only_keys(*t, p,
-                {"counter_bits", "channels", "prescaler_bits", "wrap_skip_bits",
-                 "prescaler_shadowed", "complementary", "dead_time_max", "compare_latency"});
-    if (auto v = r.number(*t, "counter_bits", p, 8, 32, true)) cfg.counter_bits = unsigned(*v);
-    if (auto v = r.number(*t, "channels", p, 1, 6, true)) cfg.channels = unsigned(*v);
-    if (auto v = r.number(*t, "prescaler_bits", p, 1, 32, false)) cfg.prescaler_bits = unsigned(*v);
-    if (auto v = r.number(*t, "wrap_skip_bits", p, 0, 16, false)) cfg.wrap_skip_bits = unsigned(*v);
-    if (auto v = r.flag(*t, "prescaler_shadowed", p)) cfg.prescaler_shadowed = *v;
-    if (auto v = r.flag(*t, "complementary", p)) cfg.complementary = *v;
-    if (auto v = r.number(*t, "dead_time_max", p, 0, 0xffff'ffffu, false))
-        cfg.dead_time_max = unsigned(*v);
-    if (auto v = r.number(*t, "compare_latency", p, 0, 2, false))
-        cfg.compare_latency = unsigned(*v);
+// Register names: lower-case letters, digits and "_".
+bool is_register_name(const std::string& name) {
+    return std::all_of(name.begin(), name.end(), [](char c) {
+        return (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c == '_';
+    });
 }
 
-// Reads `bits`: a bit number (3) or a range "lo..hi".
-bool read_bits(reader& r, const toml::node& n, const std::string& key, unsigned& lo,
-               unsigned& width) {
-    const std::string accepted = "a bit number such as 3, or a range \"lo..hi\" such as \"0..15\"";
+void read_instance(table_reader& top, timer_config& cfg) {
+    const toml::table* t =
+        top.sub_table("instance", true,
+                      "counter_bits, channels and the optional prescaler_bits, wrap_skip_bits, "
+                      "prescaler_shadowed, complementary, dead_time_max, compare_latency");
+    if (t == nullptr) return;
+    table_reader r(top.findings(), *t, "instance");
+    r.reject_unknown_keys(
+        {"counter_bits", "channels", "prescaler_bits", "wrap_skip_bits", "prescaler_shadowed",
+         "complementary", "dead_time_max", "compare_latency"},
+        "the timer instance");
+    if (auto v = r.integer("counter_bits", 8, 32, true)) cfg.counter_bits = unsigned(*v);
+    if (auto v = r.integer("channels", 1, 6, true)) cfg.channels = unsigned(*v);
+    if (auto v = r.integer("prescaler_bits", 1, 32)) cfg.prescaler_bits = unsigned(*v);
+    if (auto v = r.integer("wrap_skip_bits", 0, 16)) cfg.wrap_skip_bits = unsigned(*v);
+    if (auto v = r.boolean("prescaler_shadowed")) cfg.prescaler_shadowed = *v;
+    if (auto v = r.boolean("complementary")) cfg.complementary = *v;
+    if (auto v = r.integer("dead_time_max", 0, 0xffff'ffffLL)) cfg.dead_time_max = unsigned(*v);
+    if (auto v = r.integer("compare_latency", 0, 2)) cfg.compare_latency = unsigned(*v);
+}
+
+// Reads `bits`, the node `n` of the field table `r`: a bit number (3) or a range "lo..hi".
+bool read_bits(table_reader& r, const toml::node& n, unsigned& lo, unsigned& width) {
+    const std::string accepted =
+        "a bit number from 0 to 31, or a range \"lo..hi\" such as \"0..15\"";
     if (const auto* i = n.as_integer()) {
         if (i->get() < 0 || i->get() > 31) {
-            r.fail(n, key, std::to_string(i->get()) + " is not a bit number; accepted: 0 to 31");
+            r.wrong(n, "bits", accepted);
             return false;
         }
         lo = unsigned(i->get());
@@ -202,9 +92,7 @@ bool read_bits(reader& r, const toml::node& n, const std::string& key, unsigned&
     }
     const auto* s = n.as_string();
     if (s == nullptr) {
-        r.fail(n, key,
-               "expected a bit number or a string, got a " + reader::type_name(n) +
-                   "; accepted: " + accepted);
+        r.wrong(n, "bits", accepted);
         return false;
     }
     const std::string& t = s->get();
@@ -221,17 +109,17 @@ bool read_bits(reader& r, const toml::node& n, const std::string& key, unsigned&
     unsigned a = 0, b = 0;
     if (dots == std::string::npos || !whole(std::string_view(t).substr(0, dots), a) ||
         !whole(std::string_view(t).substr(dots + 2), b)) {
-        r.fail(n, key, "\"" + t + "\" is not a bit range; accepted: " + accepted);
+        r.wrong(n, "bits", accepted);
         return false;
     }
     if (b < a) {
-        r.fail(n, key,
-               "\"" + t + "\" runs downwards; accepted: the low bit first, \"" + std::to_string(b) +
-                   ".." + std::to_string(a) + "\"");
+        r.report(n, "bits",
+                 "\"" + t + "\" runs downwards; accepted: the low bit first, \"" +
+                     std::to_string(b) + ".." + std::to_string(a) + "\"");
         return false;
     }
     if (b > 31) {
-        r.fail(n, key, "\"" + t + "\" goes past bit 31; accepted: bits within 0..31");
+        r.report(n, "bits", "\"" + t + "\" goes past bit 31; accepted: bits within 0..31");
         return false;
     }
     lo = a;
@@ -239,101 +127,87 @@ bool read_bits(reader& r, const toml::node& n, const std::string& key, unsigned&
     return true;
 }
 
-void read_field(reader& r, const toml::node& n, const std::string& path, const timer_config& cfg,
+// Reads entry `index` of the register's `fields` array (`fields` reads the register's table).
+void read_field(table_reader& fields, std::size_t index, const timer_config& cfg,
                 const register_map& reg, std::vector<field_map>& out,
                 std::vector<toml::source_region>& where) {
+    const std::string item = "fields[" + std::to_string(index) + "]";
+    const toml::node& n = *fields.table().get("fields")->as_array()->get(index);
     const auto* t = n.as_table();
     if (t == nullptr) {
-        r.fail(n, path,
-               "expected a table such as { field = \"period\", bits = \"0..15\", access = "
-               "\"read-write\" }, got a " +
-                   reader::type_name(n));
+        fields.wrong(n, item,
+                     "a table such as { field = \"period\", bits = \"0..15\", access = "
+                     "\"read-write\" }");
         return;
     }
-    r.only_keys(*t, path, {"field", "channel", "bits", "value_bit", "access"});
+    table_reader r(fields.findings(), *t, fields.key_path(item));
+    r.reject_unknown_keys({"field", "channel", "bits", "value_bit", "access"}, "a register field");
     bool ok = true;
     field_map f;
 
-    const auto name = r.text(*t, "field", path, true, "one of " + field_names());
-    if (!name) {
+    const auto name = r.choice("field", field_names(), true);
+    if (name)
+        f.field = *timer_field_from_string(*name);
+    else
         ok = false;
-    } else if (auto tf = timer_field_from_string(*name)) {
-        f.field = *tf;
-    } else {
-        r.fail(*t->get("field"), path + ".field",
-               "unknown functional field \"" + *name + "\"; accepted: " + field_names());
-        ok = false;
-    }
 
     const auto* ch = t->get("channel");
     if (ok && is_channel_field(f.field)) {
         const auto max_ch = cfg.channels - 1;
+        const std::string accepted = "a channel from 0 to " + std::to_string(max_ch);
         if (ch == nullptr) {
-            r.fail(*t, path + ".channel",
-                   std::string("missing: \"") + to_string(f.field) +
-                       "\" is a per-channel field; accepted: a channel from 0 to " +
-                       std::to_string(max_ch));
+            r.report("channel", "missing key \"channel\": \"" + std::string(to_string(f.field)) +
+                                    "\" is a per-channel field; accepted: " + accepted);
             ok = false;
         } else if (const auto* i = ch->as_integer(); i == nullptr || i->get() < 0) {
-            r.fail(*ch, path + ".channel",
-                   "expected a channel number; accepted: 0 to " + std::to_string(max_ch));
+            r.wrong(*ch, "channel", accepted);
             ok = false;
         } else if (std::uint64_t(i->get()) > max_ch) {
-            r.fail(*ch, path + ".channel",
-                   "channel " + std::to_string(i->get()) + " is beyond the instance's " +
-                       std::to_string(cfg.channels) + " channels; accepted: 0 to " +
-                       std::to_string(max_ch));
+            r.report("channel", "channel " + std::to_string(i->get()) +
+                                    " is beyond the instance's " + std::to_string(cfg.channels) +
+                                    " channels; accepted: 0 to " + std::to_string(max_ch));
             ok = false;
         } else {
             f.channel = unsigned(i->get());
         }
     } else if (ok && ch != nullptr) {
-        r.fail(*ch, path + ".channel",
-               std::string("\"") + to_string(f.field) +
-                   "\" is not a per-channel field; accepted: no channel key");
+        r.report("channel", std::string("\"") + to_string(f.field) +
+                                "\" is not a per-channel field; accepted: no channel key");
         ok = false;
     }
 
-    if (const auto* b = t->get("bits"); b == nullptr) {
-        r.fail(*t, path + ".bits",
-               "missing; accepted: a bit number such as 3, or a range \"lo..hi\"");
-        ok = false;
-    } else if (!read_bits(r, *b, path + ".bits", f.bit, f.width)) {
+    if (const auto* b = r.get("bits", true, "a bit number such as 3, or a range \"lo..hi\"");
+        b == nullptr || !read_bits(r, *b, f.bit, f.width)) {
         ok = false;
     } else if (f.bit + f.width > reg.width) {
-        r.fail(*b, path + ".bits",
-               "field " + bit_range(f.bit, f.width) + " overflows the " +
-                   std::to_string(reg.width) + "-bit register; accepted: bits within 0.." +
-                   std::to_string(reg.width - 1));
+        r.report("bits", "field " + bit_range(f.bit, f.width) + " overflows the " +
+                             std::to_string(reg.width) +
+                             "-bit register; accepted: bits within 0.." +
+                             std::to_string(reg.width - 1));
         ok = false;
     }
 
-    if (auto v = r.number(*t, "value_bit", path, 0, 31, false)) f.value_bit = unsigned(*v);
+    if (auto v = r.integer("value_bit", 0, 31)) f.value_bit = unsigned(*v);
 
-    if (const auto kind = r.text(*t, "access", path, true, "one of " + access_names()); !kind) {
+    if (const auto kind = r.choice("access", access_names(), true); !kind) {
         ok = false;
-    } else if (auto k = access_kind_from_string(*kind)) {
-        f.access = *k;
-        const bool clears =
-            *k == access_kind::write_one_to_clear || *k == access_kind::clear_on_read;
+    } else {
+        const auto k = *access_kind_from_string(*kind);
+        f.access = k;
+        const bool clears = k == access_kind::write_one_to_clear || k == access_kind::clear_on_read;
         if (name && ok && clears && f.field != timer_field::flags) {
-            r.fail(*t->get("access"), path + ".access",
-                   "\"" + *kind +
-                       "\" clears flags and only suits the flags field; accepted for \"" + *name +
-                       "\": read-write, read-only, write-only");
+            r.report("access", "\"" + *kind +
+                                   "\" clears flags and only suits the flags field; accepted for "
+                                   "\"" +
+                                   *name + "\": read-write, read-only, write-only");
             ok = false;
         } else if (name && ok && f.field == timer_field::flags &&
-                   (*k == access_kind::read_write || *k == access_kind::write_only)) {
-            r.fail(*t->get("access"), path + ".access",
-                   "flags are not written as data; accepted for \"flags\": read-only, "
-                   "write-one-to-clear, "
-                   "clear-on-read");
+                   (k == access_kind::read_write || k == access_kind::write_only)) {
+            r.report("access",
+                     "flags are not written as data; accepted for \"flags\": read-only, "
+                     "write-one-to-clear, clear-on-read");
             ok = false;
         }
-    } else {
-        r.fail(*t->get("access"), path + ".access",
-               "unknown access kind \"" + *kind + "\"; accepted: " + access_names());
-        ok = false;
     }
 
     if (!ok) return;
@@ -341,29 +215,27 @@ void read_field(reader& r, const toml::node& n, const std::string& path, const t
         std::string why = f.field == timer_field::wrap_skip
                               ? "the instance has no wrap skip count (wrap_skip_bits = 0)"
                               : "the instance has no complementary outputs (complementary = false)";
-        r.fail(*t->get("field"), path + ".field",
-               std::string("\"") + to_string(f.field) + "\" does not exist here: " + why +
-                   "; accepted: fields the instance has");
+        r.report("field", std::string("\"") + to_string(f.field) + "\" does not exist here: " +
+                              why + "; accepted: fields the instance has");
         return;
     }
     const unsigned vw = value_width(cfg, f.field);
     if (f.value_bit + f.width > vw) {
-        const auto* at = t->get("value_bit") ? t->get("value_bit") : t->get("bits");
-        r.fail(*at, path + (t->get("value_bit") ? ".value_bit" : ".bits"),
-               "the field holds value bits " + bit_range(f.value_bit, f.width) + " but \"" +
-                   to_string(f.field) + "\" has " + std::to_string(vw) +
-                   " bits in this instance; accepted: value bits within 0.." +
-                   std::to_string(vw - 1));
+        r.report(t->get("value_bit") ? "value_bit" : "bits",
+                 "the field holds value bits " + bit_range(f.value_bit, f.width) + " but \"" +
+                     to_string(f.field) + "\" has " + std::to_string(vw) +
+                     " bits in this instance; accepted: value bits within 0.." +
+                     std::to_string(vw - 1));
         return;
     }
     for (std::size_t i = 0; i < out.size(); ++i) {
         const auto& o = out[i];
         if ((o.register_mask() & f.register_mask()) != 0) {
-            r.fail(*t->get("bits"), path + ".bits",
-                   "field " + bit_range(f.bit, f.width) + " overlaps field " + std::to_string(i) +
-                       " (\"" + to_string(o.field) + "\", bits " + bit_range(o.bit, o.width) +
-                       ") at line " + std::to_string(where[i].begin.line) +
-                       "; accepted: bits no other field of \"" + reg.name + "\" uses");
+            r.report("bits", "field " + bit_range(f.bit, f.width) + " overlaps field " +
+                                 std::to_string(i) + " (\"" + to_string(o.field) + "\", bits " +
+                                 bit_range(o.bit, o.width) + ") at line " +
+                                 std::to_string(where[i].begin.line) +
+                                 "; accepted: bits no other field of \"" + reg.name + "\" uses");
             return;
         }
     }
@@ -371,100 +243,75 @@ void read_field(reader& r, const toml::node& n, const std::string& path, const t
     where.push_back(n.source());
 }
 
-void read_register(reader& r, const toml::key& key, const toml::node& n, const timer_config& cfg,
+void read_register(sim::findings_list& out, const sim::named_table& entry, const timer_config& cfg,
                    std::uint32_t window, register_layout& layout) {
-    const std::string path = "registers." + std::string(key.str());
-    const auto* t = n.as_table();
-    if (t == nullptr) {
-        r.fail(
-            n, path,
-            "expected a table with offset, width, reset and fields, got a " + reader::type_name(n));
-        return;
-    }
-    r.only_keys(*t, path, {"offset", "width", "reset", "fields"});
+    table_reader r(out, *entry.table, "registers." + entry.name);
+    r.reject_unknown_keys({"offset", "width", "reset", "fields"}, "a register");
     register_map reg;
-    reg.name = std::string(key.str());
-    bool ok = true;
-    for (char c : reg.name) {
-        if (!((c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c == '_')) {
-            r.fail(key.source(), path,
-                   "register name \"" + reg.name +
-                       "\" has a character other than a-z, 0-9 and _; accepted: names like "
-                       "\"match_a\"");
-            ok = false;
-            break;
-        }
-    }
-    const auto width = r.number(*t, "width", path, 8, 32, true, "8, 16 or 32");
+    reg.name = entry.name;
+    bool ok = entry.name_ok;
+    const auto width = r.integer("width", 8, 32, true, "8, 16 or 32");
     if (width && *width != 8 && *width != 16 && *width != 32) {
-        r.fail(*t->get("width"), path + ".width",
-               std::to_string(*width) + " bits; accepted: 8, 16 or 32");
+        r.wrong(*r.table().get("width"), "width", "8, 16 or 32");
         ok = false;
     } else if (!width) {
         ok = false;
     } else {
         reg.width = unsigned(*width);
     }
-    const auto offset = r.number(*t, "offset", path, 0, 0xffff'ffffu, true,
-                                 "a byte offset within the window, 0x0 to " + hex(window - 1));
+    const auto offset = r.integer("offset", 0, 0xffff'ffffLL, true,
+                                  "a byte offset within the window, 0x0 to " + hex(window - 1));
     if (!offset) ok = false;
     if (offset && ok) {
         reg.offset = std::uint32_t(*offset);
         if (reg.offset % reg.bytes() != 0) {
-            r.fail(*t->get("offset"), path + ".offset",
-                   "offset " + hex(reg.offset) + " is not aligned to the " +
-                       std::to_string(reg.width) + "-bit register; accepted: a multiple of " +
-                       std::to_string(reg.bytes()));
+            r.report("offset", "offset " + hex(reg.offset) + " is not aligned to the " +
+                                   std::to_string(reg.width) +
+                                   "-bit register; accepted: a multiple of " +
+                                   std::to_string(reg.bytes()));
             ok = false;
         } else if (std::uint64_t(reg.offset) + reg.bytes() > window) {
-            r.fail(*t->get("offset"), path + ".offset",
-                   "register " + hex(reg.offset) + ".." + hex(reg.offset + reg.bytes() - 1) +
-                       " lies beyond the " + hex(window) +
-                       "-byte window; accepted: offsets from 0 to " +
-                       hex(window >= reg.bytes() ? window - reg.bytes() : 0));
+            r.report("offset", "register " + hex(reg.offset) + ".." +
+                                   hex(reg.offset + reg.bytes() - 1) + " lies beyond the " +
+                                   hex(window) + "-byte window; accepted: offsets from 0 to " +
+                                   hex(window >= reg.bytes() ? window - reg.bytes() : 0));
             ok = false;
         }
     }
-    const std::uint64_t max_value =
-        ok ? (reg.width == 32 ? 0xffff'ffffull : (1ull << reg.width) - 1) : 0xffff'ffffull;
-    if (auto v = r.number(*t, "reset", path, 0, max_value, false,
-                          "a whole number from 0 to " + hex(max_value) + " (fits the register)"))
+    const std::int64_t max_value =
+        ok ? (reg.width == 32 ? 0xffff'ffffLL : (1LL << reg.width) - 1) : 0xffff'ffffLL;
+    if (auto v = r.integer(
+            "reset", 0, max_value, false,
+            "a whole number from 0 to " + hex(std::uint64_t(max_value)) + " (fits the register)"))
         reg.reset = std::uint32_t(*v);
 
-    const auto* fields = t->get("fields");
-    if (fields == nullptr) {
-        r.fail(*t, path + ".fields",
-               "missing; accepted: an array of fields (an empty array for a spare register)");
-        return;
-    }
+    const auto* fields =
+        r.get("fields", true, "an array of fields (an empty array for a spare register)");
+    if (fields == nullptr) return;
     const auto* arr = fields->as_array();
     if (arr == nullptr) {
-        r.fail(*fields, path + ".fields",
-               "expected an array of field tables, got a " + reader::type_name(*fields));
+        r.wrong(*fields, "fields", "an array of field tables");
         return;
     }
     if (!ok) return;
     std::vector<toml::source_region> where;
-    for (std::size_t i = 0; i < arr->size(); ++i)
-        read_field(r, (*arr)[i], path + ".fields[" + std::to_string(i) + "]", cfg, reg, reg.fields,
-                   where);
+    for (std::size_t i = 0; i < arr->size(); ++i) read_field(r, i, cfg, reg, reg.fields, where);
     std::sort(reg.fields.begin(), reg.fields.end(),
               [](const auto& a, const auto& b) { return a.bit < b.bit; });
     if (reg.reset & reg.reserved_mask())
-        r.fail(t->get("reset") ? t->get("reset")->source() : t->source(), path + ".reset",
-               "reset value " + hex(reg.reset) + " sets reserved bits " +
-                   hex(reg.reset & reg.reserved_mask()) +
-                   "; accepted: a value with bits only where fields are (mask " +
-                   hex(~reg.reserved_mask() & std::uint32_t(max_value)) + ")");
+        r.report("reset", "reset value " + hex(reg.reset) + " sets reserved bits " +
+                              hex(reg.reset & reg.reserved_mask()) +
+                              "; accepted: a value with bits only where fields are (mask " +
+                              hex(~reg.reserved_mask() & std::uint32_t(max_value)) + ")");
 
     // Registers may not share bytes.
     for (const auto& o : layout.registers) {
         if (reg.offset < o.offset + o.bytes() && o.offset < reg.offset + reg.bytes()) {
-            r.fail(*t->get("offset"), path + ".offset",
-                   "register " + hex(reg.offset) + ".." + hex(reg.offset + reg.bytes() - 1) +
-                       " overlaps register \"" + o.name + "\" at " + hex(o.offset) + ".." +
-                       hex(o.offset + o.bytes() - 1) +
-                       "; accepted: an offset no other register covers");
+            r.report("offset", "register " + hex(reg.offset) + ".." +
+                                   hex(reg.offset + reg.bytes() - 1) + " overlaps register \"" +
+                                   o.name + "\" at " + hex(o.offset) + ".." +
+                                   hex(o.offset + o.bytes() - 1) +
+                                   "; accepted: an offset no other register covers");
             return;
         }
     }
@@ -472,17 +319,13 @@ void read_register(reader& r, const toml::key& key, const toml::node& n, const t
 }
 
 register_layout read_layout(const toml::table& root, const std::string& file) {
-    reader r(file);
+    sim::findings_list out(file);
+    table_reader top(out, root, "");
     register_layout layout;
     layout.file = file;
-    r.only_keys(root, "", {"kind", "name", "size", "instance", "registers"});
-    if (auto k = r.text(root, "kind", "", true, "\"timer\"")) {
-        if (*k != "timer")
-            r.fail(*root.get("kind"), "kind",
-                   "unknown peripheral kind \"" + *k + "\"; accepted: \"timer\"");
-        layout.kind = *k;
-    }
-    if (auto n = r.text(root, "name", "", false, "a name such as \"timer16_quad\"")) {
+    top.reject_unknown_keys({"kind", "name", "size", "instance", "registers"}, "a register layout");
+    if (auto k = top.choice("kind", {"timer"}, true)) layout.kind = *k;
+    if (auto n = top.string("name", false, "a name such as \"timer16_quad\"")) {
         layout.name = *n;
     } else {
         auto stem = file.substr(
@@ -490,35 +333,30 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
         layout.name = stem.substr(0, stem.rfind(".toml"));
     }
     const auto size =
-        r.number(root, "size", "", 1, 0xffff'ffffu, true, "a byte count from 1 to 0xffffffff");
-    read_instance(r, root, layout.instance);
-    if (!r.failed()) {
+        top.integer("size", 1, 0xffff'ffffLL, true, "a byte count from 1 to 0xffffffff");
+    read_instance(top, layout.instance);
+    if (out.empty()) {
         try {
             layout.instance.validate();
         } catch (const std::exception& e) {
-            r.fail(*root.get("instance"), "instance", e.what());
+            top.report("instance", e.what());
         }
     }
-    const auto* regs = root.get("registers");
-    if (regs == nullptr) {
-        r.fail(root.source(), "registers",
-               "missing; accepted: a [registers.<name>] table per register");
-    } else if (const auto* t = regs->as_table(); t == nullptr) {
-        r.fail(*regs, "registers",
-               "expected a table of registers, got a " + reader::type_name(*regs));
-    } else if (size && !r.failed()) {
-        layout.size = std::uint32_t(*size);
-        // Visit registers in file order so overlap messages name the earlier one.
-        std::vector<std::pair<const toml::key*, const toml::node*>> order;
-        for (auto&& [k, v] : *t) order.emplace_back(&k, &v);
-        std::stable_sort(order.begin(), order.end(), [](const auto& a, const auto& b) {
-            return std::pair(a.first->source().begin.line, a.first->source().begin.column) <
-                   std::pair(b.first->source().begin.line, b.first->source().begin.column);
-        });
-        for (const auto& [k, v] : order)
-            read_register(r, *k, *v, layout.instance, layout.size, layout);
+    // Registers are read only on a sound header: their checks need the window and the instance.
+    const bool sound = size && out.empty();
+    if (const auto* t = top.sub_table("registers", true, "a table [registers.NAME] per register")) {
+        // In file order, so overlap messages name the earlier register.
+        const auto entries = table_reader(out, *t, "registers")
+                                 .named_tables("register", is_register_name,
+                                               "lower-case letters, digits and \"_\", such as "
+                                               "\"match_a\"");
+        if (sound) {
+            layout.size = std::uint32_t(*size);
+            for (const auto& e : entries)
+                if (e.table) read_register(out, e, layout.instance, layout.size, layout);
+        }
     }
-    if (r.failed()) r.raise();
+    out.raise_if_any();
     std::sort(layout.registers.begin(), layout.registers.end(),
               [](const auto& a, const auto& b) { return a.offset < b.offset; });
     return layout;
@@ -659,25 +497,11 @@ unsigned value_width(const timer_config& instance, timer_field f) {
 }
 
 register_layout load_register_layout_text(std::string_view toml_text, const std::string& file) {
-    toml::table root;
-    try {
-        root = toml::parse(toml_text, file);
-    } catch (const toml::parse_error& e) {
-        throw sim::scenario_error(
-            sim::scenario_finding{file, e.source().begin.line, e.source().begin.column, "",
-                                  "TOML syntax: " + std::string(e.description())});
-    }
-    return read_layout(root, file);
+    return read_layout(sim::read_toml_text(toml_text, file), file);
 }
 
 register_layout load_register_layout_file(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in)
-        throw sim::scenario_error(
-            sim::scenario_finding{path, 0, 0, "", "cannot open the layout file"});
-    std::ostringstream s;
-    s << in.rdbuf();
-    return load_register_layout_text(s.str(), path);
+    return read_layout(sim::read_toml_file(path), path);
 }
 
 }  // namespace models

@@ -1,5 +1,5 @@
 #pragma once
-// Register layouts: where a timer's functional fields sit in its address window (DESIGN section 6).
+// Register layouts: where a timer's functional fields sit in its address window.
 //
 // A timer's behaviour is independent of where its fields sit in memory. A layout file (TOML, format
 // in docs/register-layouts.md) names the peripheral kind, the window size, the instance it
@@ -7,7 +7,8 @@
 // and fields; a field maps bits of the register to bits of one functional field
 // (models::timer_field) with an access kind. The loader checks every rule and reports each mistake
 // as a sim::scenario_error finding at file:line:column with the key path and what would be
-// accepted. The TOML library stays in the .cpp: this header is cheap to include.
+// accepted, reading through the TOML reader every loader shares (sim/toml_reader.h). That reader
+// and its TOML library stay in the .cpp: this header is cheap to include.
 
 #include "models/timer/timer_types.h"
 #include "sim/scenario_error.h"

@@ -1,6 +1,7 @@
 # Register layouts (models/layout/) and the TLM-2.0 bus side (models/bus/), built into
-# tickbench_models. Included from models/CMakeLists.txt. toml++ stays private: no public header
-# of these folders includes it.
+# tickbench_models. Included from models/CMakeLists.txt. The layout loader reads its files through
+# the TOML reader of tickbench_scenario (sim/toml_reader.h); the link stays private, and so does
+# toml++ with it: no public header of these folders includes it.
 target_sources(tickbench_models PRIVATE
   ${CMAKE_CURRENT_LIST_DIR}/register_layout.cpp
   ${CMAKE_CURRENT_LIST_DIR}/layout_table.cpp
@@ -9,4 +10,4 @@ target_sources(tickbench_models PRIVATE
   ${CMAKE_CURRENT_LIST_DIR}/../bus/timer_target.cpp
   ${CMAKE_CURRENT_LIST_DIR}/../bus/address_router.cpp
 )
-target_link_libraries(tickbench_models PRIVATE tomlplusplus::tomlplusplus)
+target_link_libraries(tickbench_models PRIVATE tickbench::scenario)

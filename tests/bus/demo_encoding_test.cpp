@@ -127,8 +127,10 @@ TEST(demo_encoding_test, the_firmware_header_names_the_layout_of_timer16_quad) {
                   mask_of(l, shape, timer_field::main_active_low, c));
         EXPECT_EQ(Q16_SHAPE_BYTE(c, Q16_SHAPE_COMP_ACTIVE_LOW),
                   mask_of(l, shape, timer_field::comp_active_low, c));
-        EXPECT_EQ(Q16_GUARD_MAIN_SAFE_HIGH(c), mask_of(l, "guard", timer_field::main_safe_level, c));
-        EXPECT_EQ(Q16_GUARD_COMP_SAFE_HIGH(c), mask_of(l, "guard", timer_field::comp_safe_level, c));
+        EXPECT_EQ(Q16_GUARD_MAIN_SAFE_HIGH(c),
+                  mask_of(l, "guard", timer_field::main_safe_level, c));
+        EXPECT_EQ(Q16_GUARD_COMP_SAFE_HIGH(c),
+                  mask_of(l, "guard", timer_field::comp_safe_level, c));
     }
     EXPECT_EQ(Q16_GUARD_LATENCY(0xf), mask_of(l, "guard", timer_field::fault_latency));
     EXPECT_EQ(Q16_GUARD_FAULT_ENABLE, mask_of(l, "guard", timer_field::fault_enable));
@@ -191,13 +193,13 @@ struct documented_action {
 };
 
 std::vector<documented_action> documented_actions() {
-    const std::string table = table_after(read_file(source_dir + "/docs/timer-model.md"),
-                                          "Output actions (`action`");
+    const std::string table =
+        table_after(read_file(source_dir + "/docs/timer-model.md"), "Output actions (`action`");
     std::vector<documented_action> out;
     const std::regex row(R"(\| `0x([0-9a-f]+)` \| `([a-z_]+)` \|)");
     for (std::sregex_iterator it(table.begin(), table.end(), row), end; it != end; ++it)
-        out.push_back({static_cast<std::uint32_t>(std::stoul((*it)[1].str(), nullptr, 16)),
-                       (*it)[2].str()});
+        out.push_back(
+            {static_cast<std::uint32_t>(std::stoul((*it)[1].str(), nullptr, 16)), (*it)[2].str()});
     return out;
 }
 
@@ -214,7 +216,8 @@ struct layout_rig {
     void set(timer_field f, std::uint32_t v, sim::time_ps at, unsigned c = 0) {
         for (const auto& r : layout.registers)
             for (const auto& fm : r.fields)
-                if (fm.field == f && fm.channel == c && fm.access != models::access_kind::read_only) {
+                if (fm.field == f && fm.channel == c &&
+                    fm.access != models::access_kind::read_only) {
                     std::uint32_t old = 0;
                     regs.read(r.offset, r.bytes(), old, at);
                     const std::uint32_t m = fm.register_mask();
@@ -262,7 +265,8 @@ TEST(demo_encoding_test, every_documented_action_code_does_what_the_table_says) 
                 for (std::uint64_t t = 1; t <= 16; ++t) EXPECT_TRUE(level_at(t)) << t;
             } else if (a.name == "pwm_below" || a.name == "pwm_at_or_above") {
                 const bool below = a.name == "pwm_below";
-                for (std::uint64_t t = 1; t <= 16; ++t) EXPECT_EQ(level_at(t), (t % 10 < 4) == below) << t;
+                for (std::uint64_t t = 1; t <= 16; ++t)
+                    EXPECT_EQ(level_at(t), (t % 10 < 4) == below) << t;
             } else if (a.name == "toggle_on_match") {
                 EXPECT_FALSE(level_at(3));
                 EXPECT_TRUE(level_at(4));
@@ -297,8 +301,8 @@ TEST(demo_encoding_test, the_documented_flag_bits_are_what_the_status_registers_
         rig.set(timer_field::period, 9, 0);
         rig.set(timer_field::compare, 4, 0);
         rig.set(timer_field::enable, 1, 0);
-        const auto* status = rig.layout.find(std::string_view(
-            std::string(layout) == "timer16_quad" ? "status" : "pending"));
+        const auto* status = rig.layout.find(
+            std::string_view(std::string(layout) == "timer16_quad" ? "status" : "pending"));
         ASSERT_NE(status, nullptr);
         std::uint32_t v = 0;
         // Tick 4: channel 0 matched. Tick 10: the counter wrapped, a reload event, and the other
