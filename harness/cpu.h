@@ -1,5 +1,6 @@
 #pragma once
-// The processor that runs host-compiled firmware against the models (DESIGN section 7).
+// The processor that runs host-compiled firmware against the models (docs/architecture.md,
+// "Firmware on the host").
 //
 // Firmware runs on a SystemC thread of its own and keeps a local time ahead of the kernel (TLM-2.0
 // temporal decoupling). Its local time is a count of CPU clock cycles on the clock tree's CPU
