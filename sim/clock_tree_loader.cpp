@@ -50,7 +50,7 @@ const char* const time_words = "a time such as \"200 us\" (units ps, ns, us, \xC
 const char* const ratio_words = "a ratio such as \"20 ppm\" (units ppb, ppm, %)";
 const char* const tempco_words = "a coefficient such as \"-34 ppb/C2\" (units ppb/C2, ppm/C2)";
 const char* const range_words =
-    "two frequencies [low, high] such as [\"1 MHz\", \"2 MHz\"], \"0 Hz\" leaving a side open";
+    "two frequencies [low, high] such as [\"3 MHz\", \"6 MHz\"], \"0 Hz\" leaving a side open";
 
 std::string range_words_int(std::int64_t lo, std::int64_t hi) {
     return "a whole number from " + std::to_string(lo) + " to " + std::to_string(hi);
