@@ -1,5 +1,6 @@
 #pragma once
-// The processor that runs host-compiled firmware against the models (DESIGN section 7).
+// The processor that runs host-compiled firmware against the models (docs/architecture.md,
+// "Firmware on the host").
 //
 // Firmware runs on a SystemC thread of its own and keeps a local time ahead of the kernel (TLM-2.0
 // temporal decoupling). Its local time is a count of CPU clock cycles on the clock tree's CPU
@@ -31,8 +32,8 @@ namespace harness {
 struct cpu_config {
     std::string clock = "cpu";        // clock-tree node that clocks the CPU
     unsigned access_cycles = 2;       // cost of one bus access
-    unsigned irq_entry_cycles = 12;   // from an interrupt's arrival to its handler's first line
-    unsigned irq_exit_cycles = 10;    // from a handler's return to the interrupted code
+    unsigned irq_entry_cycles = 14;   // arrival to the handler's first line; a demo value
+    unsigned irq_exit_cycles = 8;     // handler's return to the interrupted code; a demo value
     time_ps quantum = 1'000'000'000;  // longest run-ahead of the kernel (1 ms)
     std::uint64_t start_offset_cycles = 0;     // firmware starts this many CPU cycles after time 0
     std::uint64_t hang_accesses = 50'000'000;  // accesses without simulated time moving = hang

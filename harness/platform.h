@@ -1,9 +1,10 @@
 #pragma once
 // A simulated part ready to run firmware: clock tree, timers behind their register layouts, the
-// address router, the interrupt controller and the cpu, wired the way DESIGN sections 3, 6 and 7
-// describe. Both the GoogleTest fixture and the tickbench command build one; it is also the place
-// where a run's failures (crash, abort, failed firmware check, hang) become a report and exit code
-// 3 after every output has been flushed and closed.
+// address router, the interrupt controller and the cpu, wired as docs/architecture.md describes in
+// "The clock tree", "Registers are data" and "Firmware on the host". Both the GoogleTest fixture
+// and the tickbench command build one; it is also the place where a run's failures (crash, abort,
+// failed firmware check, hang) become a report and exit code 3 after every output has been flushed
+// and closed.
 
 #include "harness/cpu.h"
 #include "harness/interrupt_controller.h"

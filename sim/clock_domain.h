@@ -8,7 +8,8 @@
 // the segment's first edge scaled by step_den. All of it is 128-bit integer arithmetic, so the
 // error of any edge is under half a picosecond however long the run. Tick indices run on across
 // segments: a frequency change or a stop does not restart the count. tick_at() and time_of() are
-// the only conversions between time and tick index in the project (DESIGN section 2).
+// the only conversions between time and tick index in the project (docs/architecture.md, "Exact
+// time").
 
 #include "sim/frequency.h"
 

@@ -1,7 +1,7 @@
 #pragma once
 // The clock tree: a graph of clock sources, PLLs, dividers, multiplexers and gates whose every
 // output is an exact timeline (clock_domain), and whose consumers are told of each change with the
-// exact time it takes effect (DESIGN section 3).
+// exact time it takes effect (docs/architecture.md, "The clock tree").
 //
 // Each node's output is a pure function of its inputs' timelines and its own time-stamped settings.
 // A run-time change (a multiplexer switch, a divider or PLL reprogrammed, a gate opened) adds a

@@ -37,7 +37,7 @@ constexpr std::int64_t rc_offset_limit_ppb = 100'000'000;
 const char* const ratio_words = "a ratio such as \"20 ppm\" (units ppb, ppm, %)";
 const char* const tempco_words = "a coefficient such as \"-34 ppb/C2\" (units ppb/C2, ppm/C2)";
 const char* const range_words =
-    "two frequencies [low, high] such as [\"1 MHz\", \"2 MHz\"], \"0 Hz\" leaving a side open";
+    "two frequencies [low, high] such as [\"3 MHz\", \"6 MHz\"], \"0 Hz\" leaving a side open";
 
 // An exact signed percentage of a ppb value, e.g. "-10.25 %".
 std::string percent_text(std::int64_t ppb) {

@@ -4,7 +4,7 @@
 // Clock trees multiply and divide frequencies (PLLs, prescalers, ppm offsets), and a floating
 // point value would carry rounding into every edge time computed from it. A frequency here is
 // num/den Hz with both parts reduced and every operation checked for overflow, so the time base
-// can compute edge times exactly (DESIGN section 2).
+// can compute edge times exactly (docs/architecture.md, "Exact time").
 
 #include "sim/wide_int.h"
 

@@ -53,7 +53,7 @@ static uint32_t now_careful(void) {
 
 void tick_firmware_main(void) {
     const int careful = strcmp(tick_param("variant", "careful"), "careful") == 0;
-    base = (uint32_t)strtoul(tick_param("timer_base", "0x40001000"), NULL, 0);
+    base = (uint32_t)strtoul(tick_param("timer_base", "0x50000400"), NULL, 0);
     const long reads = strtol(tick_param("reads", "64"), NULL, 0);
     const int line = tick_irq_line(tick_param("timer_irq", "stopwatch"));
     overflows = 0;

@@ -19,11 +19,13 @@
 /* Registers of the demo part's timers (models/layouts/timer16_quad.toml, timer32_dual.toml). */
 #include "demo_timers.h"
 
-#define FAN_CLOCK_HZ 72000000u
-#define NORMAL_TICKS 2880u /* 40 us: 25 kHz */
-#define QUIET_TICKS 3168u  /* 44 us: about 22.7 kHz, a whole number of picoseconds */
+/* Both timers count the board's 96 MHz system clock (the PLL in fan_controller.toml). One tick is
+ * 10416.67 ps, but every period below is a whole number of picoseconds. */
+#define FAN_CLOCK_HZ 96000000u
+#define NORMAL_TICKS 3840u /* 40 us: 25 kHz */
+#define QUIET_TICKS 4224u  /* 44 us: about 22.7 kHz */
 #define TICK_HZ 1000u
-#define DEAD_TIME_TICKS 72u /* 1 us at 72 MHz */
+#define DEAD_TIME_TICKS 96u /* 1 us at 96 MHz */
 
 static uint32_t fans, tick;
 static uint32_t period_ticks; /* counter values per PWM period */
@@ -64,8 +66,8 @@ static void on_tick(void) {
 }
 
 void tick_firmware_main(void) {
-    fans = (uint32_t)strtoul(tick_param("fans_base", "0x40001000"), NULL, 0);
-    tick = (uint32_t)strtoul(tick_param("tick_base", "0x40002000"), NULL, 0);
+    fans = (uint32_t)strtoul(tick_param("fans_base", "0x50000400"), NULL, 0);
+    tick = (uint32_t)strtoul(tick_param("tick_base", "0x50000800"), NULL, 0);
     fan1_duty = (uint32_t)strtoul(tick_param("ramp_from", "30"), NULL, 0);
     fan1_target = (uint32_t)strtoul(tick_param("ramp_to", "60"), NULL, 0);
     quiet_at = (uint32_t)strtoul(tick_param("quiet_at_ms", "20"), NULL, 0);

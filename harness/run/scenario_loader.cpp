@@ -270,6 +270,8 @@ void read_cpu(context& c, const toml::table& root) {
         {"clock", "access-cycles", "interrupt-entry-cycles", "interrupt-exit-cycles", "quantum",
          "start-offset", "hang-accesses", "hang-wall-time"},
         "the cpu");
+    // A key left out keeps cpu_config's default; the interrupt entry and exit costs there are demo
+    // values (harness/cpu.h).
     cpu_config cfg;
     if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
         cfg.clock = *clock;

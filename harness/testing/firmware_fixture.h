@@ -12,8 +12,8 @@
 //
 //     class fan_test : public harness::firmware_fixture {};
 //     TEST_F(fan_test, duty_follows_the_request) {
-//         add_pll_clock("sys", 8'000'000, 9);
-//         add_timer("fan", "timer16_quad", "sys", 0x4000'1000);
+//         add_pll_clock("sys", 12'000'000, 8);
+//         add_timer("fan", "timer16_quad", "sys", 0x5000'0400);
 //         const harness::firmware_run& r = run_firmware(fan_main, harness::ms(5));
 //         EXPECT_TRUE(r.passed());
 //     }

@@ -1,12 +1,12 @@
 #pragma once
 
-// The trap engine lets unmodified driver code run on the host: it maps a part's peripheral
-// address ranges at their real addresses with no access rights, and services every faulting
-// load or store there by decoding the instruction, performing the access through the region's
-// callback and completing the instruction in the interrupted thread's registers (DESIGN.md
-// section 7, docs/firmware-api.md "Unmodified drivers"). The same signal handlers catch the
-// crashes that are not peripheral accesses and pass them to a crash hook. x86-64 Linux only.
-// There is one engine per process, since signal dispositions are per process.
+// The trap engine lets unmodified driver code run on the host: it maps a part's peripheral address
+// ranges at their real addresses with no access rights, and services every faulting load or store
+// there by decoding the instruction, performing the access through the region's callback and
+// completing the instruction in the interrupted thread's registers (docs/architecture.md, "Firmware
+// on the host"; docs/firmware-api.md, "Unmodified drivers"). The same signal handlers catch the
+// crashes that are not peripheral accesses and pass them to a crash hook. x86-64 Linux only. There
+// is one engine per process, since signal dispositions are per process.
 
 #include "harness/trap/access.h"
 #include "harness/trap/crash_info.h"

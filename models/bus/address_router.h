@@ -1,6 +1,7 @@
 #pragma once
-// Routes bus accesses by address to peripheral targets (DESIGN section 6): one target socket facing
-// the initiator, one initiator socket binding per mapped range, in the order the ranges are given.
+// Routes bus accesses by address to peripheral targets (docs/architecture.md, "Registers are
+// data"): one target socket facing the initiator, one initiator socket binding per mapped range, in
+// the order the ranges are given.
 //
 // A range is a window [base, base + size) with the peripheral's name and, optionally, its register
 // layout so that messages about unmapped addresses can name the nearest register. Ranges may not

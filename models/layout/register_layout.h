@@ -1,5 +1,6 @@
 #pragma once
-// Register layouts: where a timer's functional fields sit in its address window.
+// Register layouts: where a timer's functional fields sit in its address window
+// (docs/architecture.md, "Registers are data").
 //
 // A timer's behaviour is independent of where its fields sit in memory. A layout file (TOML, format
 // in docs/register-layouts.md) names the peripheral kind, the window size, the instance it

@@ -44,8 +44,8 @@ nearest_location nearest_in(const register_layout& layout, std::uint64_t base,
                             const std::string& peripheral, std::uint64_t address);
 
 // The message for an access nobody answers, e.g.
-// "read of 4 bytes at 0x40000c00 hits no register (a location reserved in timer_a); nearest
-// register: count of timer_a, 0x4 bytes below it; at 1250000 ps".
+// "read of 4 bytes at 0x50000024 hits a location reserved in timer_a; nearest register:
+// status_clear of timer_a, 0x1 byte above it; at 1000000 ps".
 // `what` says where the access went ("no peripheral", "a location reserved in timer_a").
 std::string unmapped_message(bool is_write, unsigned length, std::uint64_t address,
                              std::string_view what, const nearest_location& nearest,

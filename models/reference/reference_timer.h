@@ -1,11 +1,12 @@
 #pragma once
 // The tick-exact reference timer: the test oracle for the fast timer model.
 //
-// This model implements docs/timer-model.md the slow and obvious way (DESIGN section 5): it keeps
-// every register and every piece of internal state, and advance_to() walks the timer clock one
-// tick at a time, doing the numbered per-tick steps of the specification in their written order.
-// There is no cleverness here on purpose: when the fast model and this one disagree, this one
-// should be the easier to believe. It is slow; it is never linked into the product.
+// This model implements docs/timer-model.md the slow and obvious way (docs/architecture.md, "The
+// reference model as oracle"): it keeps every register and every piece of internal state, and
+// advance_to() walks the timer clock one tick at a time, doing the numbered per-tick steps of the
+// specification in their written order. There is no cleverness here on purpose: when the fast model
+// and this one disagree, this one should be the easier to believe. It is slow; it is never linked
+// into the product.
 
 #include "models/timer/timer_types.h"
 #include "sim/clock_domain.h"

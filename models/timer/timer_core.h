@@ -1,5 +1,6 @@
 #pragma once
-// The fast general-purpose timer: counters computed, not ticked (DESIGN section 4).
+// The fast general-purpose timer: counters computed, not ticked (docs/architecture.md, "Counters
+// are computed, not ticked").
 //
 // The state is "after timer clock tick n the counter held c, prescaler count p, direction d".
 // Between two instants that matter (a wrap, a step onto a compare value, a delayed compare or fault

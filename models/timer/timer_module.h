@@ -39,7 +39,8 @@ public:
     // Output pin p (see main_pin()/comp_pin()); named "<module>.channel<c>" and
     // "...<c>_complement". A pin's signal is driven from the moment it is first asked for here, so
     // ask during elaboration. Pins nobody asks for cost no kernel work: their changes reach
-    // observers only (the lighter edge stream DESIGN section 4 allows).
+    // observers only, as plain edge reports (docs/architecture.md, "Counters are computed, not
+    // ticked").
     sc_core::sc_signal<bool>& pin(unsigned p) {
         driven_.at(p) = true;
         return *pins_.at(p);

@@ -2,9 +2,10 @@
 // The functional vocabulary of the general-purpose timer, shared by the fast model, the tick-exact
 // reference model and the register layouts.
 //
-// A timer's behaviour is independent of where its fields sit in memory (DESIGN section 6): a layout
-// maps offsets and bits to the functional fields named here, and both models implement the same
-// semantics on them, written down in docs/timer-model.md. Names are our own plain words.
+// A timer's behaviour is independent of where its fields sit in memory (docs/architecture.md,
+// "Registers are data"): a layout maps offsets and bits to the functional fields named here, and
+// both models implement the same semantics on them, written down in docs/timer-model.md. Names are
+// our own plain words.
 
 #include "sim/clock_domain.h"
 

@@ -1,6 +1,6 @@
 #pragma once
 // The streaming check engine: a signal_sink that evaluates declarative checks while the
-// simulation runs (DESIGN section 8).
+// simulation runs (docs/architecture.md, "Outputs").
 //
 // The waveform is never stored. Each check keeps a fixed handful of integers (see
 // detail/check_state.h), and the engine keeps one level per signal and, per signal, the list of

@@ -1,6 +1,6 @@
 #pragma once
 // The description of one check: what to measure on which signals, what value or bounds it must
-// keep, with what tolerance, and over which stretch of the run (DESIGN section 8).
+// keep, with what tolerance, and over which stretch of the run (docs/architecture.md, "Outputs").
 //
 // A check_spec is plain data so that any front end can fill it: the scenario loader builds one per
 // TOML table, tests build them by hand. Every value is an exact integer in the check kind's own

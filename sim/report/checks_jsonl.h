@@ -1,5 +1,6 @@
 #pragma once
-// The assertion log: checks.jsonl, one JSON object per line per check (DESIGN section 8).
+// The assertion log: checks.jsonl, one JSON object per line per check (docs/architecture.md,
+// "Outputs").
 //
 // Each line holds exactly these keys, in this order:
 //   check     string   the check's name

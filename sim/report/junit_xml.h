@@ -1,5 +1,6 @@
 #pragma once
-// The CI report: junit.xml in the JUnit-style layout CI dashboards read (DESIGN section 8).
+// The CI report: junit.xml in the JUnit-style layout CI dashboards read (docs/architecture.md,
+// "Outputs").
 //
 // One <testsuites> holding one <testsuite>, one <testcase> per check (name = the check, classname
 // = "tickbench.<kind>"). A failed check carries a <failure> whose message is the check's detail

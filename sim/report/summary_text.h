@@ -1,5 +1,6 @@
 #pragma once
-// The human summary: summary.txt, also printed by the command (DESIGN section 8).
+// The human summary: summary.txt, also printed by the command (docs/architecture.md,
+// "Outputs").
 //
 // An aligned table, one row per check: verdict, name, kind, signal and the measured mean (or
 // count) with the number of values measured; under each failed row an indented line with the

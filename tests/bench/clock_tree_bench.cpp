@@ -31,12 +31,13 @@ constexpr std::uint64_t forget_every = 64;
 class trim_tree {
 public:
     trim_tree() {
+        // The demo part's fast RC oscillator (demo values, examples/parts/demo_part.toml).
         sim::rc_params rc;
-        rc.nominal = sim::frequency::hz(8'000'000);
-        rc.tolerance_ppb = 10'000'000;  // 1 %
+        rc.nominal = sim::frequency::hz(16'000'000);
+        rc.tolerance_ppb = 20'000'000;  // 2 %
         rc.trim_step_ppb = 1'000'000;   // 0.1 % per trim step
-        rc.trim_min = -16;
-        rc.trim_max = 15;
+        rc.trim_min = -32;
+        rc.trim_max = 31;
         tree_.add_rc_oscillator("rc", rc);
         tree_.add_divider("rc_div2", "rc", 2);
         for (int i = 0; i < consumer_count; ++i)

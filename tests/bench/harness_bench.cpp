@@ -1,7 +1,8 @@
 // Metrics of the firmware harness (issue: firmware harness), each run in a child process of its own
-// (isolated_run.h) on the same part: an 8 MHz crystal and a PLL to a 72 MHz system clock that
-// clocks the CPU and both timers, a 32-bit timer "tick" (layout timer32_dual) at 0x4000_0000 on
-// interrupt line 0 and a 16-bit timer "pwm" (layout timer16_quad) at 0x4000_1000 on line 1.
+// (isolated_run.h) on the same part: the demo part's 12 MHz crystal and a PLL to a 96 MHz system
+// clock that clocks the CPU and both timers, a 32-bit timer "tick" (layout timer32_dual) at
+// 0x5000_0000 on interrupt line 0 and a 16-bit timer "pwm" (layout timer16_quad) at 0x5000_0400 on
+// line 1 (demo values, examples/parts/demo_part.toml).
 //
 // - bus_access_ns: wall ns per tick_read16() of the 16-bit counter, in a loop of reads that never
 //   needs the kernel (the counter runs, nothing can interrupt); median of several runs.
@@ -29,9 +30,10 @@ namespace {
 
 using clock_type = std::chrono::steady_clock;
 
-constexpr std::uint32_t tick_base = 0x4000'0000;
-constexpr std::uint32_t pwm_base = 0x4000'1000;
-constexpr std::uint64_t cpu_hz = 72'000'000;
+constexpr std::uint32_t tick_base = 0x5000'0000;
+constexpr std::uint32_t pwm_base = 0x5000'0400;
+constexpr std::uint64_t crystal_hz = 12'000'000;
+constexpr std::uint64_t cpu_hz = 96'000'000;
 
 double seconds_since(clock_type::time_point t0) {
     return std::chrono::duration<double>(clock_type::now() - t0).count();
@@ -45,10 +47,10 @@ double median(std::vector<double> v) {
 // Builds the part with `entry` as the firmware. Child process only.
 void build_part(harness::platform& p, std::function<void()> entry, bool map_peripherals = false) {
     sim::crystal_params x;
-    x.nominal = sim::frequency::hz(8'000'000);
+    x.nominal = sim::frequency::hz(crystal_hz);
     p.clocks().add_crystal("xtal", x);
     sim::pll_params pll;
-    pll.multiplier = cpu_hz / 8'000'000;
+    pll.multiplier = cpu_hz / crystal_hz;
     p.clocks().add_pll("sys", "xtal", pll);
     const std::string layouts = std::string(TICKBENCH_SOURCE_DIR) + "/models/layouts/";
     harness::timer_spec tick;
@@ -118,8 +120,8 @@ double trapped_read_us(long reads) {
     return result;
 }
 
-// The 1 kHz tick handler: takes the reload flag, steps the three duties. 25 kHz at 72 MHz is a
-// period of 2880 counts.
+// The 1 kHz tick handler: takes the reload flag, steps the three duties. 25 kHz at 96 MHz is a
+// period of 3840 counts.
 constexpr std::uint32_t pwm_period = cpu_hz / 25'000;
 std::uint32_t ticks;
 

@@ -26,8 +26,9 @@ namespace {
 using models::timer_field;
 using tickbench_test::recording_timer_core;
 
-constexpr std::uint64_t base_a = 0x4000'0000;
-constexpr std::uint64_t base_b = 0x4000'1000;
+// Slots 0 and 1 of the demo part's peripheral windows (demo values, examples/parts/demo_part.toml).
+constexpr std::uint64_t base_a = 0x5000'0000;
+constexpr std::uint64_t base_b = 0x5000'0400;
 
 // One access as the initiator saw it.
 struct result {
@@ -108,8 +109,8 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
         ADD_FAILURE() << "overlapping ranges accepted";
     } catch (const std::invalid_argument& e) {
         EXPECT_NE(std::string(e.what()).find(
-                      "range \"timer_b\" 0x40000020..0x4000005f overlaps range \"timer_a\" "
-                      "0x40000000..0x4000003f"),
+                      "range \"timer_b\" 0x50000020..0x5000005f overlaps range \"timer_a\" "
+                      "0x50000000..0x5000003f"),
                   std::string::npos)
             << e.what();
     }
@@ -137,10 +138,10 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
         core_b.set(timer_field::counter, 0, 0xcafe'f00d);
         r.push_back(self.access(TLM_READ_COMMAND, base_b + 0x00, 4, 0, 3 * ns));
         // 2-4: unmapped address under each policy.
-        r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x800, 4, 0));
+        r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x200, 4, 0));
         logs.push_back(take_log());
         router.set_policy(models::unmapped_policy::warn);
-        r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x800, 4, 0));
+        r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x200, 4, 0));
         logs.push_back(take_log());
         router.set_policy(models::unmapped_policy::error);
         r.push_back(self.access(TLM_WRITE_COMMAND, base_b - 4, 4, 0, 7 * ns));
@@ -195,20 +196,20 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
     EXPECT_EQ(r[3].status, tlm::TLM_OK_RESPONSE);
     EXPECT_EQ(r[3].data, 0u);
     EXPECT_EQ(logs[1],
-              "warning read of 4 bytes at 0x40000800 hits no peripheral; nearest register: "
+              "warning read of 4 bytes at 0x50000200 hits no peripheral; nearest register: "
               "status_clear of "
-              "timer_a, 0x7df bytes above it; at 1000000 ps\n");
+              "timer_a, 0x1df bytes above it; at 1000000 ps\n");
     // error: an address error and an error message.
     EXPECT_EQ(r[4].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
     EXPECT_EQ(logs[2],
-              "error write of 4 bytes at 0x40000ffc hits no peripheral; nearest register: count of "
+              "error write of 4 bytes at 0x500003fc hits no peripheral; nearest register: count of "
               "timer_b, "
               "0x4 bytes below it; at 1007000 ps\n");
     // A reserved location inside a window, found by the register file under its own policy.
     EXPECT_EQ(r[5].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
     EXPECT_NE(
         logs[3].find(
-            "error read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest "
+            "error read of 4 bytes at 0x50000024 hits a location reserved in timer_a; nearest "
             "register: status_clear of timer_a, 0x3 bytes above it; at 1000000 ps"),
         std::string::npos)
         << logs[3];

@@ -26,7 +26,7 @@ struct quad_fixture : ::testing::Test {
     quad_fixture()
         : layout(models::load_register_layout_file(layouts_dir + "timer16_quad.toml")),
           regs(layout, core, layout.instance, "timer_a", models::unmapped_policy::ignore,
-               0x4000'0000) {}
+               0x5000'0000) {}
     std::uint32_t read(std::uint32_t offset, unsigned length, models::time_ps t = 10) {
         std::uint32_t v = 0xdead'beef;
         const auto o = regs.read(offset, length, v, t);
@@ -179,7 +179,7 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     EXPECT_TRUE(core.calls.empty());
     EXPECT_EQ(
         o.message,
-        "read of 4 bytes at 0x40000024 hits a location reserved in timer_a; nearest register: "
+        "read of 4 bytes at 0x50000024 hits a location reserved in timer_a; nearest register: "
         "status_clear of timer_a, 0x3 bytes above it; at 123 ps");
 
     std::ostringstream log;
@@ -194,7 +194,7 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     EXPECT_FALSE(o.failed);
     EXPECT_TRUE(core.calls.empty());
     EXPECT_NE(log.str().find(
-                  "warning write of 2 bytes at 0x40000022 hits a location reserved in timer_a; "
+                  "warning write of 2 bytes at 0x50000022 hits a location reserved in timer_a; "
                   "nearest register: status_clear of timer_a, 0x1 byte above it; at 200 ps"),
               std::string::npos)
         << log.str();
@@ -202,7 +202,7 @@ TEST_F(quad_fixture, reserved_locations_follow_the_policy) {
     regs.set_policy(models::unmapped_policy::error);
     o = regs.write(0x3f, 1, 0, 300);
     EXPECT_TRUE(o.failed);
-    EXPECT_NE(log.str().find("error write of 1 byte at 0x4000003f"), std::string::npos)
+    EXPECT_NE(log.str().find("error write of 1 byte at 0x5000003f"), std::string::npos)
         << log.str();
     EXPECT_NE(log.str().find("status_clear of timer_a, 0x1e bytes above it; at 300 ps"),
               std::string::npos);

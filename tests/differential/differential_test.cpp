@@ -1,6 +1,7 @@
 // The differential test: the fast timer model against the tick-exact reference on seeded random
-// register programs (DESIGN section 5). Both must report the same pin edges, flag sets, interrupt
-// line changes, trigger pulses and read results, at the same exact times.
+// register programs (docs/architecture.md, "The reference model as oracle"). Both must report the
+// same pin edges, flag sets, interrupt line changes, trigger pulses and read results, at the same
+// exact times.
 //
 // Programs per run: 2000 by default, split in shards so CTest can spread them over the cores;
 // TICKBENCH_DIFF_PROGRAMS=<n> or --long (200000) runs more, TICKBENCH_DIFF_FIRST_SEED=<s> moves

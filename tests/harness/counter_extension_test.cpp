@@ -19,7 +19,7 @@ extern "C" std::uint32_t counter_extension_backwards;
 namespace {
 
 constexpr sim::time_ps run_length = 50'000'000;  // 50 us: the loop and the wrap fit in it
-// The wrap comes 150 counts (150 CPU cycles at 72 MHz) after time 0.
+// The wrap comes 150 counts (150 CPU cycles at 96 MHz) after time 0.
 constexpr std::uint32_t counter_start = 0xffff - 150;
 // An iteration of the read loop takes 6 (naive) to 12 (careful) CPU cycles; 64 start offsets cover
 // every phase of it against the wrap several times over, and the loop (64 reads, at least 384

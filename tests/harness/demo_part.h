@@ -1,6 +1,7 @@
 #pragma once
-// A small part for harness tests: an 8 MHz crystal, a PLL to 72 MHz clocking the CPU and a 16-bit
-// timer ("stopwatch", demo layout timer16_quad at 0x4000_1000, interrupt line 0).
+// A small part for harness tests: the demo part's 12 MHz crystal, a x8 PLL to 96 MHz clocking the
+// CPU and a 16-bit timer ("stopwatch", demo layout timer16_quad in the demo part's peripheral slot
+// 1 at 0x5000_0400, interrupt line 0). Demo values (examples/parts/demo_part.toml).
 
 #include "harness/platform.h"
 #include "models/layout/register_layout.h"
@@ -9,16 +10,16 @@
 
 namespace test_support {
 
-inline constexpr std::uint32_t stopwatch_base = 0x4000'1000;
+inline constexpr std::uint32_t stopwatch_base = 0x5000'0400;
 
 inline void build_demo_part(harness::platform& p, const harness::cpu_config& cpu,
                             std::function<void()> entry,
                             std::optional<std::uint32_t> counter_start = {}) {
     sim::crystal_params x;
-    x.nominal = sim::frequency::hz(8'000'000);
+    x.nominal = sim::frequency::hz(12'000'000);
     p.clocks().add_crystal("xtal", x);
     sim::pll_params pll;
-    pll.multiplier = 9;
+    pll.multiplier = 8;
     p.clocks().add_pll("sys", "xtal", pll);
     harness::timer_spec t;
     t.name = "stopwatch";

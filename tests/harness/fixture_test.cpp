@@ -13,23 +13,24 @@
 
 namespace {
 
-// Register offsets of the shipped layouts (models/layouts/timer16_quad.toml, timer32_dual.toml).
-constexpr std::uint32_t stopwatch = 0x4000'1000;
+// Register offsets of the shipped layouts (examples/parts/demo_timers.h), in the demo part's
+// peripheral slots 0 and 1 (demo values, examples/parts/demo_part.toml).
+constexpr std::uint32_t stopwatch = 0x5000'0400;
 constexpr std::uint32_t stopwatch_count = stopwatch + Q16_COUNT;
 constexpr std::uint32_t stopwatch_limit = stopwatch + Q16_LIMIT;
 constexpr std::uint32_t stopwatch_run = stopwatch + Q16_RUN;
-constexpr std::uint32_t tick = 0x4000'0000;
+constexpr std::uint32_t tick = 0x5000'0000;
 constexpr std::uint32_t tick_setup = tick + D32_SETUP;
 constexpr std::uint32_t tick_alerts = tick + D32_ALERTS;
 constexpr std::uint32_t tick_take = tick + D32_TAKE;
 constexpr std::uint32_t tick_limit = tick + D32_LIMIT;
 
-// The part of every test here: a 72 MHz system clock (8 MHz crystal, PLL x9) clocking the cpu, a
-// 32-bit timer "tick" (line 0) and a 16-bit timer "stopwatch" (line 1).
+// The part of every test here: a 96 MHz system clock (the demo part's 12 MHz crystal, PLL x8)
+// clocking the cpu, a 32-bit timer "tick" (line 0) and a 16-bit timer "stopwatch" (line 1).
 class fixture_test : public harness::firmware_fixture {
 protected:
     void SetUp() override {
-        add_pll_clock("sys", 8'000'000, 9);
+        add_pll_clock("sys", 12'000'000, 8);
         add_timer("tick", "timer32_dual", "sys", tick);
         add_timer("stopwatch", "timer16_quad", "sys", stopwatch);
     }
@@ -109,7 +110,7 @@ TEST_F(fixture_test, interrupts_parameters_and_after_run_inspection) {
                 ++ticks;
                 tick_log("tick %u", ticks);
             });
-            tick_write32(tick_limit, 72'000 - 1);  // 1 ms at 72 MHz
+            tick_write32(tick_limit, 96'000 - 1);  // 1 ms at 96 MHz
             tick_write32(tick_alerts, DEMO_FLAG_RELOAD);
             tick_irq_line_enable(static_cast<unsigned>(line));
             tick_write32(tick_setup, 1);

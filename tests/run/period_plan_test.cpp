@@ -34,13 +34,13 @@ TEST(period_plan_test, edge_aligned_exact_hit_with_finest_resolution_first) {
     EXPECT_EQ(c[2].period, 639u);
 }
 
-// 72 MHz / (2 x 20 kHz) = 1800 = 1 x 1800: prescaler 0, period 1800, 1800 compare steps.
+// 96 MHz / (2 x 20 kHz) = 2400 = 1 x 2400: prescaler 0, period 2400, 2400 compare steps.
 TEST(period_plan_test, center_aligned_counts_the_period_twice) {
-    const auto c = plan_periods(request(72'000'000, 20'000, true));
+    const auto c = plan_periods(request(96'000'000, 20'000, true));
     ASSERT_FALSE(c.empty());
     EXPECT_EQ(c[0].prescaler, 0u);
-    EXPECT_EQ(c[0].period, 1800u);
-    EXPECT_EQ(c[0].steps, 1800u);
+    EXPECT_EQ(c[0].period, 2400u);
+    EXPECT_EQ(c[0].steps, 2400u);
     EXPECT_EQ(c[0].achieved, sim::frequency::hz(20'000));
 }
 
@@ -60,15 +60,16 @@ TEST(period_plan_test, inexact_target_reports_the_exact_error) {
     EXPECT_EQ(c[1].period, 380u);
 }
 
-// 72 MHz / 1 Hz = 72,000,000 > 65536 x 65536? No: 4.29e9 > 7.2e7, but the period alone cannot hold
-// it: the prescaler must be at least 72e6 / 65536 = 1098.6, i.e. 1125 x 64000 (1125 divides 72e6).
+// 96 MHz / 1 Hz = 96,000,000 fits 65536 x 65536 = 4.29e9, but the period alone cannot hold it: the
+// prescaler must be at least 96e6 / 65536 = 1464.8. 96e6 = 2^11 x 3 x 5^6 has no divisor from 1465
+// to 1499, so the finest exact split is 1500 x 64000.
 TEST(period_plan_test, slow_targets_need_the_prescaler) {
-    const auto c = plan_periods(request(72'000'000, 1));
+    const auto c = plan_periods(request(96'000'000, 1));
     ASSERT_FALSE(c.empty());
     EXPECT_EQ(c[0].error_num, 0u);
-    EXPECT_EQ((c[0].prescaler + 1) * (c[0].period + 1), 72'000'000u);
+    EXPECT_EQ((c[0].prescaler + 1) * (c[0].period + 1), 96'000'000u);
     EXPECT_LE(c[0].period, 65535u);
-    EXPECT_EQ(c[0].prescaler, 1124u);
+    EXPECT_EQ(c[0].prescaler, 1499u);
 }
 
 // An 8-bit counter: 48 MHz / 25 kHz = 1920 needs a prescaler of at least 1920 / 256 = 7.5 -> 8 x

@@ -36,25 +36,27 @@ TEST(clock_tree_loader_test, demo_part_gives_exact_frequencies) {
     sim::load_clock_tree_file(demo_part, tree);
     const auto f = frequencies(tree);
     ASSERT_EQ(f.size(), 10u);
-    EXPECT_EQ(f.at("xtal"), sim::frequency::hz(8'000'000));
-    // 8 MHz / 4 x 144 / 4.
-    EXPECT_EQ(f.at("pll"), sim::frequency::hz(72'000'000));
-    EXPECT_EQ(f.at("sys"), sim::frequency::hz(72'000'000));
-    EXPECT_EQ(f.at("bus"), sim::frequency::hz(36'000'000));
-    EXPECT_EQ(f.at("timer_a_clk"), sim::frequency::hz(36'000'000));
-    EXPECT_EQ(f.at("timer_b_clk"), sim::frequency::hz(36'000'000));
-    // +0.5 % deviation, trim -2 x 0.25 %: back to nominal.
-    EXPECT_EQ(f.at("rc_fast"), sim::frequency::hz(8'000'000));
-    // -5 % of 40 kHz.
-    EXPECT_EQ(f.at("rc_slow"), sim::frequency::hz(38'000));
-    EXPECT_EQ(f.at("watchdog_clk"), sim::frequency::hz(38'000));
+    EXPECT_EQ(f.at("xtal"), sim::frequency::hz(12'000'000));
+    // 12 MHz / 3 x 48 / 2.
+    EXPECT_EQ(f.at("pll"), sim::frequency::hz(96'000'000));
+    EXPECT_EQ(f.at("sys"), sim::frequency::hz(96'000'000));
+    // sys / 3.
+    EXPECT_EQ(f.at("bus"), sim::frequency::hz(32'000'000));
+    EXPECT_EQ(f.at("timer_a_clk"), sim::frequency::hz(32'000'000));
+    EXPECT_EQ(f.at("timer_b_clk"), sim::frequency::hz(32'000'000));
+    // +0.6 % deviation, trim -6 x 0.1 %: back to nominal.
+    EXPECT_EQ(f.at("rc_fast"), sim::frequency::hz(16'000'000));
+    // -6 % deviation, trim +2 x 2 %: 2 % below 30 kHz.
+    EXPECT_EQ(f.at("rc_slow"), sim::frequency::hz(29'400));
+    EXPECT_EQ(f.at("watchdog_clk"), sim::frequency::hz(29'400));
     // +10 ppm, and -34 ppb/C2 x (40 - 25)^2 = -7650 ppb: 32768 x (1 + 2350e-9) Hz, exactly.
     EXPECT_EQ(f.at("watch_xtal"), sim::frequency(32'768ULL * 1'000'002'350ULL, 1'000'000'000ULL));
     EXPECT_EQ(tree.kind("sys"), sim::clock_kind::mux);
     EXPECT_NO_THROW(tree.start());
-    // The PLL output starts once it has locked, 200 us in.
+    // The PLL output starts once it has locked, 250 us in.
     EXPECT_TRUE(tree.domain("pll").freq_at(0).is_zero());
-    EXPECT_EQ(tree.domain("pll").freq_at(200'000'000), sim::frequency::hz(72'000'000));
+    EXPECT_TRUE(tree.domain("pll").freq_at(249'999'999).is_zero());
+    EXPECT_EQ(tree.domain("pll").freq_at(250'000'000), sim::frequency::hz(96'000'000));
 }
 
 TEST(clock_tree_loader_test, demo_part_plan_is_valid_json) {
@@ -66,7 +68,7 @@ TEST(clock_tree_loader_test, demo_part_plan_is_valid_json) {
     bool found = false;
     for (const auto& c : plan.at("clocks"))
         if (c.at("name") == "pll") {
-            EXPECT_EQ(c.at("hz_exact"), "72000000");
+            EXPECT_EQ(c.at("hz_exact"), "96000000");
             EXPECT_EQ(c.at("kind"), "pll");
             found = true;
         }
@@ -78,16 +80,16 @@ TEST(clock_tree_loader_test, crystal_offset_carries_through_the_pll) {
     sim::load_clock_tree_text(R"(
 [clocks.xtal]
 kind = "crystal"
-frequency = "8 MHz"
+frequency = "12 MHz"
 offset = "20 ppm"
 [clocks.pll]
 kind = "pll"
 input = "xtal"
-multiplier = 9
+multiplier = 8
 )",
                               "t.toml", tree);
-    // 72 MHz x (1 + 20e-6) = 72 001 440 Hz.
-    EXPECT_EQ(frequencies(tree).at("pll"), sim::frequency::hz(72'001'440));
+    // 96 MHz x (1 + 20e-6) = 96 001 920 Hz.
+    EXPECT_EQ(frequencies(tree).at("pll"), sim::frequency::hz(96'001'920));
 }
 
 TEST(clock_tree_loader_test, defaults_and_other_kinds) {
@@ -169,7 +171,7 @@ TEST(clock_tree_loader_test, clock_rules_point_at_the_node_table) {
     const std::string e = error_of(
         "[clocks.xtal]\nkind = \"crystal\"\nfrequency = \"8 MHz\"\n\n"
         "[clocks.pll]\nkind = \"pll\"\ninput = \"xtal\"\nmultiplier = 100\n"
-        "vco-range = [\"100 MHz\", \"432 MHz\"]\n");
+        "vco-range = [\"150 MHz\", \"330 MHz\"]\n");
     EXPECT_EQ(e.rfind("t.toml:5:1: clocks.pll: VCO", 0), 0u) << e;
 }
 

@@ -158,14 +158,16 @@ TEST(clock_tree_test, gate_closes_and_opens_with_continuous_ticks) {
 
 TEST(clock_tree_test, change_flows_to_a_hundred_consumers_with_exact_time) {
     sim::clock_tree t;
+    // The demo part's fast RC oscillator (demo values, examples/parts/demo_part.toml): 16 MHz
+    // +/- 2 %, this sample 0.6 % fast, trimmed in steps of 0.1 %.
     t.add_rc_oscillator("rc", [] {
         sim::rc_params p;
-        p.nominal = frequency::hz(8'000'000);
-        p.tolerance_ppb = 10'000'000;  // +/- 1 %
-        p.deviation_ppb = 5'000'000;
-        p.trim_step_ppb = 2'500'000;
-        p.trim_min = -8;
-        p.trim_max = 7;
+        p.nominal = frequency::hz(16'000'000);
+        p.tolerance_ppb = 20'000'000;
+        p.deviation_ppb = 6'000'000;
+        p.trim_step_ppb = 1'000'000;
+        p.trim_min = -32;
+        p.trim_max = 31;
         return p;
     }());
     t.add_divider("half", "rc", 2);
@@ -174,14 +176,14 @@ TEST(clock_tree_test, change_flows_to_a_hundred_consumers_with_exact_time) {
         t.subscribe("half", "consumer" + std::to_string(i),
                     [&heard, i](sim::time_ps from) { heard[i] = from; });
     t.start();
-    EXPECT_EQ(t.domain("rc").freq_at(0), frequency::hz(8'040'000));
-    const sim::time_ps eff = t.set_trim("rc", -2, 1000 * us);
-    EXPECT_EQ(t.domain("rc").freq_at(eff), frequency::hz(8'000'000));
+    EXPECT_EQ(t.domain("rc").freq_at(0), frequency::hz(16'096'000));
+    const sim::time_ps eff = t.set_trim("rc", -6, 1000 * us);
+    EXPECT_EQ(t.domain("rc").freq_at(eff), frequency::hz(16'000'000));
     // Every consumer hears of it once, from the first edge of the divided clock that moved: after
-    // the oscillator's first new-frequency edge and within one divided period (250 ns) of it.
+    // the oscillator's first new-frequency edge and within one divided period (125 ns) of it.
     for (sim::time_ps h : heard) EXPECT_EQ(h, heard[0]);
     EXPECT_GE(heard[0], eff);
-    EXPECT_LE(heard[0], eff + 250'000);
+    EXPECT_LE(heard[0], eff + 125'000);
 }
 
 TEST(clock_tree_test, unchanged_result_is_not_propagated) {
@@ -222,14 +224,15 @@ TEST(clock_tree_test, vco_out_of_range_is_rejected_before_the_run_and_at_run_tim
     t.add_crystal("xtal", crystal(8'000'000));
     sim::pll_params p;
     p.multiplier = 100;  // 800 MHz VCO
-    p.vco_range = {frequency::hz(100'000'000), frequency::hz(432'000'000)};
+    // The demo part's VCO range (demo values, examples/parts/demo_part.toml).
+    p.vco_range = {frequency::hz(150'000'000), frequency::hz(330'000'000)};
     t.add_pll("pll", "xtal", p);
     EXPECT_TRUE(mentions(t.problems(), "pll 'pll'", "VCO frequency"));
-    EXPECT_TRUE(mentions(t.problems(), "800 MHz", "outside the allowed 100 MHz to 432 MHz"));
+    EXPECT_TRUE(mentions(t.problems(), "800 MHz", "outside the allowed 150 MHz to 330 MHz"));
 
     sim::clock_tree ok;
     ok.add_crystal("xtal", crystal(8'000'000));
-    p.multiplier = 40;
+    p.multiplier = 40;  // 320 MHz
     ok.add_pll("pll", "xtal", p);
     ok.start();
     p.multiplier = 60;
@@ -248,19 +251,19 @@ TEST(clock_tree_test, consumer_needing_a_running_clock_on_a_closed_gate_is_rejec
 TEST(clock_tree_test, rc_deviation_outside_tolerance_is_rejected) {
     sim::clock_tree t;
     sim::rc_params p;
-    p.nominal = frequency::hz(8'000'000);
-    p.tolerance_ppb = 10'000'000;
-    p.deviation_ppb = 20'000'000;
+    p.nominal = frequency::hz(16'000'000);
+    p.tolerance_ppb = 20'000'000;
+    p.deviation_ppb = 30'000'000;
     t.add_rc_oscillator("rc", p);
     EXPECT_TRUE(mentions(t.problems(), "rc-oscillator 'rc'", "outside the tolerance band"));
 }
 
 TEST(clock_tree_test, plan_lists_nodes_sources_first_with_what_they_feed) {
     sim::clock_tree t;
-    t.add_divider("bus", "sys", 2);
-    t.add_crystal("xtal", crystal(8'000'000));
+    t.add_divider("bus", "sys", 3);
+    t.add_crystal("xtal", crystal(12'000'000));
     sim::pll_params p;
-    p.multiplier = 9;
+    p.multiplier = 8;
     t.add_pll("pll", "xtal", p);
     t.add_mux("sys", {"xtal", "pll"}, 1);
     t.subscribe("bus", "timer1", nullptr);
@@ -269,7 +272,8 @@ TEST(clock_tree_test, plan_lists_nodes_sources_first_with_what_they_feed) {
     ASSERT_EQ(rows.size(), 4u);
     EXPECT_EQ(rows[0].name, "xtal");
     EXPECT_EQ(rows.back().name, "bus");
-    EXPECT_EQ(rows.back().freq, frequency::hz(36'000'000));
+    // 12 MHz x 8 / 3.
+    EXPECT_EQ(rows.back().freq, frequency::hz(32'000'000));
     EXPECT_EQ(rows.back().feeds, std::vector<std::string>{"timer1"});
     EXPECT_EQ(rows[0].feeds, (std::vector<std::string>{"pll", "sys"}));
 }

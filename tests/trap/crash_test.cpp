@@ -105,7 +105,7 @@ TEST_F(crash_test, unsupported_instruction_on_a_mapped_region_names_it) {
         ::testing::ExitedWithCode(hook_exit_code),
         "CRASH-HOOK SIGSEGV: trapped access to region 'simd target' failed: unsupported "
         "instruction "
-        "'movdqu xmm0, (xmmword ptr )?\\[r[a-z0-9]+\\]' at 0x[0-9a-f]+ accessing 0x40000020 "
+        "'movdqu xmm0, (xmmword ptr )?\\[r[a-z0-9]+\\]' at 0x[0-9a-f]+ accessing 0x50000020 "
         "\\(only 1-, "
         "2-, 4- and 8-byte accesses are emulated\\)");
 }
@@ -121,7 +121,7 @@ TEST_F(crash_test, string_instruction_on_a_mapped_region_is_refused) {
             asm volatile("rep stosl" : "+D"(destination), "+c"(count) : "a"(0) : "memory");
         },
         ::testing::ExitedWithCode(hook_exit_code),
-        "unsupported instruction 'rep stosd.*' at 0x[0-9a-f]+ accessing 0x40000000 \\(implicit "
+        "unsupported instruction 'rep stosd.*' at 0x[0-9a-f]+ accessing 0x50000000 \\(implicit "
         "memory operands\\)");
 }
 
@@ -134,8 +134,8 @@ TEST_F(crash_test, access_past_the_end_of_a_region_is_refused) {
             *opaque<volatile std::uint64_t>(peripheral_base + peripheral_size - 4) = 1;
         },
         ::testing::ExitedWithCode(hook_exit_code),
-        "an access of 8 bytes at 0x400000fc runs past the end of region 'short' \\[0x40000000, "
-        "0x40000100\\)");
+        "an access of 8 bytes at 0x500000fc runs past the end of region 'short' \\[0x50000000, "
+        "0x50000100\\)");
 }
 
 TEST_F(crash_test, access_between_regions_on_a_trapped_page_is_a_crash) {
@@ -147,7 +147,7 @@ TEST_F(crash_test, access_between_regions_on_a_trapped_page_is_a_crash) {
             (void)*opaque<volatile std::uint32_t>(peripheral_base + 0x800);
         },
         ::testing::ExitedWithCode(hook_exit_code),
-        "SIGSEGV: read of 0x40000800: a trapped peripheral page, but no mapped region holds this "
+        "SIGSEGV: read of 0x50000800: a trapped peripheral page, but no mapped region holds this "
         "address");
 }
 
@@ -161,7 +161,7 @@ TEST_F(crash_test, access_after_unmapping_is_a_crash) {
             }
             (void)*opaque<volatile std::uint32_t>(peripheral_base);
         },
-        ::testing::ExitedWithCode(hook_exit_code), "SIGSEGV: read of unmapped address 0x40000000");
+        ::testing::ExitedWithCode(hook_exit_code), "SIGSEGV: read of unmapped address 0x50000000");
 }
 
 TEST_F(crash_test, a_callback_that_throws_is_a_crash) {

@@ -14,8 +14,9 @@
 
 namespace trap_test {
 
-// Where the fake peripheral lives: 1 GiB, the start of a common peripheral window.
-constexpr std::uint64_t peripheral_base = 0x4000'0000;
+// Where the fake peripheral lives: the first of the demo part's peripheral slots (a demo value,
+// examples/parts/demo_part.toml).
+constexpr std::uint64_t peripheral_base = 0x5000'0000;
 constexpr std::uint64_t peripheral_size = 0x100;
 
 // One access as the fake peripheral saw it, with the address as an offset into the block.

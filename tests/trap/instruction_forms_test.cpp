@@ -369,7 +369,7 @@ TEST(absolute_address_test, loads_and_stores_at_a_constant_address) {
     fake_peripheral peripheral;
     peripheral.map();
     std::uint32_t v = 0;
-    asm volatile("movl $0x600d, 0x40000010\n\tmovl 0x40000010, %k[v]" : [v] "=r"(v) : : "memory");
+    asm volatile("movl $0x600d, 0x50000010\n\tmovl 0x50000010, %k[v]" : [v] "=r"(v) : : "memory");
     EXPECT_EQ(v, 0x600du);
     EXPECT_EQ(peripheral.get<std::uint32_t>(0x10), 0x600du);
 }

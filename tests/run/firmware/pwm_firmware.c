@@ -1,6 +1,6 @@
 /* Test firmware for `tickbench run` (tests/run): a two-channel 25 kHz PWM on the demo part's 16-bit
  * timer (models/layouts/timer16_quad.toml) with a reload interrupt. Parameters:
- *   base    address of the timer's window (default 0x40001000)
+ *   base    address of the timer's window (default 0x50000400)
  *   reloads how many reload interrupts to wait for before the firmware's own check (default 20)
  *   ending  "return" (default), "crash" (a store through a null pointer) or "fail-check"
  * The timer clock is 48 MHz: 1920 ticks are 40 us; channel 1 is active for 480 ticks (25 %),
@@ -24,7 +24,7 @@ static void on_reload(void) {
 }
 
 void tick_firmware_main(void) {
-    base = (uint32_t)strtoul(tick_param("base", "0x40001000"), NULL, 0);
+    base = (uint32_t)strtoul(tick_param("base", "0x50000400"), NULL, 0);
     const long wanted = strtol(tick_param("reloads", "20"), NULL, 0);
     const char* ending = tick_param("ending", "return");
     const int line = tick_irq_line(tick_param("irq", "pwm"));
