@@ -73,6 +73,16 @@ void cpu::bring_models_to(time_ps t) {
     horizon_ = next;
 }
 
+void cpu::lower_horizons() {
+    for (watched& w : peripherals_) {
+        time_ps e;
+        if (w.next != 0 && w.model->next_event(e) && e < w.next) {
+            w.next = e;
+            horizon_ = std::min(horizon_, e);
+        }
+    }
+}
+
 void cpu::forget_horizons() {
     horizon_ = 0;
     for (watched& w : peripherals_) w.next = 0;
@@ -188,7 +198,11 @@ std::uint32_t cpu::read(std::uint32_t address, unsigned size) {
     // Every peripheral up to the access's time first, so the one accessed reports nothing ahead
     // of the others.
     bring_models_to(local_);
-    return transport(false, address, size, 0);
+    const std::uint32_t value = transport(false, address, size, 0);
+    // A read may clear flags (clear-on-read): the interrupt line then falls at the peripheral's
+    // next clock edge, which may come before its next event known so far.
+    lower_horizons();
+    return value;
 }
 
 void cpu::write(std::uint32_t address, unsigned size, std::uint32_t value) {

@@ -110,6 +110,8 @@ private:
     void bring_models_to(time_ps t);
     // Forgets every peripheral's next event: a write or the kernel may have moved it.
     void forget_horizons();
+    // Takes in peripherals' next events that moved earlier (after a read with side effects).
+    void lower_horizons();
     // The earliest time at which an interrupt may enter over the running code (max_time_ps: none),
     // recomputed only when the controller's state or the running priority changed.
     time_ps interrupt_ready_at();

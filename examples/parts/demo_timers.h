@@ -77,6 +77,9 @@
 #define Q16_SHAPE_COMP_ACTIVE_LOW 0x80u
 #define Q16_SHAPE_REG(c) ((c) < 2u ? Q16_SHAPE_AB : Q16_SHAPE_CD)
 #define Q16_SHAPE_BYTE(c, byte) ((unsigned)(byte) << (8u * ((c)&1u)))
+/* dead: the dead time, counted on the timer clock divided by 1 << scale (scale 0..3) */
+#define Q16_DEAD_TIME(count) ((unsigned)(count))
+#define Q16_DEAD_SCALE(scale) ((unsigned)(scale) << 12)
 /* guard */
 #define Q16_GUARD_MAIN_SAFE_HIGH(c) (1u << (c))
 #define Q16_GUARD_COMP_SAFE_HIGH(c) (1u << (4u + (c)))

@@ -60,12 +60,13 @@ void read_instance(table_reader& top, timer_config& cfg) {
     const toml::table* t =
         top.sub_table("instance", true,
                       "counter_bits, channels and the optional prescaler_bits, wrap_skip_bits, "
-                      "prescaler_shadowed, complementary, dead_time_max, compare_latency");
+                      "prescaler_shadowed, complementary, dead_time_max, dead_time_scaled, "
+                      "compare_latency");
     if (t == nullptr) return;
     table_reader r(top.findings(), *t, "instance");
     r.reject_unknown_keys(
         {"counter_bits", "channels", "prescaler_bits", "wrap_skip_bits", "prescaler_shadowed",
-         "complementary", "dead_time_max", "compare_latency"},
+         "complementary", "dead_time_max", "dead_time_scaled", "compare_latency"},
         "the timer instance");
     if (auto v = r.integer("counter_bits", 8, 32, true)) cfg.counter_bits = unsigned(*v);
     if (auto v = r.integer("channels", 1, 6, true)) cfg.channels = unsigned(*v);
@@ -74,6 +75,7 @@ void read_instance(table_reader& top, timer_config& cfg) {
     if (auto v = r.boolean("prescaler_shadowed")) cfg.prescaler_shadowed = *v;
     if (auto v = r.boolean("complementary")) cfg.complementary = *v;
     if (auto v = r.integer("dead_time_max", 0, 0xffff'ffffLL)) cfg.dead_time_max = unsigned(*v);
+    if (auto v = r.boolean("dead_time_scaled")) cfg.dead_time_scaled = *v;
     if (auto v = r.integer("compare_latency", 0, 2)) cfg.compare_latency = unsigned(*v);
 }
 
@@ -214,6 +216,8 @@ void read_field(table_reader& fields, std::size_t index, const timer_config& cfg
     if (!instance_has(cfg, f.field, f.channel)) {
         std::string why = f.field == timer_field::wrap_skip
                               ? "the instance has no wrap skip count (wrap_skip_bits = 0)"
+                          : f.field == timer_field::dead_time_scale && cfg.complementary
+                              ? "the instance's dead time has no scale (dead_time_scaled = false)"
                               : "the instance has no complementary outputs (complementary = false)";
         r.report("field", std::string("\"") + to_string(f.field) + "\" does not exist here: " +
                               why + "; accepted: fields the instance has");
@@ -452,6 +456,8 @@ bool instance_has(const timer_config& instance, timer_field f, unsigned channel)
     switch (f) {
         case timer_field::wrap_skip:
             return instance.wrap_skip_bits > 0;
+        case timer_field::dead_time_scale:
+            return instance.complementary && instance.dead_time_scaled;
         case timer_field::dead_time:
         case timer_field::fault_enable:
         case timer_field::fault_latency:
@@ -483,6 +489,7 @@ unsigned value_width(const timer_config& instance, timer_field f) {
         case timer_field::mode:
         case timer_field::slope:
         case timer_field::reload_policy:
+        case timer_field::dead_time_scale:
             return 2;
         case timer_field::action:
             return 4;

@@ -79,6 +79,16 @@ void reference_timer::clock_changed(time_ps) {}
 
 void reference_timer::tick(time_ps at) {
     ++ticks_;
+    // 0. What register accesses since the last tick asked for: the flag and trigger pulse of a
+    // forced reload.
+    if (access_flags_ != 0) {
+        set_flags(access_flags_, at);
+        access_flags_ = 0;
+    }
+    if (access_trigger_) {
+        access_trigger_ = false;
+        send_trigger(at);
+    }
     // 1. Compare latency: delayed compare values reaching their tick become active.
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         channel_state& c = channels_[i];
@@ -88,12 +98,14 @@ void reference_timer::tick(time_ps at) {
             c.pending.pop_front();
         }
     }
-    // 2. Fault latency.
+    // 2. Fault latency: the fault acts at the first tick after the input rose, or fault_latency
+    // ticks later.
     if (fault_pending_) {
-        --fault_ticks_left_;
         if (fault_ticks_left_ == 0) {
             fault_pending_ = false;
             activate_fault(at);
+        } else {
+            --fault_ticks_left_;
         }
     }
     // 3. Prescaler.
@@ -153,8 +165,9 @@ void reference_timer::tick(time_ps at) {
     }
     // 8. Levels.
     evaluate_levels();
-    // 9. Pins.
-    update_outputs(true, at);
+    // 9. Pins, and the interrupt line.
+    update_outputs(at);
+    update_irq(at);
 }
 
 void reference_timer::step_counter(bool& stepped, bool& wrapped, bool& slope_down) {
@@ -233,15 +246,16 @@ void reference_timer::reload_event_from_wrap(time_ps at) {
     if (one_pulse_) enable_ = false;
 }
 
-void reference_timer::forced_reload(time_ps at) {
+void reference_timer::forced_reload() {
     ++reload_events_;
     if (policy_ != reload_policy::held) load_shadows();
     counter_ = mode_ == count_mode::down ? period_ : 0;
     if (mode_ == count_mode::center) down_ = false;
     pcount_ = 0;
     skip_count_ = wrap_skip_;
-    if (policy_ == reload_policy::every) set_flags(flag_reload, at);
-    if (trigger_select_ == trigger_on_reload) send_trigger(at);
+    // The flag and the trigger pulse show at the next tick, like every effect of an access.
+    if (policy_ == reload_policy::every) access_flags_ |= flag_reload;
+    if (trigger_select_ == trigger_on_reload) access_trigger_ = true;
 }
 
 // ---- levels and pins ----
@@ -273,20 +287,21 @@ void reference_timer::evaluate_levels() {
     }
 }
 
-void reference_timer::update_output(output_state& o, bool want, bool at_tick) {
+void reference_timer::update_output(output_state& o, bool want) {
     if (!want) {
         // A falling want takes effect at once and cancels a pending rise.
         o.active = false;
         o.rise_pending = false;
     } else if (!o.want) {
-        // A rising want takes effect at the dead_time-th tick after now.
-        if (dead_time_ == 0) {
+        // A rising want takes effect at the (dead_time x scale)-th tick after now.
+        const std::uint64_t ticks = std::uint64_t{dead_time_} << dead_time_scale_;
+        if (ticks == 0) {
             o.active = true;
         } else {
             o.rise_pending = true;
-            o.rise_ticks_left = dead_time_;
+            o.rise_ticks_left = ticks;
         }
-    } else if (o.rise_pending && at_tick) {
+    } else if (o.rise_pending) {
         o.rise_ticks_left -= 1;
         if (o.rise_ticks_left == 0) {
             o.rise_pending = false;
@@ -296,14 +311,14 @@ void reference_timer::update_output(output_state& o, bool want, bool at_tick) {
     o.want = want;
 }
 
-void reference_timer::update_outputs(bool at_tick, time_ps at) {
+void reference_timer::update_outputs(time_ps at) {
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         channel_state& c = channels_[i];
         bool main_level = false;
         bool comp_level = false;
         if (cfg_.complementary) {
-            update_output(c.main_out, c.ref, at_tick);
-            update_output(c.comp_out, !c.ref, at_tick);
+            update_output(c.main_out, c.ref);
+            update_output(c.comp_out, !c.ref);
             if (fault_active_) {
                 main_level = c.main_safe_level;
                 comp_level = c.comp_safe_level;
@@ -334,7 +349,6 @@ void reference_timer::set_flags(std::uint32_t bits, time_ps at) {
     if (rising == 0) return;
     flags_ |= rising;
     if (observer_) observer_->on_flags_set(rising, at);
-    update_irq(at);
 }
 
 void reference_timer::update_irq(time_ps at) {
@@ -354,12 +368,6 @@ void reference_timer::activate_fault(time_ps at) {
 }
 
 // ---- register accesses ----
-
-void reference_timer::settle_after_access(time_ps t) {
-    evaluate_levels();
-    update_outputs(false, t);
-    update_irq(t);
-}
 
 void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) {
     advance_to(t);
@@ -389,7 +397,7 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             if (value <= 2) policy_ = static_cast<reload_policy>(value);
             break;
         case timer_field::force_reload:
-            if (bit) forced_reload(t);
+            if (bit) forced_reload();
             break;
         case timer_field::prescaler:
             prescaler_written_ = mask_bits(value, cfg_.prescaler_bits);
@@ -410,6 +418,9 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             break;  // read-only
         case timer_field::dead_time:
             dead_time_ = std::min(value, cfg_.dead_time_max);
+            break;
+        case timer_field::dead_time_scale:
+            if (cfg_.dead_time_scaled) dead_time_scale_ = value & 3u;
             break;
         case timer_field::fault_enable:
             fault_enable_ = bit;
@@ -437,8 +448,9 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             if (!c.compare_preload) {
                 if (cfg_.compare_latency == 0)
                     c.compare = c.compare_written;
-                else
-                    c.pending.push_back(pending_compare{c.compare_written, cfg_.compare_latency});
+                else  // the first compare_latency ticks after the write still use the old value
+                    c.pending.push_back(
+                        pending_compare{c.compare_written, cfg_.compare_latency + 1});
             }
             break;
         }
@@ -468,7 +480,6 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             channel_at(channel).comp_safe_level = bit;
             break;
     }
-    settle_after_access(t);
 }
 
 std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) {
@@ -500,6 +511,8 @@ std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) 
             return down_ ? 1 : 0;
         case timer_field::dead_time:
             return dead_time_;
+        case timer_field::dead_time_scale:
+            return dead_time_scale_;
         case timer_field::fault_enable:
             return fault_enable_;
         case timer_field::fault_latency:
@@ -536,8 +549,7 @@ std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) 
 
 void reference_timer::clear_flags(std::uint32_t mask, time_ps t) {
     advance_to(t);
-    flags_ &= ~mask;
-    update_irq(t);
+    flags_ &= ~mask;  // the interrupt line follows at the next tick
 }
 
 void reference_timer::set_fault_input(bool level, time_ps t) {
@@ -545,14 +557,9 @@ void reference_timer::set_fault_input(bool level, time_ps t) {
     const bool rose = level && !fault_input_;
     fault_input_ = level;
     if (cfg_.complementary && rose && fault_enable_ && !fault_pending_ && !fault_active_) {
-        if (fault_latency_ == 0) {
-            activate_fault(t);
-        } else {
-            fault_pending_ = true;
-            fault_ticks_left_ = fault_latency_;
-        }
+        fault_pending_ = true;
+        fault_ticks_left_ = fault_latency_;
     }
-    settle_after_access(t);
 }
 
 }  // namespace models::reference

@@ -64,7 +64,7 @@ private:
         bool want = false;    // what the reference level asks for
         bool active = false;  // after dead time
         bool rise_pending = false;
-        std::uint32_t rise_ticks_left = 0;
+        std::uint64_t rise_ticks_left = 0;
     };
     struct channel_state {
         std::uint32_t compare_written = 0;  // last written value (the shadow when preloaded)
@@ -89,20 +89,18 @@ private:
     // Shadow registers to active ones.
     void load_shadows();
     // The forced reload event of a force_reload write.
-    void forced_reload(time_ps at);
+    void forced_reload();
     // The pwm_below comparison for channel c, in the current mode and direction.
     bool below(const channel_state& c) const;
     // Step 8: reference levels for the continuous actions.
     void evaluate_levels();
-    // Step 9: wants, dead time, pins. `at_tick` counts down pending rises (false for an access).
-    void update_outputs(bool at_tick, time_ps at);
-    void update_output(output_state& o, bool want, bool at_tick);
+    // Step 9: wants, dead time, pins; pending rises count down one tick.
+    void update_outputs(time_ps at);
+    void update_output(output_state& o, bool want);
     void set_flags(std::uint32_t bits, time_ps at);
     void update_irq(time_ps at);
     void send_trigger(time_ps at);
     void activate_fault(time_ps at);
-    // After a register access at time t: levels, pins and the interrupt line at once.
-    void settle_after_access(time_ps t);
     channel_state& channel_at(unsigned c);
     const channel_state& channel_at(unsigned c) const;
     std::uint32_t valid_flag_bits() const;
@@ -124,6 +122,7 @@ private:
     bool period_waiting_ = false;  // written with preload on, not yet loaded
     std::uint32_t wrap_skip_written_ = 0, wrap_skip_ = 0;
     std::uint32_t dead_time_ = 0;
+    std::uint32_t dead_time_scale_ = 0;
     bool fault_enable_ = false;
     std::uint32_t fault_latency_ = 0;
     std::uint32_t flags_ = 0;
@@ -152,6 +151,10 @@ private:
     time_ps last_tick_at_ = 0;  // time of the last processed tick
 
     std::uint64_t ticks_ = 0, wraps_ = 0, reload_events_ = 0;
+
+    // What register accesses since the last tick left to show at the next one.
+    std::uint32_t access_flags_ = 0;
+    bool access_trigger_ = false;
 };
 
 }  // namespace models::reference

@@ -1,13 +1,30 @@
 #include "models/timer/timer_core.h"
 
+#include <spdlog/sinks/stdout_color_sinks.h>
+#include <spdlog/spdlog.h>
+
 #include <algorithm>
 #include <stdexcept>
 
 namespace models {
 
+namespace {
+
+// Timer diagnostics (a clipped write...) go to the spdlog logger "timer".
+std::shared_ptr<spdlog::logger> timer_logger() {
+    if (auto l = spdlog::get("timer")) return l;
+    try {
+        return spdlog::stderr_color_mt("timer");
+    } catch (const spdlog::spdlog_ex&) {
+        return spdlog::get("timer");  // registered meanwhile by someone else
+    }
+}
+
+}  // namespace
+
 timer_core::timer_core(const timer_config& cfg, const sim::clock_domain& timer_clock,
-                       timer_observer* observer)
-    : cfg_(cfg), clock_(timer_clock), observer_(observer) {
+                       timer_observer* observer, std::string name)
+    : cfg_(cfg), clock_(timer_clock), observer_(observer), name_(std::move(name)) {
     cfg_.validate();
     max_ = cfg_.counter_max();
     period_ = period_shadow_ = max_;
@@ -92,7 +109,7 @@ std::optional<time_ps> timer_core::next_interesting_time() const {
 }
 
 std::uint64_t timer_core::compute_next_interesting_tick() const {
-    std::uint64_t n = fault_at_;
+    std::uint64_t n = std::min(fault_at_, effects_pending_ ? next_tick_ : never);
     for (unsigned i = 0; i < cfg_.channels; ++i)
         if (!ch_[i].pending.empty()) n = std::min(n, ch_[i].pending.front().tick);
     if (pending_rises_ != 0)
@@ -238,10 +255,11 @@ void timer_core::update_pins(std::uint64_t first_tick_after, time_ps at) {
                     ps->rise_at = never;
                 } else if (!ps->active) {
                     if (ps->rise_at == never) {
-                        if (dead_time_ == 0)
+                        const std::uint64_t d = dead_ticks();
+                        if (d == 0)
                             ps->active = true;
                         else
-                            ps->rise_at = first_tick_after + dead_time_ - 1;
+                            ps->rise_at = first_tick_after + d - 1;
                     } else if (ps->rise_at < first_tick_after) {
                         ps->active = true;
                         ps->rise_at = never;
@@ -286,6 +304,16 @@ void timer_core::trigger(time_ps at) {
     if (observer_) observer_->on_trigger(at);
 }
 
+std::uint64_t timer_core::dead_ticks() const {
+    return std::uint64_t{dead_time_} << dead_time_scale_;
+}
+
+void timer_core::warn_dead_time_clipped(std::uint32_t written, time_ps at) const {
+    timer_logger()->warn(
+        "{}: dead time {} written at {} ps is above the instance's maximum {}; clipped to {}",
+        name_, written, at, cfg_.dead_time_max, cfg_.dead_time_max);
+}
+
 void timer_core::activate_fault(time_ps at) {
     if (fault_active_) return;
     fault_active_ = true;
@@ -297,6 +325,17 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
     invalidate();
     const std::uint32_t refs_before = ref_mask();
     const bool fault_before = fault_active_;
+    // What register accesses since the last tick changed shows from this tick on.
+    const bool after_access = effects_pending_;
+    effects_pending_ = false;
+    if (pending_flags_ != 0) {
+        set_flags(pending_flags_, at);
+        pending_flags_ = 0;
+    }
+    if (pending_trigger_) {
+        pending_trigger_ = false;
+        trigger(at);
+    }
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         auto& q = ch_[i].pending;
         while (!q.empty() && q.front().tick <= n) {
@@ -340,7 +379,8 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
     evaluate_levels();
     next_tick_ = n + 1;
     // Pins can only change if a level, the fault state or a pending dead-time rise did.
-    if (pending_rises_ != 0 || fault_active_ != fault_before || ref_mask() != refs_before)
+    if (after_access || pending_rises_ != 0 || fault_active_ != fault_before ||
+        ref_mask() != refs_before)
         update_pins(next_tick_, at);
     update_irq(at);
 }
@@ -410,8 +450,8 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             if (mode_ == count_mode::center) down_ = false;
             pcount_ = 0;
             skip_count_ = wrap_skip_;
-            if (policy_ == reload_policy::every) set_flags(flag_reload, t);
-            if (trigger_select_ == trigger_on_reload) trigger(t);
+            if (policy_ == reload_policy::every) pending_flags_ |= flag_reload;
+            if (trigger_select_ == trigger_on_reload) pending_trigger_ = true;
             break;
         case timer_field::prescaler: {
             const std::uint32_t mask =
@@ -435,6 +475,10 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             break;  // read-only
         case timer_field::dead_time:
             dead_time_ = std::min<std::uint32_t>(v, cfg_.dead_time_max);
+            if (v > cfg_.dead_time_max) warn_dead_time_clipped(v, t);
+            break;
+        case timer_field::dead_time_scale:
+            if (cfg_.dead_time_scaled) dead_time_scale_ = v & 3u;
             break;
         case timer_field::fault_enable:
             fault_enable_ = bit;
@@ -468,8 +512,7 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
                     if (cfg_.compare_latency == 0)
                         c.compare = c.compare_shadow;
                     else
-                        c.pending.push_back(
-                            {next_tick_ + cfg_.compare_latency - 1, c.compare_shadow});
+                        c.pending.push_back({next_tick_ + cfg_.compare_latency, c.compare_shadow});
                     break;
                 case timer_field::compare_preload:
                     c.preload = bit;
@@ -500,9 +543,9 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             }
         }
     }
-    evaluate_levels();
-    update_pins(next_tick_, t);
-    update_irq(t);
+    // The registers hold the write now; outputs, flags and the interrupt line show it from the
+    // first tick after t.
+    effects_pending_ = true;
 }
 
 std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t) {
@@ -534,6 +577,8 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
             return mode_ == count_mode::down || (mode_ == count_mode::center && down_) ? 1 : 0;
         case timer_field::dead_time:
             return dead_time_;
+        case timer_field::dead_time_scale:
+            return dead_time_scale_;
         case timer_field::fault_enable:
             return fault_enable_;
         case timer_field::fault_latency:
@@ -577,8 +622,9 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
 
 void timer_core::clear_flags(std::uint32_t mask, time_ps t) {
     catch_up(t);
+    invalidate();
     flags_ &= ~mask;
-    update_irq(t);
+    effects_pending_ = true;  // the interrupt line follows at the next tick
 }
 
 void timer_core::set_fault_input(bool level, time_ps t) {
@@ -586,14 +632,9 @@ void timer_core::set_fault_input(bool level, time_ps t) {
     invalidate();
     const bool rising = level && !fault_input_;
     fault_input_ = level;
-    if (rising && fault_enable_ && cfg_.complementary && !fault_active_ && fault_at_ == never) {
-        if (fault_latency_ == 0)
-            activate_fault(t);
-        else
-            fault_at_ = next_tick_ + fault_latency_ - 1;
-    }
-    update_pins(next_tick_, t);
-    update_irq(t);
+    // The fault acts at the first tick after the rise, or fault_latency ticks later.
+    if (rising && fault_enable_ && cfg_.complementary && !fault_active_ && fault_at_ == never)
+        fault_at_ = next_tick_ + fault_latency_;
 }
 
 }  // namespace models

@@ -17,16 +17,17 @@
 #include <cstdint>
 #include <deque>
 #include <optional>
+#include <string>
 
 namespace models {
 
 class timer_core final : public timer_core_if {
 public:
     // A timer of the given configuration counting edges of `timer_clock`, reporting to `observer`
-    // (may be null). The domain must outlive the timer. Throws std::invalid_argument on a bad
-    // config.
+    // (may be null), named `name` in its warnings (logger "timer"). The domain must outlive the
+    // timer. Throws std::invalid_argument on a bad config.
     timer_core(const timer_config& cfg, const sim::clock_domain& timer_clock,
-               timer_observer* observer);
+               timer_observer* observer, std::string name = "timer");
 
     void advance_to(time_ps t) override;
     void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) override;
@@ -106,6 +107,9 @@ private:
     void update_irq(time_ps at);
     void trigger(time_ps at);
     void activate_fault(time_ps at);
+    // The dead time in timer clock ticks: the dead_time count times its scale.
+    std::uint64_t dead_ticks() const;
+    void warn_dead_time_clipped(std::uint32_t written, time_ps at) const;
     std::optional<time_ps> time_of_tick(std::uint64_t n) const;
 
     timer_config cfg_;
@@ -124,6 +128,7 @@ private:
     bool period_waiting_ = false;
     std::uint32_t wrap_skip_shadow_ = 0, wrap_skip_ = 0;
     std::uint32_t dead_time_ = 0;
+    std::uint32_t dead_time_scale_ = 0;
     bool fault_enable_ = false;
     std::uint32_t fault_latency_ = 0;
     std::uint32_t flags_ = 0, irq_enable_ = 0, trigger_select_ = 0;
@@ -147,6 +152,13 @@ private:
     mutable std::uint64_t cached_tick_ = never;
     mutable std::optional<time_ps> cached_time_;
     std::uint64_t ticks_processed_ = 0;
+    std::string name_;
+
+    // What register accesses since the last processed tick left to show at the next tick: outputs
+    // and the interrupt line re-evaluated, flags to set, a trigger pulse to send.
+    bool effects_pending_ = false;
+    std::uint32_t pending_flags_ = 0;
+    bool pending_trigger_ = false;
 };
 
 }  // namespace models

@@ -12,7 +12,7 @@ timer_module::timer_module(const sc_core::sc_module_name& name, const timer_conf
       fault_in("fault_in"),
       tree_(tree),
       clock_node_(clock_node),
-      core_(cfg, tree.domain(clock_node), this),
+      core_(cfg, tree.domain(clock_node), this, basename()),
       irq_("irq") {
     if (sc_core::sc_get_time_resolution() != sc_core::sc_time(1, sc_core::SC_PS))
         throw std::logic_error(std::string(basename()) +

@@ -32,6 +32,8 @@ const char* to_string(timer_field f) {
             return "direction";
         case timer_field::dead_time:
             return "dead_time";
+        case timer_field::dead_time_scale:
+            return "dead_time_scale";
         case timer_field::fault_enable:
             return "fault_enable";
         case timer_field::fault_latency:

@@ -50,25 +50,26 @@ inline constexpr std::uint32_t trigger_on_reload = 7;
 
 // Functional fields. Per-channel fields take the channel index (0-based) as a second argument.
 enum class timer_field : std::uint32_t {
-    enable,          // 1: counting
-    mode,            // count_mode
-    slope,           // match_slope (center mode)
-    one_pulse,       // 1: counting stops at the next reload event caused by a wrap
-    period_preload,  // 1: period writes wait for the next reload event
-    reload_policy,   // reload_policy
-    force_reload,    // write 1: forced reload event now (reads 0)
-    prescaler,       // counter steps every (prescaler + 1) timer clock ticks
-    period,          // counter turning value
-    counter,         // the counter; reads give the value now
-    wrap_skip,       // wraps skipped between reload events: a reload event every (wrap_skip + 1)
-    direction,       // read-only: 0 counting up, 1 counting down
-    dead_time,       // timer clock ticks between one output falling and the other rising
-    fault_enable,    // 1: the fault input forces the safe levels
-    fault_latency,   // timer clock ticks from a fault input rising to the outputs forced
-    rearm,           // write 1: leave the fault state (if the fault input is low)
-    flags,           // flag bits (flag_channel, flag_reload, flag_fault)
-    irq_enable,      // same bits: which flags raise the interrupt request
-    trigger_select,  // trigger_none, trigger_on_match(c) or trigger_on_reload
+    enable,           // 1: counting
+    mode,             // count_mode
+    slope,            // match_slope (center mode)
+    one_pulse,        // 1: counting stops at the next reload event caused by a wrap
+    period_preload,   // 1: period writes wait for the next reload event
+    reload_policy,    // reload_policy
+    force_reload,     // write 1: forced reload event now (reads 0)
+    prescaler,        // counter steps every (prescaler + 1) timer clock ticks
+    period,           // counter turning value
+    counter,          // the counter; reads give the value now
+    wrap_skip,        // wraps skipped between reload events: a reload event every (wrap_skip + 1)
+    direction,        // read-only: 0 counting up, 1 counting down
+    dead_time,        // dead-time counts between one output falling and the other rising
+    dead_time_scale,  // the dead-time count runs every 1 << dead_time_scale ticks (0..3)
+    fault_enable,     // 1: the fault input forces the safe levels
+    fault_latency,    // timer clock ticks from a fault input rising to the outputs forced
+    rearm,            // write 1: leave the fault state (if the fault input is low)
+    flags,            // flag bits (flag_channel, flag_reload, flag_fault)
+    irq_enable,       // same bits: which flags raise the interrupt request
+    trigger_select,   // trigger_none, trigger_on_match(c) or trigger_on_reload
     // per channel
     compare,          // compare value
     compare_preload,  // 1: compare writes wait for the next reload event
@@ -98,7 +99,8 @@ struct timer_config {
     unsigned wrap_skip_bits = 8;     // width of the wrap skip count; 0: none
     bool prescaler_shadowed = true;  // prescaler writes wait for the next reload event
     bool complementary = false;      // complementary outputs, dead time and fault input
-    unsigned dead_time_max = 1023;   // largest dead time in timer clock ticks
+    unsigned dead_time_max = 1023;   // largest dead_time value; larger writes are clipped
+    bool dead_time_scaled = false;   // the dead_time_scale field exists (else the scale is 1)
     unsigned compare_latency = 0;    // 0..2 timer clock ticks before a compare write acts
     // Throws std::invalid_argument naming the first out-of-range value.
     void validate() const;

@@ -132,6 +132,8 @@ TEST(demo_encoding_test, the_firmware_header_names_the_layout_of_timer16_quad) {
         EXPECT_EQ(Q16_GUARD_COMP_SAFE_HIGH(c),
                   mask_of(l, "guard", timer_field::comp_safe_level, c));
     }
+    EXPECT_EQ(Q16_DEAD_TIME(0x3ff), mask_of(l, "dead", timer_field::dead_time));
+    EXPECT_EQ(Q16_DEAD_SCALE(3), mask_of(l, "dead", timer_field::dead_time_scale));
     EXPECT_EQ(Q16_GUARD_LATENCY(0xf), mask_of(l, "guard", timer_field::fault_latency));
     EXPECT_EQ(Q16_GUARD_FAULT_ENABLE, mask_of(l, "guard", timer_field::fault_enable));
 }
@@ -249,23 +251,29 @@ TEST(demo_encoding_test, every_documented_action_code_does_what_the_table_says) 
             rig.set(timer_field::period, 9, 0);
             rig.set(timer_field::compare, 4, 0);
             rig.set(timer_field::main_enable, 1, 0);
-            // Match and hold actions start from a known level: high for clear, low otherwise.
-            const bool starts_high = a.name == "clear_on_match";
-            if (starts_high) rig.set(timer_field::action, DEMO_ACTION_FORCE_HIGH, 0);
-            rig.set(timer_field::action, a.code, 0);
+            // Match actions start from a known level: high for clear (forced high, shown at tick
+            // 1, then the action written between ticks 1 and 2), low otherwise.
+            sim::time_ps action_at = 0;
+            if (a.name == "clear_on_match") {
+                rig.set(timer_field::action, DEMO_ACTION_FORCE_HIGH, 0);
+                action_at = 1'500'000;
+            }
             rig.set(timer_field::enable, 1, 0);
-            EXPECT_EQ(rig.timer.read(timer_field::action, 0, 0), a.code);
+            rig.set(timer_field::action, a.code, action_at);
+            EXPECT_EQ(rig.timer.read(timer_field::action, 0, action_at), a.code);
             // The counter holds t at tick t (0..9), then wraps; it reaches 4 at tick 4 and 14.
+            // Levels are compared from tick 3 on, when every write has shown (timer32_dual's
+            // compare writes act two ticks after them).
             std::vector<bool> levels;
             for (std::uint64_t t = 1; t <= 16; ++t) levels.push_back(rig.pin_after(t));
             auto level_at = [&](std::uint64_t t) { return levels[t - 1]; };
             if (a.name == "hold" || a.name == "force_low") {
-                for (std::uint64_t t = 1; t <= 16; ++t) EXPECT_FALSE(level_at(t)) << t;
+                for (std::uint64_t t = 3; t <= 16; ++t) EXPECT_FALSE(level_at(t)) << t;
             } else if (a.name == "force_high") {
-                for (std::uint64_t t = 1; t <= 16; ++t) EXPECT_TRUE(level_at(t)) << t;
+                for (std::uint64_t t = 3; t <= 16; ++t) EXPECT_TRUE(level_at(t)) << t;
             } else if (a.name == "pwm_below" || a.name == "pwm_at_or_above") {
                 const bool below = a.name == "pwm_below";
-                for (std::uint64_t t = 1; t <= 16; ++t)
+                for (std::uint64_t t = 3; t <= 16; ++t)
                     EXPECT_EQ(level_at(t), (t % 10 < 4) == below) << t;
             } else if (a.name == "toggle_on_match") {
                 EXPECT_FALSE(level_at(3));

@@ -129,11 +129,11 @@ TEST(check_engine_pwm_test, a_longer_required_dead_time_fails_on_the_first_gap) 
     bench.run_to(1 * ms);
     const auto& gap = engine.results()[0];
     EXPECT_FALSE(gap.passed);
-    // channel1 falls at the compare match (480 ticks = 10 us), channel1_complement rises 1 us
-    // later.
-    EXPECT_EQ(gap.at, 11 * us);
+    // The first period starts at tick 1: channel1 falls at the compare match 480 ticks later
+    // (tick 481, 10.020833 us), channel1_complement rises 1 us after that.
+    EXPECT_EQ(gap.at, 11'020'833u);
     EXPECT_NE(gap.detail.find("gap 1 us from pwm.channel1 falling to pwm.channel1_complement "
-                              "rising is below the minimum 2 us at 11 us"),
+                              "rising is below the minimum 2 us at 11.020833 us"),
               std::string::npos)
         << gap.detail;
     const auto& duty = engine.results()[1];

@@ -3,8 +3,8 @@
 //
 // A 48 MHz timer clock, a timer with complementary outputs, three edge-aligned PWM channels at
 // 25 kHz (prescaler 0, period 1919) with compares 480, 960 and 1440, and a dead time in timer
-// clock ticks. Each pin change goes straight to the sink; signals are "pwm.channel<c + 1>" and
-// "pwm.channel<c + 1>_complement".
+// clock ticks, the first period starting at tick 1. Each pin change goes straight to the sink;
+// signals are "pwm.channel<c + 1>" and "pwm.channel<c + 1>_complement".
 
 #include "models/timer/timer_core.h"
 #include "sim/signal_sink.h"
@@ -34,6 +34,9 @@ public:
             timer_.write(timer_field::main_enable, c, 1, 0);
             timer_.write(timer_field::comp_enable, c, 1, 0);
         }
+        // The counter starts at the period, so the first tick wraps it to 0 and every period,
+        // the first too, is whole (the set-up written at 0 shows from that tick on).
+        timer_.write(timer_field::counter, 0, 1919, 0);
         sink_.begin();
         timer_.write(timer_field::enable, 0, 1, 0);
     }

@@ -40,6 +40,16 @@ run_result run_program(const timer_program& p, const model_factory& make) {
         r.error = e.what();
     }
     r.events = log.canonical();
+    for (const timer_event& e : r.events) {
+        if (e.kind == test_support::timer_event_kind::read) continue;
+        const auto edge = domain.edge_at_or_after(e.at);
+        if (!edge || edge->at != e.at) {
+            std::ostringstream s;
+            s << e << " lies between two edges of the timer clock";
+            r.off_clock = s.str();
+            break;
+        }
+    }
     return r;
 }
 

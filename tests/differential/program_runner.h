@@ -24,6 +24,10 @@ using model_factory = std::function<std::unique_ptr<models::timer_core_if>(
 struct run_result {
     std::vector<test_support::timer_event> events;
     std::string error;
+    // The first reported pin edge, flag set, interrupt line change or trigger that does not lie on
+    // an edge of the timer clock (empty when every one does): outputs, flags and the interrupt
+    // line change only on the timer's clock (docs/timer-model.md, "Time").
+    std::string off_clock;
 };
 
 run_result run_program(const timer_program& p, const model_factory& make);

@@ -93,6 +93,7 @@ models::timer_config random_config(dice& d) {
     cfg.prescaler_shadowed = d.chance(0.5);
     cfg.complementary = d.chance(0.5);
     cfg.dead_time_max = static_cast<unsigned>(d.pick(std::vector<std::uint64_t>{0, 3, 15, 1023}));
+    cfg.dead_time_scaled = d.chance(0.5);
     cfg.compare_latency = static_cast<unsigned>(d.range(0, 2));
     return cfg;
 }
@@ -186,6 +187,8 @@ std::uint32_t random_value(timer_field f, const models::timer_config& cfg,
             return static_cast<std::uint32_t>(d.range(0, 4));
         case timer_field::dead_time:
             return static_cast<std::uint32_t>(d.chance(0.9) ? d.range(0, 12) : d.range(0, 3000));
+        case timer_field::dead_time_scale:
+            return static_cast<std::uint32_t>(d.range(0, 3));
         case timer_field::fault_latency:
             return static_cast<std::uint32_t>(d.range(0, 4));
         case timer_field::rearm:
@@ -204,12 +207,12 @@ std::uint32_t random_value(timer_field f, const models::timer_config& cfg,
 }
 
 const std::vector<timer_field> global_fields = {
-    timer_field::enable,       timer_field::mode,           timer_field::slope,
-    timer_field::one_pulse,    timer_field::period_preload, timer_field::reload_policy,
-    timer_field::force_reload, timer_field::prescaler,      timer_field::period,
-    timer_field::counter,      timer_field::wrap_skip,      timer_field::dead_time,
-    timer_field::fault_enable, timer_field::fault_latency,  timer_field::rearm,
-    timer_field::irq_enable,   timer_field::trigger_select,
+    timer_field::enable,          timer_field::mode,           timer_field::slope,
+    timer_field::one_pulse,       timer_field::period_preload, timer_field::reload_policy,
+    timer_field::force_reload,    timer_field::prescaler,      timer_field::period,
+    timer_field::counter,         timer_field::wrap_skip,      timer_field::dead_time,
+    timer_field::dead_time_scale, timer_field::fault_enable,   timer_field::fault_latency,
+    timer_field::rearm,           timer_field::irq_enable,     timer_field::trigger_select,
 };
 const std::vector<timer_field> channel_fields = {
     timer_field::compare,         timer_field::compare_preload, timer_field::action,

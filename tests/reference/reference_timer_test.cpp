@@ -249,11 +249,13 @@ TEST(reference_timer_test, forced_reload_restarts_counter_and_prescaler) {
     EXPECT_EQ(fx.read(14, timer_field::counter), 0u);
     EXPECT_EQ(fx.read(15, timer_field::counter), 1u);
     fx.run_to(40);
+    // The forced reload's trigger pulse and flag show at the first tick after the write (14); the
+    // counter then steps at 15, 17... and wraps from 9 at 33.
     std::vector<std::uint64_t> ticks;
     for (auto t : fx.log.of_kind(timer_event_kind::trigger)) ticks.push_back(fx.tick_of(t));
-    EXPECT_EQ(ticks, (std::vector<std::uint64_t>{13, 33}));
-    EXPECT_EQ(fx.log.flag_sets(flag_reload).size(), 1u);  // set at 13, never cleared
-    EXPECT_EQ(fx.tick_of(fx.log.flag_sets(flag_reload)[0]), 13u);
+    EXPECT_EQ(ticks, (std::vector<std::uint64_t>{14, 33}));
+    EXPECT_EQ(fx.log.flag_sets(flag_reload).size(), 1u);  // set at 14, never cleared
+    EXPECT_EQ(fx.tick_of(fx.log.flag_sets(flag_reload)[0]), 14u);
 }
 
 TEST(reference_timer_test, forced_reload_in_down_mode_loads_period) {
@@ -295,14 +297,17 @@ TEST(reference_timer_test, dead_time_delays_each_rise) {
     reference_fixture fx(complementary_config());
     start_complementary(fx, 3, 5);
     fx.run_to(26);
+    // The set-up written after tick 0 shows at tick 1: the reference level rises there, so the
+    // main output rises 3 ticks later. It falls at once when the counter reaches 5, and the
+    // complementary output rises 3 ticks after that.
     EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), true)),
-              (std::vector<std::uint64_t>{3, 13, 23}));
+              (std::vector<std::uint64_t>{4, 13, 23}));
     EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)),
               (std::vector<std::uint64_t>{5, 15, 25}));
     EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)),
-              (std::vector<std::uint64_t>{0, 8, 18}));
+              (std::vector<std::uint64_t>{8, 18}));
     EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), false)),
-              (std::vector<std::uint64_t>{0, 10, 20}));
+              (std::vector<std::uint64_t>{10, 20}));
 }
 
 TEST(reference_timer_test, dead_time_is_clipped_to_the_instance_maximum) {
@@ -317,7 +322,7 @@ TEST(reference_timer_test, pulse_shorter_than_dead_time_vanishes) {
     fx.run_to(40);
     EXPECT_TRUE(fx.log.pin_edges(main_pin(0), true).empty());
     EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)),
-              (std::vector<std::uint64_t>{0, 5, 15, 25, 35}));
+              (std::vector<std::uint64_t>{5, 15, 25, 35}));
 }
 
 TEST(reference_timer_test, fault_forces_safe_levels_after_latency_until_rearm) {
@@ -326,34 +331,37 @@ TEST(reference_timer_test, fault_forces_safe_levels_after_latency_until_rearm) {
     fx.write(0, timer_field::fault_latency, 2);
     fx.write(0, timer_field::comp_safe_level, 1);
     start_complementary(fx, 0, 5);
-    fx.timer.set_fault_input(true, fx.at(20) + 1000);  // at tick 22 the counter is 2
-    fx.run_to(21);
-    fx.log.clear();
+    // The input rises between ticks 20 and 21: the fault acts 2 ticks after tick 21.
+    fx.timer.set_fault_input(true, fx.at(20) + 1000);
     fx.run_to(22);
-    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_fault)), (std::vector<std::uint64_t>{22}));
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)), (std::vector<std::uint64_t>{22}));
-    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)), (std::vector<std::uint64_t>{22}));
+    fx.log.clear();
+    fx.run_to(23);
+    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_fault)), (std::vector<std::uint64_t>{23}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)), (std::vector<std::uint64_t>{23}));
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(comp_pin(0), true)), (std::vector<std::uint64_t>{23}));
     fx.run_to(30);
     EXPECT_EQ(fx.log.events.size(), 3u);  // the counter no longer moves the pins
     fx.write(30, timer_field::rearm, 1);  // input still high: nothing
     EXPECT_FALSE(fx.timer.pin(main_pin(0)));
     fx.timer.set_fault_input(false, fx.at(31));
     EXPECT_FALSE(fx.timer.pin(main_pin(0)));  // the input falling does not end the fault
-    fx.write(32, timer_field::rearm, 1);      // counter 2: main high, comp low again
+    fx.write(32, timer_field::rearm, 1);
+    EXPECT_FALSE(fx.timer.pin(main_pin(0)));  // the pins return at the next tick
+    fx.run_to(33);                            // counter 3: main high, comp low again
     EXPECT_TRUE(fx.timer.pin(main_pin(0)));
     EXPECT_FALSE(fx.timer.pin(comp_pin(0)));
-    EXPECT_EQ(fx.log.pin_edges(main_pin(0), true).back(), fx.at(32));
+    EXPECT_EQ(fx.log.pin_edges(main_pin(0), true).back(), fx.at(33));
     EXPECT_EQ(fx.read(32, timer_field::flags) & flag_fault, flag_fault);
 }
 
-TEST(reference_timer_test, fault_without_latency_acts_at_the_input_change) {
+TEST(reference_timer_test, fault_without_latency_acts_at_the_next_tick) {
     reference_fixture fx(complementary_config());
     fx.write(0, timer_field::fault_enable, 1);
     fx.write(0, timer_field::main_safe_level, 1);
-    const sim::time_ps t = fx.at(3) + 7;
-    fx.timer.set_fault_input(true, t);
-    EXPECT_EQ(fx.log.pin_edges(main_pin(0), true), (std::vector<sim::time_ps>{t}));
-    EXPECT_EQ(fx.log.flag_sets(flag_fault), (std::vector<sim::time_ps>{t}));
+    fx.timer.set_fault_input(true, fx.at(3) + 7);
+    fx.run_to(4);
+    EXPECT_EQ(fx.log.pin_edges(main_pin(0), true), (std::vector<sim::time_ps>{fx.at(4)}));
+    EXPECT_EQ(fx.log.flag_sets(flag_fault), (std::vector<sim::time_ps>{fx.at(4)}));
 }
 
 TEST(reference_timer_test, flags_raise_and_drop_the_interrupt_line) {
@@ -369,7 +377,8 @@ TEST(reference_timer_test, flags_raise_and_drop_the_interrupt_line) {
     EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_channel(0))),
               (std::vector<std::uint64_t>{5}));  // compare 0 matches at the wrap
     std::vector<std::uint64_t> irq_ticks = ticks_of(fx, fx.log.of_kind(timer_event_kind::irq));
-    EXPECT_EQ(irq_ticks, (std::vector<std::uint64_t>{5, 7, 10, 11, 12}));
+    // Flags set at ticks; the clear at 7 and the enable writes at 11 and 12 show at the next tick.
+    EXPECT_EQ(irq_ticks, (std::vector<std::uint64_t>{5, 8, 10, 12, 13}));
     EXPECT_TRUE(fx.timer.irq());
 }
 
@@ -420,17 +429,16 @@ TEST_P(compare_latency_test, new_compare_acts_after_the_latency) {
     cfg.compare_latency = GetParam();
     reference_fixture fx(cfg);
     start_pwm(fx, count_mode::up, 0, 99, 50);
-    fx.run_to(2);  // the first compare write takes effect by now whatever the latency
+    fx.run_to(3);  // the first compare write takes effect by now whatever the latency
     fx.log.clear();
     const sim::time_ps t = fx.at(10) + 500;
     fx.timer.write(timer_field::compare, 0, 5, t);  // counter 10 >= 5: the level falls
     fx.run_to(20);
+    // Tick 11 is the first after the write; with latency L, ticks 11 .. 10 + L still compare
+    // against the old value, and tick 11 + L uses the new one.
     const auto falls = fx.log.pin_edges(main_pin(0), false);
     ASSERT_EQ(falls.size(), 1u);
-    if (GetParam() == 0)
-        EXPECT_EQ(falls[0], t);
-    else
-        EXPECT_EQ(falls[0], fx.at(10 + GetParam()));
+    EXPECT_EQ(falls[0], fx.at(11 + GetParam()));
     EXPECT_EQ(fx.timer.read(timer_field::compare, 0, t), 5u);
 }
 

@@ -25,7 +25,9 @@ inline models::timer_config pwm_config() {
 }
 
 // Programs `timer` at time 0: up-counting, period 1920 ticks, channel c active while the counter is
-// below compare_ticks[c].
+// below compare_ticks[c]. The outputs are enabled just before the first wrap, which is at 40 us:
+// writes show at the next clock edge, so the outputs start there with a whole period and every
+// edge lies on a whole microsecond.
 inline void start_pwm(models::timer_core_if& timer) {
     using models::timer_field;
     timer.write(timer_field::prescaler, 0, 0, 0);
@@ -34,10 +36,11 @@ inline void start_pwm(models::timer_core_if& timer) {
         timer.write(timer_field::compare, c, compare_ticks[c], 0);
         timer.write(timer_field::action, c,
                     static_cast<std::uint32_t>(models::output_action::pwm_below), 0);
-        timer.write(timer_field::main_enable, c, 1, 0);
     }
     timer.write(timer_field::force_reload, 0, 1, 0);
     timer.write(timer_field::enable, 0, 1, 0);
+    for (unsigned c = 0; c < compare_ticks.size(); ++c)
+        timer.write(timer_field::main_enable, c, 1, period_ps - 1);
 }
 
 }  // namespace tickbench::waves_test

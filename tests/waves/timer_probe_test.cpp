@@ -61,8 +61,8 @@ TEST(timer_probe_test, forwards_pins_and_irq_and_chains) {
     models::timer_probe probe("fan", pwm_config(), sink, 0, &log);
     const sim::clock_domain clock(sim::frequency::hz(clock_hz));
     models::timer_core timer(pwm_config(), clock, &probe);
-    start_pwm(timer);
     timer.write(models::timer_field::irq_enable, 0, models::flag_reload, 0);
+    start_pwm(timer);
     timer.advance_to(100'000'000);  // 100 us
     timer.clear_flags(models::flag_reload, 50'000'000 + 100'000'000);
     timer.advance_to(200'000'000);
@@ -76,9 +76,10 @@ TEST(timer_probe_test, forwards_pins_and_irq_and_chains) {
     }
     EXPECT_EQ(sink.changes, expected);
     EXPECT_FALSE(log.flag_sets(models::flag_reload).empty());
-    // The forced reload at 0 set the flag: irq up at 0 (enabled), down at 150 us, up at the reload
-    // at 160 us.
-    const std::vector<sim::time_ps> irq = {0, 150'000'000, 160'000'000};
+    // The forced reload at 0 set the flag at the first clock edge after it (tick 1, 20833 ps),
+    // raising the irq; the clear at 150 us (tick 7200) drops it at tick 7201; the reload at 160 us
+    // raises it again.
+    const std::vector<sim::time_ps> irq = {20'833, 150'020'833, 160'000'000};
     EXPECT_EQ(log.of_kind(tickbench::test_support::timer_event_kind::irq), irq);
 }
 
@@ -117,11 +118,11 @@ TEST(timer_probe_test, pwm_waveform_holds_the_timer_edges_exactly) {
                     expected.emplace_back(e.at, e.value != 0 ? '1' : '0');
             const auto got = v.of("pwm_timer.channel" + std::to_string(c + 1));
             EXPECT_EQ(got, expected) << "channel " << c + 1;
-            // 50 whole periods (50 rises, 50 falls) and the rise at 2000 us: advance_to(t)
-            // processes everything at or before t.
-            EXPECT_EQ(got.size(), 101u);
+            // 49 whole periods from 40 us (49 rises, 49 falls) and the rise at 2000 us:
+            // advance_to(t) processes everything at or before t.
+            EXPECT_EQ(got.size(), 99u);
             ASSERT_FALSE(got.empty());
-            EXPECT_EQ(got.front(), std::make_pair(sim::time_ps{0}, '1'));
+            EXPECT_EQ(got.front(), std::make_pair(period_ps, '1'));
         }
         EXPECT_EQ(v.times.back(), 2'000'000'000u);
     }
