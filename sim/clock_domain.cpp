@@ -44,7 +44,16 @@ clock_segment clock_segment::running(std::uint64_t first_tick, time_ps origin, c
     s.base_ = static_cast<u128>(origin) * s.step_den_;
     s.source_tick_ = first_tick;
     s.jitter_base_ = first_tick;
+    s.set_limit();
     return s;
+}
+
+void clock_segment::set_limit() {
+    // round half up of x / d as (2x + d) / (2d); x < 2^64 * d keeps 2x + d inside 128 bits.
+    const u128 d = step_den_;
+    const u128 x_limit = u64_max * d + d / 2;  // largest x whose rounding still fits 64 bits
+    beyond_limit_ = base_ > x_limit;
+    last_n_ = beyond_limit_ || step_num_ == 0 ? 0 : (x_limit - base_) / step_num_;
 }
 
 clock_segment clock_segment::running(std::uint64_t first_tick, time_ps origin, const frequency& f,
@@ -96,6 +105,7 @@ clock_segment clock_segment::derived(const clock_segment& parent, std::uint64_t 
     s.jitter_seed_ = parent.jitter_seed_;
     s.jitter_base_ = parent.jitter_base_ + (parent_tick - parent.first_tick_) * parent.jitter_step_;
     s.jitter_step_ = parent.jitter_step_ * factor;
+    s.set_limit();
     return s;
 }
 
@@ -129,10 +139,9 @@ std::uint64_t clock_segment::tick_at(time_ps t) const {
 
 time_ps clock_segment::nominal_time_of(std::uint64_t k) const {
     const u128 n = k - first_tick_;
-    // round half up of x / d as (2x + d) / (2d); x < 2^64 * d keeps 2x + d inside 128 bits.
+    if (beyond_limit_ || n > last_n_) throw_limit("clock edge");
+    // round half up of x / d as (2x + d) / (2d), inside 128 bits (set_limit).
     const u128 d = step_den_;
-    const u128 x_limit = u64_max * d + d / 2;  // largest x whose rounding still fits 64 bits
-    if (base_ > x_limit || (n != 0 && n > (x_limit - base_) / step_num_)) throw_limit("clock edge");
     const u128 x = base_ + n * step_num_;
     const u128 num = 2 * x + d;
     // Most edges fit a 64-bit division, several times faster than a 128-bit one.

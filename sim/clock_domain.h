@@ -91,6 +91,8 @@ public:
 private:
     time_ps nominal_time_of(std::uint64_t k) const;
     std::uint64_t nominal_tick_at(time_ps t) const;
+    // Sets last_n_ from base_ and the step (called once the segment's timing is set).
+    void set_limit();
     std::uint64_t source_tick_ = 0;
     std::uint64_t factor_ = 1;
     time_ps jitter_ = 0;
@@ -104,6 +106,10 @@ private:
     u128 base_ = 0;               // exact time of the first edge, times step_den_
     std::uint64_t step_num_ = 0;  // period = step_num_ / step_den_ ps
     std::uint64_t step_den_ = 1;
+    // Largest edge offset (k - first_tick_) whose time still fits the time base, computed once so
+    // that time_of needs no 128-bit division to check it.
+    u128 last_n_ = 0;
+    bool beyond_limit_ = false;  // even the first edge lies past the limit
 };
 
 // A clock's whole timeline: segments in time order, tick indices continuous across them.

@@ -27,6 +27,7 @@ timer_core::timer_core(const timer_config& cfg, const sim::clock_domain& timer_c
     : cfg_(cfg), clock_(timer_clock), observer_(observer), name_(std::move(name)) {
     cfg_.validate();
     max_ = cfg_.counter_max();
+    all_channels_ = (1u << cfg_.channels) - 1;
     period_ = period_shadow_ = max_;
     // Reference levels start at 0, so complementary outputs have wanted to be active since reset.
     if (cfg_.complementary)
@@ -110,10 +111,13 @@ std::optional<time_ps> timer_core::next_interesting_time() const {
 
 std::uint64_t timer_core::compute_next_interesting_tick() const {
     std::uint64_t n = std::min(fault_at_, effects_pending_ ? next_tick_ : never);
-    for (unsigned i = 0; i < cfg_.channels; ++i)
-        if (!ch_[i].pending.empty()) n = std::min(n, ch_[i].pending.front().tick);
-    if (pending_rises_ != 0)
-        for (unsigned i = 0; i < 2 * cfg_.channels; ++i) n = std::min(n, pins_[i].rise_at);
+    if (pending_compares_ != 0)
+        for (unsigned i = 0; i < cfg_.channels; ++i)
+            if (!ch_[i].pending.empty()) n = std::min(n, ch_[i].pending.front().tick);
+    for (std::uint32_t m = rise_channels_; m != 0; m &= m - 1) {
+        const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
+        n = std::min({n, pins_[main_pin(i)].rise_at, pins_[comp_pin(i)].rise_at});
+    }
     const std::uint64_t s = steps_to_next_interesting();
     if (s != never) n = std::min(n, tick_of_step(s));
     return n;
@@ -240,9 +244,9 @@ std::uint32_t timer_core::ref_mask() const {
     return m;
 }
 
-void timer_core::update_pins(std::uint64_t first_tick_after, time_ps at) {
-    pending_rises_ = 0;
-    for (unsigned i = 0; i < cfg_.channels; ++i) {
+void timer_core::update_pins(std::uint32_t channels, std::uint64_t first_tick_after, time_ps at) {
+    for (std::uint32_t bits = channels; bits != 0; bits &= bits - 1) {
+        const unsigned i = static_cast<unsigned>(__builtin_ctz(bits));
         const channel& c = ch_[i];
         pin_state& m = pins_[main_pin(i)];
         pin_state& k = pins_[comp_pin(i)];
@@ -265,8 +269,11 @@ void timer_core::update_pins(std::uint64_t first_tick_after, time_ps at) {
                         ps->rise_at = never;
                     }
                 }
-                pending_rises_ += ps->rise_at != never;
             }
+            if (m.rise_at != never || k.rise_at != never)
+                rise_channels_ |= 1u << i;
+            else
+                rise_channels_ &= ~(1u << i);
         }
         const bool main_level =
             fault_active_ ? c.main_safe
@@ -336,13 +343,15 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
         pending_trigger_ = false;
         trigger(at);
     }
-    for (unsigned i = 0; i < cfg_.channels; ++i) {
-        auto& q = ch_[i].pending;
-        while (!q.empty() && q.front().tick <= n) {
-            ch_[i].compare = q.front().value;
-            q.pop_front();
+    if (pending_compares_ != 0)
+        for (unsigned i = 0; i < cfg_.channels; ++i) {
+            auto& q = ch_[i].pending;
+            while (!q.empty() && q.front().tick <= n) {
+                ch_[i].compare = q.front().value;
+                q.pop_front();
+                --pending_compares_;
+            }
         }
-    }
     if (fault_at_ <= n) {
         fault_at_ = never;
         activate_fault(at);
@@ -378,10 +387,12 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
     }
     evaluate_levels();
     next_tick_ = n + 1;
-    // Pins can only change if a level, the fault state or a pending dead-time rise did.
-    if (after_access || pending_rises_ != 0 || fault_active_ != fault_before ||
-        ref_mask() != refs_before)
-        update_pins(next_tick_, at);
+    // Pins can only change where a level or a pending dead-time rise did; everywhere after an
+    // access or a change of the fault state.
+    const std::uint32_t channels = after_access || fault_active_ != fault_before
+                                       ? all_channels_
+                                       : (ref_mask() ^ refs_before) | rise_channels_;
+    if (channels != 0) update_pins(channels, next_tick_, at);
     update_irq(at);
 }
 
@@ -511,8 +522,10 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
                     if (c.preload) break;
                     if (cfg_.compare_latency == 0)
                         c.compare = c.compare_shadow;
-                    else
+                    else {
                         c.pending.push_back({next_tick_ + cfg_.compare_latency, c.compare_shadow});
+                        ++pending_compares_;
+                    }
                     break;
                 case timer_field::compare_preload:
                     c.preload = bit;

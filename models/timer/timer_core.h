@@ -100,9 +100,9 @@ private:
     void evaluate_levels();
     // Reference levels of all channels as a bit mask (bit c: channel c).
     std::uint32_t ref_mask() const;
-    // Pin wants -> dead time -> pin levels; dead time counts from `first_tick_after`, the first
-    // tick not yet processed.
-    void update_pins(std::uint64_t first_tick_after, time_ps at);
+    // Pin wants -> dead time -> pin levels of the channels in the mask `channels`; dead time counts
+    // from `first_tick_after`, the first tick not yet processed.
+    void update_pins(std::uint32_t channels, std::uint64_t first_tick_after, time_ps at);
     void set_flags(std::uint32_t bits, time_ps at);
     void update_irq(time_ps at);
     void trigger(time_ps at);
@@ -147,7 +147,9 @@ private:
 
     std::array<pin_state, 2 * max_channels> pins_{};
     bool irq_ = false;
-    unsigned pending_rises_ = 0;  // pins with a dead-time rise scheduled
+    std::uint32_t rise_channels_ = 0;  // bit c: a pin of channel c has a dead-time rise scheduled
+    std::uint32_t all_channels_ = 0;   // bit c for every channel of the instance
+    unsigned pending_compares_ = 0;    // compare writes waiting out the compare latency
     mutable bool cache_valid_ = false;
     mutable std::uint64_t cached_tick_ = never;
     mutable std::optional<time_ps> cached_time_;

@@ -20,6 +20,8 @@
 #include <iomanip>
 #include <iostream>
 #include <map>
+#include <set>
+#include <sstream>
 #include <string>
 #include <vector>
 
@@ -80,9 +82,10 @@ double rounded(double v) {
 }
 
 void usage(std::ostream& out) {
-    out << "usage: tickbench-bench [--json] [--quick]\n"
+    out << "usage: tickbench-bench [--json] [--quick] [--only NAME[,NAME...]]\n"
            "  --json   print one JSON object {\"metric\": {\"value\": number, \"unit\": text}}\n"
-           "  --quick  few iterations and one repetition (a smoke run, not a measurement)\n";
+           "  --quick  few iterations and one repetition (a smoke run, not a measurement)\n"
+           "  --only   run only the metrics named (comma-separated)\n";
 }
 
 }  // namespace
@@ -98,12 +101,16 @@ namespace {
 int run(int argc, char** argv) {
     bool json = false;
     bool quick = false;
+    std::set<std::string> only;
     for (int i = 1; i < argc; ++i) {
         const std::string a = argv[i];
         if (a == "--json") {
             json = true;
         } else if (a == "--quick") {
             quick = true;
+        } else if (a == "--only" && i + 1 < argc) {
+            std::stringstream names(argv[++i]);
+            for (std::string n; std::getline(names, n, ',');) only.insert(n);
         } else if (a == "--help" || a == "-h") {
             usage(std::cout);
             return 0;
@@ -114,6 +121,18 @@ int run(int argc, char** argv) {
         }
     }
 
+    if (!only.empty()) {
+        auto& all = bench::metrics();
+        for (const std::string& n : only)
+            if (std::none_of(all.begin(), all.end(),
+                             [&](const bench::metric& m) { return m.name == n; })) {
+                std::cerr << "tickbench-bench: --only: no metric named '" << n << "'\n";
+                return 2;
+            }
+        all.erase(std::remove_if(all.begin(), all.end(),
+                                 [&](const bench::metric& m) { return only.count(m.name) == 0; }),
+                  all.end());
+    }
     // Google Benchmark reads its own flags too; give it none so the choices below hold.
     int bm_argc = 1;
     benchmark::Initialize(&bm_argc, argv);
@@ -132,7 +151,9 @@ int run(int argc, char** argv) {
             b->MinTime(full_min_seconds)->Repetitions(full_repetitions);
     }
     collecting_reporter reporter;
-    benchmark::RunSpecifiedBenchmarks(&reporter);
+    if (std::any_of(bench::metrics().begin(), bench::metrics().end(),
+                    [](const bench::metric& m) { return m.measure == nullptr; }))
+        benchmark::RunSpecifiedBenchmarks(&reporter);
     benchmark::Shutdown();
 
     bool ok = bench::failures().empty();
