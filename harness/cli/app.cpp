@@ -74,6 +74,13 @@ int run(int argc, char** argv) {
         ->required();
     clocks_cmd->add_flag("--json", clocks.json, "Print the plan as JSON instead of a table");
 
+    layout_options layout;
+    CLI::App* layout_cmd = app.add_subcommand(
+        "layout", "Load a register layout file and print its registers, fields and value tables");
+    layout_cmd->add_option("FILE", layout.file, "Register layout (TOML, docs/register-layouts.md)")
+        ->required();
+    layout_cmd->add_flag("--json", layout.json, "Print the layout as JSON instead of a table");
+
     plan_options plan;
     CLI::App* plan_cmd = app.add_subcommand(
         "plan", "List prescaler and period settings that reach a target frequency, best first");
@@ -106,6 +113,7 @@ int run(int argc, char** argv) {
         if (*check_cmd) return run_check(check_file, std::cout);
         if (*clocks_cmd) return run_clocks(clocks, std::cout);
         if (*plan_cmd) return run_plan(plan, std::cout);
+        if (*layout_cmd) return run_layout(layout, std::cout);
     } catch (const sim::scenario_error& e) {
         report_error(e.what());
         return exit_bad_input;

@@ -37,6 +37,16 @@ int run_clocks(const clocks_options& options, std::ostream& out);
 // harness::firmware_load_error.
 int run_check(const std::string& file, std::ostream& out);
 
+struct layout_options {
+    std::string file;
+    bool json = false;
+};
+
+// `tickbench layout`: loads the register layout FILE and prints its table (registers, fields, value
+// tables and the functional fields no register reaches), or its JSON form. Throws scenario_error on
+// a bad layout.
+int run_layout(const layout_options& options, std::ostream& out);
+
 struct run_command_options {
     std::string file;
     std::string out_dir = "tickbench-out";

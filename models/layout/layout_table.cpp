@@ -1,5 +1,8 @@
 #include "models/layout/layout_table.h"
 
+#include <nlohmann/json.hpp>
+
+#include <algorithm>
 #include <cstdio>
 
 namespace models {
@@ -17,19 +20,37 @@ std::string bit_range(unsigned lo, unsigned width) {
     return std::to_string(lo) + ".." + std::to_string(lo + width - 1);
 }
 
+// "mode = center, slope = down"; "nothing" for an entry that sets no field.
+std::string describe_sets(const code_entry& e) {
+    std::string out;
+    for (const auto& a : e.sets)
+        out += (out.empty() ? "" : ", ") + std::string(to_string(a.field)) + " = " +
+               value_name(a.field, a.value);
+    return out.empty() ? "nothing" : out;
+}
+
+std::vector<std::uint32_t> sorted(std::vector<std::uint32_t> v) {
+    std::sort(v.begin(), v.end());
+    return v;
+}
+
 }  // namespace
 
-std::string describe_fields(const register_map& reg) {
+std::string describe_fields(const register_map& reg, const register_layout& layout) {
     std::string out;
     for (const field_map& f : reg.fields) {
         if (!out.empty()) out += ", ";
-        out += bit_range(f.bit, f.width) + " " + to_string(f.field);
-        if (is_channel_field(f.field)) out += "[" + std::to_string(f.channel) + "]";
+        const code_table* table = layout.codes_of(f);
+        out += field_bits(f) + " " + (table ? table->name : to_string(f.field));
+        if (table ? table->sets_channel_field() : is_channel_field(f.field))
+            out += "[" + std::to_string(f.channel) + "]";
         if (f.value_bit != 0)
             out +=
                 (f.width == 1 ? " value bit " : " value bits ") + bit_range(f.value_bit, f.width);
+        std::string notes = table ? "coded" : f.invert ? "inverted" : "";
         if (f.access != access_kind::read_write)
-            out += std::string(" (") + to_string(f.access) + ")";
+            notes += (notes.empty() ? "" : ", ") + std::string(to_string(f.access));
+        if (!notes.empty()) out += " (" + notes + ")";
     }
     return out.empty() ? "(spare)" : out;
 }
@@ -40,9 +61,74 @@ std::string layout_table_markdown(const register_layout& layout) {
         "|---|---|---|---|---|\n";
     for (const register_map& r : layout.registers) {
         out += "| " + hex(r.offset, 2) + " | `" + r.name + "` | " + std::to_string(r.width) +
-               " | " + hex(r.reset, r.width / 4) + " | " + describe_fields(r) + " |\n";
+               " | " + hex(r.reset, r.width / 4) + " | " + describe_fields(r, layout) + " |\n";
     }
+    if (layout.codes.empty()) return out;
+    out += "\n| value table | raw | sets |\n|---|---|---|\n";
+    for (const code_table& t : layout.codes)
+        for (const code_entry& e : t.entries)
+            out += "| `" + t.name + "` | " + raw_value_list(sorted(e.raws)) + " | " +
+                   describe_sets(e) + " |\n";
     return out;
+}
+
+std::string layout_json(const register_layout& layout) {
+    using json = nlohmann::ordered_json;
+    const timer_config& c = layout.instance;
+    json doc = {{"name", layout.name},
+                {"kind", layout.kind},
+                {"size", layout.size},
+                {"instance",
+                 {{"counter_bits", c.counter_bits},
+                  {"channels", c.channels},
+                  {"prescaler_bits", c.prescaler_bits},
+                  {"wrap_skip_bits", c.wrap_skip_bits},
+                  {"prescaler_shadowed", c.prescaler_shadowed},
+                  {"complementary", c.complementary},
+                  {"dead_time_max", c.dead_time_max},
+                  {"compare_latency", c.compare_latency}}}};
+    json registers = json::array();
+    for (const register_map& r : layout.registers) {
+        json fields = json::array();
+        for (const field_map& f : r.fields) {
+            json j;
+            j["bits"] = field_bits(f);
+            const code_table* table = layout.codes_of(f);
+            if (table)
+                j["codes"] = table->name;
+            else
+                j["field"] = to_string(f.field);
+            if (table ? table->sets_channel_field() : is_channel_field(f.field))
+                j["channel"] = f.channel;
+            if (!table) j["value_bit"] = f.value_bit;
+            j["access"] = to_string(f.access);
+            if (!table) j["invert"] = f.invert;
+            fields.push_back(std::move(j));
+        }
+        registers.push_back({{"name", r.name},
+                             {"offset", r.offset},
+                             {"width", r.width},
+                             {"reset", r.reset},
+                             {"fields", std::move(fields)}});
+    }
+    doc["registers"] = std::move(registers);
+    json codes = json::object();
+    for (const code_table& t : layout.codes) {
+        json entries = json::array();
+        for (const code_entry& e : t.entries) {
+            json sets = json::object();
+            for (const auto& a : e.sets) {
+                if (value_names(c, a.field).empty())
+                    sets[to_string(a.field)] = a.value;
+                else
+                    sets[to_string(a.field)] = value_name(a.field, a.value);
+            }
+            entries.push_back({{"raw", e.raws}, {"sets", std::move(sets)}});
+        }
+        codes[t.name] = std::move(entries);
+    }
+    doc["codes"] = std::move(codes);
+    return doc.dump(2);
 }
 
 }  // namespace models

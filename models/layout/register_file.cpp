@@ -1,5 +1,7 @@
 #include "models/layout/register_file.h"
 
+#include <spdlog/spdlog.h>
+
 #include <algorithm>
 #include <stdexcept>
 
@@ -14,6 +16,11 @@ std::uint32_t byte_mask(unsigned first_byte, unsigned end_byte) {
     std::uint64_t m = 0;
     for (unsigned b = first_byte; b < end_byte; ++b) m |= 0xffull << (8 * b);
     return static_cast<std::uint32_t>(m);
+}
+
+// The channel a coded field's entry sets functional field f on: the field's, for per-channel f.
+unsigned channel_of(const field_map& coded, timer_field f) {
+    return is_channel_field(f) ? coded.channel : 0;
 }
 
 void check_length(unsigned length) {
@@ -38,15 +45,25 @@ register_file::register_file(const register_layout& layout, timer_core_if& core,
         register_entry e;
         e.reg = &reg;
         for (const auto& f : reg.fields) {
-            if (!instance_has(config_, f.field, f.channel))
-                throw std::invalid_argument("register file for " + peripheral_ + ": register \"" +
-                                            reg.name + "\" maps \"" + to_string(f.field) +
-                                            "\" (channel " + std::to_string(f.channel) +
-                                            ") which the instance does not have");
-            field_entry fe{f, false};
+            // A coded field maps every field its table sets.
+            std::vector<timer_field> mapped;
+            if (const code_table* t = layout_.codes_of(f)) {
+                for (const auto& entry : t->entries)
+                    for (const auto& a : entry.sets) mapped.push_back(a.field);
+            } else {
+                mapped.push_back(f.field);
+            }
+            for (const timer_field m : mapped)
+                if (!instance_has(config_, m, channel_of(f, m)))
+                    throw std::invalid_argument(
+                        "register file for " + peripheral_ + ": register \"" + reg.name +
+                        "\" maps \"" + to_string(m) + "\" (channel " +
+                        std::to_string(channel_of(f, m)) + ") which the instance does not have");
+            field_entry fe{f, false, layout_.codes_of(f), f.raw_of(reg.reset)};
             for (const auto& other_reg : layout_.registers)
                 for (const auto& o : other_reg.fields) {
-                    if (o.field != f.field || o.channel != f.channel) continue;
+                    if (f.coded() || o.coded() || o.field != f.field || o.channel != f.channel)
+                        continue;
                     const bool inside = o.value_bit >= f.value_bit &&
                                         o.value_bit + o.width <= f.value_bit + f.width;
                     if (!inside) fe.merge_value = true;
@@ -75,22 +92,59 @@ access_outcome register_file::reserved(bool is_write, std::uint32_t offset, unsi
     return out;
 }
 
-void register_file::write_fields(const register_entry& r, std::uint32_t value,
-                                 std::uint32_t covered, sim::time_ps t, bool reset_only) {
-    for (const auto& fe : r.fields) {
+bool register_file::matches(const field_entry& fe, const code_entry& e, sim::time_ps t) {
+    for (const auto& a : e.sets)
+        if (core_.read(a.field, channel_of(fe.map, a.field), t) != a.value) return false;
+    return true;
+}
+
+std::uint32_t register_file::coded_raw(const field_entry& fe, sim::time_ps t) {
+    if (const code_entry* last = fe.table->find(fe.raw); last != nullptr && matches(fe, *last, t))
+        return fe.raw;
+    for (const auto& e : fe.table->entries)
+        if (matches(fe, e, t)) return e.raws.front();
+    return fe.raw;
+}
+
+void register_file::write_coded(const register_entry& r, field_entry& fe, std::uint32_t value,
+                                std::uint32_t covered, sim::time_ps t) {
+    const field_map& f = fe.map;
+    const std::uint32_t full = low_mask(f.width);
+    const std::uint32_t cov = f.raw_of(covered);
+    std::uint32_t raw = f.raw_of(value);
+    if (cov != full) raw = (coded_raw(fe, t) & ~cov) | (raw & cov);
+    const code_entry* e = fe.table->find(raw);
+    if (e == nullptr) {
+        bus_logger()->warn(
+            "write of reserved raw value {} to the coded field at bits {} (value table \"{}\") of "
+            "{}.{} at {} ps changes nothing; accepted: {}",
+            raw, field_bits(f), fe.table->name, peripheral_, r.reg->name, t,
+            raw_value_list(fe.table->accepted()));
+        return;
+    }
+    for (const auto& a : e->sets) core_.write(a.field, channel_of(f, a.field), a.value, t);
+    fe.raw = raw;
+}
+
+void register_file::write_fields(register_entry& r, std::uint32_t value, std::uint32_t covered,
+                                 sim::time_ps t, bool reset_only) {
+    for (auto& fe : r.fields) {
         const auto& f = fe.map;
         const std::uint32_t fm = f.register_mask();
         if ((fm & covered) == 0) continue;
-        const std::uint32_t full = low_mask(f.width);
-        const std::uint32_t bits = (value & fm) >> f.bit;
-        const std::uint32_t cov = (covered & fm) >> f.bit;
         switch (f.access) {
             case access_kind::read_only:
             case access_kind::clear_on_read:
                 continue;
-            case access_kind::write_one_to_clear: {
+            case access_kind::write_one_to_clear:
+            case access_kind::write_zero_to_clear: {
                 if (reset_only) continue;
-                const std::uint32_t clear = bits & cov;
+                const std::uint32_t full = low_mask(f.width);
+                const std::uint32_t bits = f.raw_of(value);
+                const std::uint32_t cov = f.raw_of(covered);
+                const std::uint32_t ones =
+                    f.access == access_kind::write_one_to_clear ? bits : ~bits;
+                const std::uint32_t clear = ones & cov & full;
                 if (clear != 0) core_.clear_flags(clear << f.value_bit, t);
                 continue;
             }
@@ -100,6 +154,13 @@ void register_file::write_fields(const register_entry& r, std::uint32_t value,
             case access_kind::read_write:
                 break;
         }
+        if (fe.table != nullptr) {
+            write_coded(r, fe, value, covered, t);
+            continue;
+        }
+        const std::uint32_t full = low_mask(f.width);
+        const std::uint32_t bits = f.raw_of(value) ^ (f.invert ? full : 0);
+        const std::uint32_t cov = f.raw_of(covered);
         std::uint32_t v = bits;
         std::uint32_t whole = 0;
         const bool need_model = cov != full || fe.merge_value;
@@ -112,10 +173,10 @@ void register_file::write_fields(const register_entry& r, std::uint32_t value,
 }
 
 template <typename Visit>
-bool register_file::for_each_overlap(std::uint32_t offset, unsigned length, Visit visit) const {
+bool register_file::for_each_overlap(std::uint32_t offset, unsigned length, Visit visit) {
     const std::uint64_t end = std::uint64_t(offset) + length;
     bool touched = false;
-    for (const auto& r : registers_) {
+    for (auto& r : registers_) {
         const auto& reg = *r.reg;
         const std::uint64_t rend = std::uint64_t(reg.offset) + reg.bytes();
         if (reg.offset >= end) break;
@@ -134,7 +195,7 @@ access_outcome register_file::write(std::uint32_t offset, unsigned length, std::
     t = clamp(t);
     const std::uint64_t wide = value & low_mask(8 * length);
     const bool touched =
-        for_each_overlap(offset, length, [&](const register_entry& r, std::uint32_t covered) {
+        for_each_overlap(offset, length, [&](register_entry& r, std::uint32_t covered) {
             const std::uint32_t reg_offset = r.reg->offset;
             const std::uint64_t aligned = reg_offset >= offset
                                               ? wide >> (8 * (reg_offset - offset))
@@ -160,8 +221,12 @@ access_outcome register_file::read(std::uint32_t offset, unsigned length, std::u
                 const std::uint32_t fm = f.register_mask();
                 if ((fm & covered) == 0 || f.access == access_kind::write_only) continue;
                 const std::uint32_t full = low_mask(f.width);
+                if (fe.table != nullptr) {
+                    regval |= f.place(coded_raw(fe, t));
+                    continue;
+                }
                 const std::uint32_t v = (core_.read(f.field, f.channel, t) >> f.value_bit) & full;
-                regval |= v << f.bit;
+                regval |= (v ^ (f.invert ? full : 0)) << f.bit;
                 if (f.access == access_kind::clear_on_read)
                     clears |= (v & ((covered & fm) >> f.bit)) << f.value_bit;
             }
@@ -178,7 +243,7 @@ access_outcome register_file::read(std::uint32_t offset, unsigned length, std::u
 
 void register_file::apply_reset(sim::time_ps t) {
     t = clamp(t);
-    for (const auto& r : registers_) write_fields(r, r.reg->reset, low_mask(r.reg->width), t, true);
+    for (auto& r : registers_) write_fields(r, r.reg->reset, low_mask(r.reg->width), t, true);
 }
 
 }  // namespace models

@@ -12,8 +12,14 @@
 //   bits and writes the result. A field holding only some bits of a functional value (value_bit, or
 //   a value split over several fields) is merged the same way with the model's value.
 // - read-only and clear-on-read fields ignore writes; write-one-to-clear fields turn the 1 bits
-//   written into clear_flags(mask); write-only fields read 0; clear-on-read fields clear, after the
-//   whole access is read, exactly the set flag bits the access returned.
+//   written into clear_flags(mask), write-zero-to-clear fields the 0 bits written; write-only
+//   fields read 0; clear-on-read fields clear, after the whole access is read, exactly the set flag
+//   bits the access returned. An inverted field's raw bits are the inverse of its value bits.
+// - a coded field looks the raw value written up in its value table and writes every functional
+//   field the entry sets; a reserved raw value (not in the table) changes nothing and is logged as
+//   a warning on "bus". It reads the raw value last accepted while that entry still matches the
+//   model's fields, else the first raw value of the first entry that matches them (a field set
+//   through another register, enable cleared by one-pulse), else the raw value last accepted.
 // - reserved bits (no field) read 0 and ignore writes. An access that touches no register at all is
 //   a reserved location: it reads 0, writes nothing, and the unmapped policy decides what is said.
 // - accesses are applied at max(t, the latest time seen), since the model needs non-decreasing
@@ -72,6 +78,8 @@ private:
     struct field_entry {
         field_map map;
         bool merge_value = false;  // other fields hold other bits of the same functional value
+        const code_table* table = nullptr;  // coded fields: the value table
+        std::uint32_t raw = 0;              // coded fields: the raw value last accepted
     };
     struct register_entry {
         const register_map* reg = nullptr;
@@ -80,8 +88,15 @@ private:
 
     sim::time_ps clamp(sim::time_ps t);
     // Writes the covered bits of `value` (register-aligned) into reg's fields.
-    void write_fields(const register_entry& r, std::uint32_t value, std::uint32_t covered,
-                      sim::time_ps t, bool reset_only);
+    void write_fields(register_entry& r, std::uint32_t value, std::uint32_t covered, sim::time_ps t,
+                      bool reset_only);
+    // Writes the covered bits of a coded field: looks the raw value up and applies its entry.
+    void write_coded(const register_entry& r, field_entry& fe, std::uint32_t value,
+                     std::uint32_t covered, sim::time_ps t);
+    // The raw value a coded field reads (see the rules above).
+    std::uint32_t coded_raw(const field_entry& fe, sim::time_ps t);
+    // Whether every field the entry sets holds the entry's value in the model.
+    bool matches(const field_entry& fe, const code_entry& e, sim::time_ps t);
     access_outcome reserved(bool is_write, std::uint32_t offset, unsigned length,
                             sim::time_ps t) const;
 
@@ -94,7 +109,7 @@ private:
     // Calls visit(entry, covered bytes mask) for each register the access [offset, offset + length)
     // overlaps, in offset order; false when it overlaps none (a reserved location).
     template <typename Visit>
-    bool for_each_overlap(std::uint32_t offset, unsigned length, Visit visit) const;
+    bool for_each_overlap(std::uint32_t offset, unsigned length, Visit visit);
     std::vector<register_entry> registers_;  // offset order, parallel to layout_.registers
     sim::time_ps last_ = 0;
 };

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <array>
 #include <sstream>
+#include <tuple>
 #include <utility>
 
 namespace models {
@@ -13,11 +14,13 @@ namespace {
 
 using sim::table_reader;
 
-constexpr std::array<access_kind, 5> all_access_kinds = {
-    access_kind::read_write, access_kind::read_only, access_kind::write_one_to_clear,
-    access_kind::clear_on_read, access_kind::write_only};
+constexpr std::array<access_kind, 6> all_access_kinds = {
+    access_kind::read_write,          access_kind::read_only,     access_kind::write_one_to_clear,
+    access_kind::write_zero_to_clear, access_kind::clear_on_read, access_kind::write_only};
 
 constexpr timer_field last_field = timer_field::comp_safe_level;
+
+std::uint32_t low_mask(unsigned width) { return width >= 32 ? 0xffff'ffffu : (1u << width) - 1; }
 
 std::string hex(std::uint64_t v) {
     std::ostringstream s;
@@ -129,10 +132,360 @@ bool read_bits(table_reader& r, const toml::node& n, unsigned& lo, unsigned& wid
     return true;
 }
 
+// What a value-table entry may not set, and why; empty when it may set f.
+std::string unsettable(timer_field f) {
+    if (f == timer_field::flags)
+        return "flags are cleared through their clear rule, never set by a code";
+    if (f == timer_field::direction) return "the counting direction is the model's, read-only";
+    return "";
+}
+
+// Why the instance lacks field f (instance_has(cfg, f, 0) is false).
+std::string lacks_why(const timer_config& cfg, timer_field f) {
+    if (f == timer_field::wrap_skip)
+        return "the instance has no wrap skip count (wrap_skip_bits = 0)";
+    if (f == timer_field::dead_time_scale && cfg.complementary)
+        return "the instance's dead time has no scale (dead_time_scaled = false)";
+    return "the instance has no complementary outputs (complementary = false)";
+}
+
+// The names and model values an enumerated field's values go by in value tables.
+std::vector<std::pair<std::string, std::uint32_t>> named_values(const timer_config& cfg,
+                                                                timer_field f) {
+    std::vector<std::pair<std::string, std::uint32_t>> v;
+    auto add = [&v](const char* name, auto value) {
+        v.emplace_back(name, static_cast<std::uint32_t>(value));
+    };
+    switch (f) {
+        case timer_field::mode:
+            add("up", count_mode::up);
+            add("down", count_mode::down);
+            add("center", count_mode::center);
+            break;
+        case timer_field::slope:
+            add("up", match_slope::up);
+            add("down", match_slope::down);
+            add("both", match_slope::both);
+            break;
+        case timer_field::reload_policy:
+            add("every", reload_policy::every);
+            add("quiet_forced", reload_policy::quiet_forced);
+            add("held", reload_policy::held);
+            break;
+        case timer_field::action:
+            add("hold", output_action::hold);
+            add("pwm_below", output_action::pwm_below);
+            add("pwm_at_or_above", output_action::pwm_at_or_above);
+            add("toggle_on_match", output_action::toggle_on_match);
+            add("set_on_match", output_action::set_on_match);
+            add("clear_on_match", output_action::clear_on_match);
+            add("force_low", output_action::force_low);
+            add("force_high", output_action::force_high);
+            break;
+        case timer_field::trigger_select:
+            v.emplace_back("none", trigger_none);
+            for (unsigned c = 0; c < cfg.channels; ++c)
+                v.emplace_back("match_" + std::to_string(c), trigger_on_match(c));
+            v.emplace_back("reload", trigger_on_reload);
+            break;
+        default:
+            break;
+    }
+    return v;
+}
+
+// Orders the entries of a TOML table (key, value) as the file wrote them.
+bool in_file_order(const std::pair<const toml::key*, const toml::node*>& a,
+                   const std::pair<const toml::key*, const toml::node*>& b) {
+    const auto& x = a.first->source().begin;
+    const auto& y = b.first->source().begin;
+    return std::tie(x.line, x.column) < std::tie(y.line, y.column);
+}
+
+// Where the loader found a value table and its raw values, for messages that point at them.
+struct table_source {
+    toml::source_region where;
+    std::vector<std::pair<std::uint32_t, toml::source_region>> raws;  // value, place
+    std::vector<std::string> raw_paths;                               // key path of each
+    bool used = false;
+};
+
+// What reading registers needs besides the register itself.
+struct layout_context {
+    const timer_config& cfg;
+    register_layout& layout;
+    std::vector<table_source>& sources;
+    bool unknown_table = false;  // a field named a value table that does not exist
+};
+
+// Reads the value of functional field f for a value table entry (node `n` under `key`).
+std::optional<std::uint32_t> read_code_value(table_reader& r, const std::string& key,
+                                             const toml::node& n, const timer_config& cfg,
+                                             timer_field f) {
+    const auto named = named_values(cfg, f);
+    if (!named.empty()) {
+        std::vector<std::string> names;
+        for (const auto& [name, value] : named) names.push_back(name);
+        const auto chosen = r.choice(key, names);
+        if (!chosen) return std::nullopt;
+        for (const auto& [name, value] : named)
+            if (name == *chosen) return value;
+        return std::nullopt;
+    }
+    const unsigned vw = value_width(cfg, f);
+    if (vw == 1) {
+        if (const auto* b = n.as_boolean()) return b->get() ? 1u : 0u;
+        if (const auto* i = n.as_integer(); i != nullptr && (i->get() == 0 || i->get() == 1))
+            return std::uint32_t(i->get());
+        r.wrong(n, key, "true, false, 1 or 0");
+        return std::nullopt;
+    }
+    const std::int64_t max = f == timer_field::dead_time ? std::int64_t(cfg.dead_time_max)
+                             : vw >= 32                  ? 0xffff'ffffLL
+                                                         : (1LL << vw) - 1;
+    if (auto v = r.integer(key, 0, max)) return std::uint32_t(*v);
+    return std::nullopt;
+}
+
+// Reads entry `index` of value table `t` (its array `arr`); `src` keeps where raw values were.
+void read_code_entry(sim::findings_list& findings, const std::string& table_path,
+                     const toml::array& arr, std::size_t index, const timer_config& cfg,
+                     code_table& t, table_source& src) {
+    const std::string path = table_path + "[" + std::to_string(index) + "]";
+    const toml::node& n = *arr.get(index);
+    const auto* et = n.as_table();
+    if (et == nullptr) {
+        findings.add(n.source(), path,
+                     "expected a table such as { raw = 2, mode = \"center\", slope = \"down\" }, "
+                     "got " +
+                         std::string(n.is_array() ? "an array" : "a value"));
+        return;
+    }
+    table_reader r(findings, *et, path);
+    // Accepted: the fields a code may set here; a field it may not set, or the instance lacks, gets
+    // its own message below rather than "unknown key".
+    std::vector<std::string> keys = {"raw"};
+    for (const auto& name : field_names()) {
+        const auto f = *timer_field_from_string(name);
+        if ((unsettable(f).empty() && instance_has(cfg, f, 0)) || et->get(name) != nullptr)
+            keys.push_back(name);
+    }
+    r.reject_unknown_keys(keys, "a value table entry");
+
+    code_entry e;
+    const std::string raw_words = "a raw value such as 3, or a list of raw values such as [2, 3]";
+    if (const auto* raw = r.get("raw", true, raw_words)) {
+        std::vector<const toml::node*> items;
+        if (const auto* list = raw->as_array()) {
+            for (const auto& item : *list) items.push_back(&item);
+            if (items.empty()) r.wrong(*raw, "raw", raw_words);
+        } else {
+            items.push_back(raw);
+        }
+        for (const toml::node* item : items) {
+            const auto* i = item->as_integer();
+            if (i == nullptr || i->get() < 0 || i->get() > 0xffff'ffffLL) {
+                r.wrong(*item, "raw", "a whole number from 0 to 0xffffffff");
+                continue;
+            }
+            const auto value = std::uint32_t(i->get());
+            bool twice = false;
+            for (std::size_t k = 0; k < src.raws.size() && !twice; ++k) {
+                if (src.raws[k].first != value) continue;
+                r.report(*item, "raw",
+                         "raw value " + std::to_string(value) + " is listed twice: also at " +
+                             src.raw_paths[k] + " (line " +
+                             std::to_string(src.raws[k].second.begin.line) +
+                             "); accepted: each raw value once in a value table");
+                twice = true;
+            }
+            if (twice) continue;
+            e.raws.push_back(value);
+            src.raws.emplace_back(value, item->source());
+            src.raw_paths.push_back(path + ".raw");
+        }
+    }
+
+    // The fields it sets, in file order (a TOML table keeps its keys sorted by name).
+    std::vector<std::pair<const toml::key*, const toml::node*>> sets;
+    for (auto&& [k, v] : *et)
+        if (k.str() != "raw") sets.emplace_back(&k, &v);
+    std::sort(sets.begin(), sets.end(), in_file_order);
+    for (const auto& [k, v] : sets) {
+        const std::string key(k->str());
+        const auto f = timer_field_from_string(key);
+        if (!f) continue;  // reported as an unknown key
+        if (const std::string why = unsettable(*f); !why.empty()) {
+            r.report(key, "\"" + key + "\" cannot be set by a value table: " + why +
+                              "; accepted: the instance's other functional fields");
+            continue;
+        }
+        if (!instance_has(cfg, *f, 0)) {
+            r.report(key, "\"" + key + "\" does not exist here: " + lacks_why(cfg, *f) +
+                              "; accepted: fields the instance has");
+            continue;
+        }
+        if (const auto value = read_code_value(r, key, *v, cfg, *f)) e.sets.push_back({*f, *value});
+    }
+    if (!e.raws.empty()) t.entries.push_back(std::move(e));
+}
+
+// Reads the optional [codes] table: NAME = [ { raw = ..., FIELD = VALUE, ... }, ... ].
+void read_codes(table_reader& top, const timer_config& cfg, register_layout& layout,
+                std::vector<table_source>& sources) {
+    const toml::table* codes = top.sub_table(
+        "codes", false,
+        "value tables, NAME = [ { raw = 0, mode = \"up\" }, { raw = 1, mode = \"down\" } ]");
+    if (codes == nullptr) return;
+    table_reader r(top.findings(), *codes, "codes");
+    const std::string accepted =
+        "an array of entries such as [ { raw = 0, mode = \"up\" }, { raw = 1, mode = \"down\" } ]";
+    // In file order (a TOML table keeps its keys sorted by name), so tables list as written.
+    std::vector<std::pair<const toml::key*, const toml::node*>> tables;
+    for (auto&& [k, v] : *codes) tables.emplace_back(&k, &v);
+    std::sort(tables.begin(), tables.end(), in_file_order);
+    for (const auto& [key, node] : tables) {
+        const toml::key& k = *key;
+        const toml::node& v = *node;
+        const std::string name(k.str());
+        if (!is_register_name(name)) {
+            top.findings().add(k.source(), r.key_path(name),
+                               "value table name \"" + name +
+                                   "\"; accepted: lower-case letters, digits and \"_\", such as "
+                                   "\"count_modes\"");
+            continue;
+        }
+        const auto* arr = v.as_array();
+        if (arr == nullptr || arr->empty()) {
+            r.wrong(v, name, accepted);
+            continue;
+        }
+        code_table t;
+        t.name = name;
+        table_source src;
+        src.where = k.source();
+        for (std::size_t i = 0; i < arr->size(); ++i)
+            read_code_entry(top.findings(), r.key_path(name), *arr, i, cfg, t, src);
+        layout.codes.push_back(std::move(t));
+        sources.push_back(std::move(src));
+    }
+}
+
+// Reads `bits` of a field: one bit or range, or (coded fields) an array of them; `spans` gets them.
+bool read_spans(table_reader& r, const toml::node& n, bool coded, std::vector<bit_span>& spans) {
+    if (const auto* list = n.as_array()) {
+        if (!coded) {
+            r.report(n, "bits",
+                     "a list of bit ranges is for coded fields (codes = \"TABLE\"); accepted for a "
+                     "plain field: one bit or one range such as \"0..15\" (split a value over "
+                     "fields with value_bit)");
+            return false;
+        }
+        if (list->empty()) {
+            r.wrong(n, "bits", "a list of bits and ranges such as [4, \"1..2\"], low bits first");
+            return false;
+        }
+        bool ok = true;
+        for (const auto& item : *list) {
+            bit_span s;
+            if (read_bits(r, item, s.bit, s.width))
+                spans.push_back(s);
+            else
+                ok = false;
+        }
+        return ok;
+    }
+    bit_span s;
+    if (!read_bits(r, n, s.bit, s.width)) return false;
+    spans.push_back(s);
+    return true;
+}
+
+// What field f is, for messages: the functional field, or the value table of a coded field.
+std::string field_label(const field_map& f, const register_layout& layout) {
+    if (const code_table* t = layout.codes_of(f)) return "value table \"" + t->name + "\"";
+    return std::string("\"") + to_string(f.field) + "\"";
+}
+
+// Reads the `channel` key of a field that needs one (`needs`), or refuses one it does not need;
+// `why` says why ("\"compare\" is a per-channel field").
+bool read_channel(table_reader& r, const toml::table& t, bool needs, const std::string& why,
+                  const timer_config& cfg, unsigned& channel) {
+    const auto* ch = t.get("channel");
+    if (!needs) {
+        if (ch == nullptr) return true;
+        r.report("channel", why + "; accepted: no channel key");
+        return false;
+    }
+    const auto max_ch = cfg.channels - 1;
+    const std::string accepted = "a channel from 0 to " + std::to_string(max_ch);
+    if (ch == nullptr) {
+        r.report("channel", "missing key \"channel\": " + why + "; accepted: " + accepted);
+        return false;
+    }
+    if (const auto* i = ch->as_integer(); i == nullptr || i->get() < 0) {
+        r.wrong(*ch, "channel", accepted);
+        return false;
+    } else if (std::uint64_t(i->get()) > max_ch) {
+        r.report("channel", "channel " + std::to_string(i->get()) + " is beyond the instance's " +
+                                std::to_string(cfg.channels) + " channels; accepted: 0 to " +
+                                std::to_string(max_ch));
+        return false;
+    } else {
+        channel = unsigned(i->get());
+    }
+    return true;
+}
+
+// Reads `access` for field f (`name` its field or table name); false on a mistake.
+bool read_access(table_reader& r, field_map& f, const std::optional<std::string>& name) {
+    const auto kind = r.choice("access", access_names(), true);
+    if (!kind) return false;
+    const auto k = *access_kind_from_string(*kind);
+    f.access = k;
+    if (!name) return true;
+    if (f.coded() && clears_flags(k)) {
+        r.report("access", "\"" + *kind +
+                               "\" clears flags and a coded field holds no flags; accepted for "
+                               "a coded field: read-write, read-only, write-only");
+        return false;
+    }
+    if (!f.coded() && clears_flags(k) && f.field != timer_field::flags) {
+        r.report("access", "\"" + *kind +
+                               "\" clears flags and only suits the flags field; accepted for "
+                               "\"" +
+                               *name + "\": read-write, read-only, write-only");
+        return false;
+    }
+    if (!f.coded() && f.field == timer_field::flags &&
+        (k == access_kind::read_write || k == access_kind::write_only)) {
+        r.report("access",
+                 "flags are not written as data; accepted for \"flags\": read-only, "
+                 "write-one-to-clear, write-zero-to-clear, clear-on-read");
+        return false;
+    }
+    return true;
+}
+
+// Checks a coded field against its value table: every raw value it lists must fit the field's
+// bits (reported at the raw value, which is where the table and the bits disagree).
+void check_raw_values(table_reader& r, const field_map& f, const std::string& field_path,
+                      const table_source& src) {
+    const std::uint32_t max = f.width >= 32 ? 0xffff'ffffu : (1u << f.width) - 1;
+    for (std::size_t k = 0; k < src.raws.size(); ++k) {
+        if (src.raws[k].first <= max) continue;
+        r.findings().add(src.raws[k].second, src.raw_paths[k],
+                         "raw value " + std::to_string(src.raws[k].first) + " does not fit the " +
+                             std::to_string(f.width) + " bits of " + field_path + " (bits " +
+                             field_bits(f) + "); accepted: raw values 0 to " + std::to_string(max));
+    }
+}
+
 // Reads entry `index` of the register's `fields` array (`fields` reads the register's table).
-void read_field(table_reader& fields, std::size_t index, const timer_config& cfg,
+void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
                 const register_map& reg, std::vector<field_map>& out,
                 std::vector<toml::source_region>& where) {
+    const timer_config& cfg = ctx.cfg;
     const std::string item = "fields[" + std::to_string(index) + "]";
     const toml::node& n = *fields.table().get("fields")->as_array()->get(index);
     const auto* t = n.as_table();
@@ -143,102 +496,136 @@ void read_field(table_reader& fields, std::size_t index, const timer_config& cfg
         return;
     }
     table_reader r(fields.findings(), *t, fields.key_path(item));
-    r.reject_unknown_keys({"field", "channel", "bits", "value_bit", "access"}, "a register field");
+    r.reject_unknown_keys({"field", "codes", "channel", "bits", "value_bit", "access", "invert"},
+                          "a register field");
     bool ok = true;
     field_map f;
 
-    const auto name = r.choice("field", field_names(), true);
-    if (name)
-        f.field = *timer_field_from_string(*name);
-    else
-        ok = false;
-
-    const auto* ch = t->get("channel");
-    if (ok && is_channel_field(f.field)) {
-        const auto max_ch = cfg.channels - 1;
-        const std::string accepted = "a channel from 0 to " + std::to_string(max_ch);
-        if (ch == nullptr) {
-            r.report("channel", "missing key \"channel\": \"" + std::string(to_string(f.field)) +
-                                    "\" is a per-channel field; accepted: " + accepted);
+    // A plain field names its functional field; a coded field names its value table instead.
+    std::optional<std::string> name;
+    const code_table* table = nullptr;
+    if (t->get("codes") != nullptr) {
+        std::vector<std::string> tables;
+        for (const auto& c : ctx.layout.codes) tables.push_back(c.name);
+        if (t->get("field") != nullptr) {
+            r.report("codes",
+                     "a field has either \"field\" (plain) or \"codes\" (coded), not both; "
+                     "accepted: the functional fields a coded field sets are in its value table");
             ok = false;
-        } else if (const auto* i = ch->as_integer(); i == nullptr || i->get() < 0) {
-            r.wrong(*ch, "channel", accepted);
+        } else if (tables.empty()) {
+            r.report("codes",
+                     "the layout has no value tables; accepted: a table defined under "
+                     "[codes], e.g. counting = [ { raw = 0, mode = \"up\" } ]");
             ok = false;
-        } else if (std::uint64_t(i->get()) > max_ch) {
-            r.report("channel", "channel " + std::to_string(i->get()) +
-                                    " is beyond the instance's " + std::to_string(cfg.channels) +
-                                    " channels; accepted: 0 to " + std::to_string(max_ch));
-            ok = false;
+        } else if (const auto chosen = r.choice("codes", tables)) {
+            for (std::size_t i = 0; i < tables.size(); ++i)
+                if (tables[i] == *chosen) f.codes = i;
+            table = &ctx.layout.codes[*f.codes];
+            ctx.sources[*f.codes].used = true;
+            name = *chosen;
         } else {
-            f.channel = unsigned(i->get());
+            ctx.unknown_table = true;
+            ok = false;
         }
-    } else if (ok && ch != nullptr) {
-        r.report("channel", std::string("\"") + to_string(f.field) +
-                                "\" is not a per-channel field; accepted: no channel key");
+    } else if (const auto chosen = r.choice("field", field_names(), true)) {
+        f.field = *timer_field_from_string(*chosen);
+        name = chosen;
+    } else {
         ok = false;
+    }
+
+    if (ok) {
+        const bool per_channel = table ? table->sets_channel_field() : is_channel_field(f.field);
+        const std::string is = table
+                                   ? "value table \"" + table->name + "\" sets a per-channel field"
+                                   : "\"" + *name + "\" is a per-channel field";
+        const std::string is_not =
+            table ? "value table \"" + table->name + "\" sets no per-channel field"
+                  : "\"" + *name + "\" is not a per-channel field";
+        ok = read_channel(r, *t, per_channel, per_channel ? is : is_not, cfg, f.channel);
     }
 
     if (const auto* b = r.get("bits", true, "a bit number such as 3, or a range \"lo..hi\"");
-        b == nullptr || !read_bits(r, *b, f.bit, f.width)) {
-        ok = false;
-    } else if (f.bit + f.width > reg.width) {
-        r.report("bits", "field " + bit_range(f.bit, f.width) + " overflows the " +
-                             std::to_string(reg.width) +
-                             "-bit register; accepted: bits within 0.." +
-                             std::to_string(reg.width - 1));
-        ok = false;
-    }
-
-    if (auto v = r.integer("value_bit", 0, 31)) f.value_bit = unsigned(*v);
-
-    if (const auto kind = r.choice("access", access_names(), true); !kind) {
+        b == nullptr || !read_spans(r, *b, f.coded(), f.spans)) {
         ok = false;
     } else {
-        const auto k = *access_kind_from_string(*kind);
-        f.access = k;
-        const bool clears = k == access_kind::write_one_to_clear || k == access_kind::clear_on_read;
-        if (name && ok && clears && f.field != timer_field::flags) {
-            r.report("access", "\"" + *kind +
-                                   "\" clears flags and only suits the flags field; accepted for "
-                                   "\"" +
-                                   *name + "\": read-write, read-only, write-only");
+        f.bit = f.spans.front().bit;
+        f.width = 0;
+        for (std::size_t i = 0; i < f.spans.size(); ++i) {
+            const auto& s = f.spans[i];
+            f.bit = std::min(f.bit, s.bit);
+            f.width += s.width;
+            if (s.bit + s.width > reg.width) {
+                r.report("bits", "field " + bit_range(s.bit, s.width) + " overflows the " +
+                                     std::to_string(reg.width) +
+                                     "-bit register; accepted: bits within 0.." +
+                                     std::to_string(reg.width - 1));
+                ok = false;
+            }
+            for (std::size_t j = 0; j < i; ++j) {
+                const auto& o = f.spans[j];
+                if (s.bit < o.bit + o.width && o.bit < s.bit + s.width) {
+                    r.report("bits", "range " + bit_range(s.bit, s.width) + " overlaps range " +
+                                         bit_range(o.bit, o.width) +
+                                         " of the same field; accepted: ranges that share no bit");
+                    ok = false;
+                }
+            }
+        }
+        if (!f.coded()) f.spans.clear();
+    }
+
+    if (f.coded() && t->get("value_bit") != nullptr) {
+        r.report("value_bit",
+                 "a coded field's raw value is looked up whole in its value table; accepted: no "
+                 "value_bit key on a coded field");
+        ok = false;
+    } else if (auto v = r.integer("value_bit", 0, 31)) {
+        f.value_bit = unsigned(*v);
+    }
+
+    if (auto inv = r.boolean("invert")) {
+        f.invert = *inv;
+        if (f.invert && f.coded()) {
+            r.report("invert",
+                     "a coded field's value table says what each raw value means; accepted: no "
+                     "invert key on a coded field (list the inverted raw values instead)");
             ok = false;
-        } else if (name && ok && f.field == timer_field::flags &&
-                   (k == access_kind::read_write || k == access_kind::write_only)) {
-            r.report("access",
-                     "flags are not written as data; accepted for \"flags\": read-only, "
-                     "write-one-to-clear, clear-on-read");
+        } else if (f.invert && name && f.field == timer_field::flags) {
+            r.report("invert",
+                     "flags keep the model's polarity (1: set); accepted: invert = false, and "
+                     "access = \"write-zero-to-clear\" for flags cleared by writing 0");
             ok = false;
         }
     }
 
+    if (!read_access(r, f, name)) ok = false;
+
     if (!ok) return;
-    if (!instance_has(cfg, f.field, f.channel)) {
-        std::string why = f.field == timer_field::wrap_skip
-                              ? "the instance has no wrap skip count (wrap_skip_bits = 0)"
-                          : f.field == timer_field::dead_time_scale && cfg.complementary
-                              ? "the instance's dead time has no scale (dead_time_scaled = false)"
-                              : "the instance has no complementary outputs (complementary = false)";
-        r.report("field", std::string("\"") + to_string(f.field) + "\" does not exist here: " +
-                              why + "; accepted: fields the instance has");
-        return;
-    }
-    const unsigned vw = value_width(cfg, f.field);
-    if (f.value_bit + f.width > vw) {
-        r.report(t->get("value_bit") ? "value_bit" : "bits",
-                 "the field holds value bits " + bit_range(f.value_bit, f.width) + " but \"" +
-                     to_string(f.field) + "\" has " + std::to_string(vw) +
-                     " bits in this instance; accepted: value bits within 0.." +
-                     std::to_string(vw - 1));
-        return;
+    if (f.coded()) {
+        check_raw_values(r, f, r.path(), ctx.sources[*f.codes]);
+    } else {
+        if (!instance_has(cfg, f.field, f.channel)) {
+            r.report("field", std::string("\"") + to_string(f.field) + "\" does not exist here: " +
+                                  lacks_why(cfg, f.field) + "; accepted: fields the instance has");
+            return;
+        }
+        const unsigned vw = value_width(cfg, f.field);
+        if (f.value_bit + f.width > vw) {
+            r.report(t->get("value_bit") ? "value_bit" : "bits",
+                     "the field holds value bits " + bit_range(f.value_bit, f.width) + " but \"" +
+                         to_string(f.field) + "\" has " + std::to_string(vw) +
+                         " bits in this instance; accepted: value bits within 0.." +
+                         std::to_string(vw - 1));
+            return;
+        }
     }
     for (std::size_t i = 0; i < out.size(); ++i) {
         const auto& o = out[i];
         if ((o.register_mask() & f.register_mask()) != 0) {
-            r.report("bits", "field " + bit_range(f.bit, f.width) + " overlaps field " +
-                                 std::to_string(i) + " (\"" + to_string(o.field) + "\", bits " +
-                                 bit_range(o.bit, o.width) + ") at line " +
-                                 std::to_string(where[i].begin.line) +
+            r.report("bits", "field " + field_bits(f) + " overlaps field " + std::to_string(i) +
+                                 " (" + field_label(o, ctx.layout) + ", bits " + field_bits(o) +
+                                 ") at line " + std::to_string(where[i].begin.line) +
                                  "; accepted: bits no other field of \"" + reg.name + "\" uses");
             return;
         }
@@ -247,8 +634,9 @@ void read_field(table_reader& fields, std::size_t index, const timer_config& cfg
     where.push_back(n.source());
 }
 
-void read_register(sim::findings_list& out, const sim::named_table& entry, const timer_config& cfg,
-                   std::uint32_t window, register_layout& layout) {
+void read_register(sim::findings_list& out, const sim::named_table& entry, layout_context& ctx,
+                   std::uint32_t window) {
+    register_layout& layout = ctx.layout;
     table_reader r(out, *entry.table, "registers." + entry.name);
     r.reject_unknown_keys({"offset", "width", "reset", "fields"}, "a register");
     register_map reg;
@@ -299,7 +687,7 @@ void read_register(sim::findings_list& out, const sim::named_table& entry, const
     }
     if (!ok) return;
     std::vector<toml::source_region> where;
-    for (std::size_t i = 0; i < arr->size(); ++i) read_field(r, i, cfg, reg, reg.fields, where);
+    for (std::size_t i = 0; i < arr->size(); ++i) read_field(r, i, ctx, reg, reg.fields, where);
     std::sort(reg.fields.begin(), reg.fields.end(),
               [](const auto& a, const auto& b) { return a.bit < b.bit; });
     if (reg.reset & reg.reserved_mask())
@@ -307,6 +695,17 @@ void read_register(sim::findings_list& out, const sim::named_table& entry, const
                               hex(reg.reset & reg.reserved_mask()) +
                               "; accepted: a value with bits only where fields are (mask " +
                               hex(~reg.reserved_mask() & std::uint32_t(max_value)) + ")");
+    for (const auto& f : reg.fields) {
+        const code_table* t = layout.codes_of(f);
+        if (t == nullptr || t->find(f.raw_of(reg.reset)) != nullptr) continue;
+        r.report("reset", "reset value " + hex(reg.reset) + " gives the coded field at bits " +
+                              field_bits(f) + " the raw value " +
+                              std::to_string(f.raw_of(reg.reset)) + ", which value table \"" +
+                              t->name +
+                              "\" does not list; accepted: a reset value whose raw value there is "
+                              "one of " +
+                              raw_value_list(t->accepted()));
+    }
 
     // Registers may not share bytes.
     for (const auto& o : layout.registers) {
@@ -327,7 +726,8 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
     table_reader top(out, root, "");
     register_layout layout;
     layout.file = file;
-    top.reject_unknown_keys({"kind", "name", "size", "instance", "registers"}, "a register layout");
+    top.reject_unknown_keys({"kind", "name", "size", "instance", "codes", "registers"},
+                            "a register layout");
     if (auto k = top.choice("kind", {"timer"}, true)) layout.kind = *k;
     if (auto n = top.string("name", false, "a name such as \"timer16_quad\"")) {
         layout.name = *n;
@@ -346,8 +746,11 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
             top.report("instance", e.what());
         }
     }
-    // Registers are read only on a sound header: their checks need the window and the instance.
+    // Value tables and registers are read only on a sound header: their checks need the instance
+    // (and the window).
     const bool sound = size && out.empty();
+    std::vector<table_source> sources;
+    if (sound) read_codes(top, layout.instance, layout, sources);
     if (const auto* t = top.sub_table("registers", true, "a table [registers.NAME] per register")) {
         // In file order, so overlap messages name the earlier register.
         const auto entries = table_reader(out, *t, "registers")
@@ -356,8 +759,17 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
                                                "\"match_a\"");
         if (sound) {
             layout.size = std::uint32_t(*size);
+            layout_context ctx{layout.instance, layout, sources};
             for (const auto& e : entries)
-                if (e.table) read_register(out, e, layout.instance, layout.size, layout);
+                if (e.table) read_register(out, e, ctx, layout.size);
+            // A misspelt table name leaves its table unused: one message is enough.
+            for (std::size_t i = 0; i < sources.size() && !ctx.unknown_table; ++i)
+                if (!sources[i].used)
+                    out.add(sources[i].where, "codes." + layout.codes[i].name,
+                            "value table \"" + layout.codes[i].name +
+                                "\" is used by no field; accepted: a table some field names with "
+                                "codes = \"" +
+                                layout.codes[i].name + "\" (or remove it)");
         }
     }
     out.raise_if_any();
@@ -380,8 +792,15 @@ const char* to_string(access_kind k) {
             return "clear-on-read";
         case access_kind::write_only:
             return "write-only";
+        case access_kind::write_zero_to_clear:
+            return "write-zero-to-clear";
     }
     return "?";
+}
+
+bool clears_flags(access_kind k) {
+    return k == access_kind::write_one_to_clear || k == access_kind::write_zero_to_clear ||
+           k == access_kind::clear_on_read;
 }
 
 std::optional<access_kind> access_kind_from_string(std::string_view text) {
@@ -397,15 +816,100 @@ std::optional<timer_field> timer_field_from_string(std::string_view text) {
 }
 
 std::uint32_t field_map::register_mask() const {
-    const std::uint32_t m = width >= 32 ? 0xffff'ffffu : (1u << width) - 1;
-    return m << bit;
+    if (spans.empty()) return low_mask(width) << bit;
+    std::uint32_t m = 0;
+    for (const auto& s : spans) m |= low_mask(s.width) << s.bit;
+    return m;
+}
+
+std::uint32_t field_map::raw_of(std::uint32_t reg) const {
+    if (spans.empty()) return (reg >> bit) & low_mask(width);
+    std::uint32_t raw = 0;
+    unsigned at = 0;
+    for (const auto& s : spans) {
+        raw |= ((reg >> s.bit) & low_mask(s.width)) << at;
+        at += s.width;
+    }
+    return raw;
+}
+
+std::uint32_t field_map::place(std::uint32_t raw) const {
+    if (spans.empty()) return (raw & low_mask(width)) << bit;
+    std::uint32_t reg = 0;
+    unsigned at = 0;
+    for (const auto& s : spans) {
+        reg |= ((raw >> at) & low_mask(s.width)) << s.bit;
+        at += s.width;
+    }
+    return reg;
+}
+
+const code_entry* code_table::find(std::uint32_t raw) const {
+    for (const auto& e : entries)
+        if (std::find(e.raws.begin(), e.raws.end(), raw) != e.raws.end()) return &e;
+    return nullptr;
+}
+
+std::vector<std::uint32_t> code_table::accepted() const {
+    std::vector<std::uint32_t> all;
+    for (const auto& e : entries) all.insert(all.end(), e.raws.begin(), e.raws.end());
+    std::sort(all.begin(), all.end());
+    return all;
+}
+
+bool code_table::sets_channel_field() const {
+    for (const auto& e : entries)
+        for (const auto& a : e.sets)
+            if (is_channel_field(a.field)) return true;
+    return false;
+}
+
+std::string raw_value_list(const std::vector<std::uint32_t>& raws) {
+    std::string out;
+    for (std::size_t i = 0; i < raws.size();) {
+        std::size_t j = i;
+        while (j + 1 < raws.size() && raws[j + 1] == raws[j] + 1) ++j;
+        if (!out.empty()) out += ", ";
+        if (j - i >= 2) {
+            out += std::to_string(raws[i]) + ".." + std::to_string(raws[j]);
+            i = j + 1;
+        } else {
+            out += std::to_string(raws[i]);
+            ++i;
+        }
+    }
+    return out;
+}
+
+std::string value_name(timer_field f, std::uint32_t value) {
+    timer_config all;
+    all.channels = 6;
+    for (const auto& [name, v] : named_values(all, f))
+        if (v == value) return name;
+    return std::to_string(value);
+}
+
+std::vector<std::string> value_names(const timer_config& instance, timer_field f) {
+    std::vector<std::string> names;
+    for (const auto& [name, v] : named_values(instance, f)) names.push_back(name);
+    return names;
+}
+
+std::string field_bits(const field_map& f) {
+    if (f.spans.empty()) return bit_range(f.bit, f.width);
+    std::string out;
+    for (const auto& s : f.spans) out += (out.empty() ? "" : "+") + bit_range(s.bit, s.width);
+    return out;
+}
+
+const code_table* register_layout::codes_of(const field_map& f) const {
+    return f.codes && *f.codes < codes.size() ? &codes[*f.codes] : nullptr;
 }
 
 std::uint32_t register_map::reserved_mask() const {
     std::uint32_t used = 0;
     for (const auto& f : fields) used |= f.register_mask();
-    const std::uint32_t all = width >= 32 ? 0xffff'ffffu : (1u << width) - 1;
-    return all & ~used;
+    return low_mask(width) & ~used;
 }
 
 const register_map* register_layout::find(std::uint32_t offset) const {
@@ -444,7 +948,15 @@ std::vector<std::pair<timer_field, unsigned>> register_layout::unmapped_fields()
             if (!instance_has(instance, f, c)) continue;
             bool found = false;
             for (const auto& r : registers)
-                for (const auto& m : r.fields) found = found || (m.field == f && m.channel == c);
+                for (const auto& m : r.fields) {
+                    if (const code_table* t = codes_of(m)) {
+                        const unsigned ch = is_channel_field(f) ? m.channel : 0;
+                        for (const auto& e : t->entries)
+                            for (const auto& a : e.sets) found = found || (a.field == f && ch == c);
+                    } else {
+                        found = found || (m.field == f && m.channel == c);
+                    }
+                }
             if (!found) missing.emplace_back(f, c);
         }
     }

@@ -10,11 +10,11 @@
 #include "models/layout/layout_table.h"
 #include "models/layout/register_file.h"
 #include "models/timer/timer_core.h"
+#include "tests/support/layout_queries.h"
 #include "tests/support/timer_event_log.h"
 
 #include <gtest/gtest.h>
 
-#include <fstream>
 #include <regex>
 #include <sstream>
 #include <string>
@@ -23,15 +23,11 @@
 namespace {
 
 using models::timer_field;
+using tickbench::test_support::mask_of;
+using tickbench::test_support::offset_of;
+using tickbench::test_support::read_file;
 
 const std::string source_dir = TICKBENCH_SOURCE_DIR;
-
-std::string read_file(const std::string& path) {
-    std::ifstream in(path);
-    std::stringstream all;
-    all << in.rdbuf();
-    return all.str();
-}
 
 models::register_layout shipped(const std::string& name) {
     return models::load_register_layout_file(source_dir + "/models/layouts/" + name + ".toml");
@@ -66,21 +62,6 @@ TEST(demo_encoding_test, register_tables_in_the_docs_are_the_layout_files) {
             << "docs/register-layouts.md should show this table for " << name << ":\n"
             << expected;
     }
-}
-
-// The register-bit mask of field f (channel c) in register `reg` of the layout; 0 if absent.
-std::uint32_t mask_of(const models::register_layout& l, const char* reg, timer_field f,
-                      unsigned c = 0) {
-    const models::register_map* r = l.find(std::string_view(reg));
-    if (r == nullptr) return 0;
-    for (const auto& fm : r->fields)
-        if (fm.field == f && fm.channel == c) return fm.register_mask();
-    return 0;
-}
-
-std::uint32_t offset_of(const models::register_layout& l, const char* reg) {
-    const models::register_map* r = l.find(std::string_view(reg));
-    return r == nullptr ? 0xffff'ffffu : r->offset;
 }
 
 TEST(demo_encoding_test, the_firmware_header_names_the_layout_of_timer16_quad) {
