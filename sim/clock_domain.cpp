@@ -16,12 +16,14 @@ std::uint64_t mix(std::uint64_t x) {
     return x ^ (x >> 31);
 }
 
-[[noreturn]] void throw_limit(const char* what) {
+[[noreturn]] void throw_limit(const char* what) { throw_time_limit(what); }
+}  // namespace
+
+void throw_time_limit(const char* what) {
     throw time_limit_error(std::string(what) +
                            ": simulated time would pass 2^64-1 ps (about 213.5 days), the limit "
                            "of a 64-bit picosecond time base");
 }
-}  // namespace
 
 clock_segment clock_segment::running(std::uint64_t first_tick, time_ps origin, const frequency& f) {
     if (f.is_zero()) return stopped(first_tick, origin);
@@ -54,6 +56,7 @@ void clock_segment::set_limit() {
     const u128 x_limit = u64_max * d + d / 2;  // largest x whose rounding still fits 64 bits
     beyond_limit_ = base_ > x_limit;
     last_n_ = beyond_limit_ || step_num_ == 0 ? 0 : (x_limit - base_) / step_num_;
+    half_step_den_ = invariant_divider(2 * step_den_);
 }
 
 clock_segment clock_segment::running(std::uint64_t first_tick, time_ps origin, const frequency& f,
@@ -119,9 +122,8 @@ bool clock_segment::continues(const clock_segment& prev) const {
            jitter_base_ == prev.jitter_base_ + n * prev.jitter_step_;
 }
 
-time_ps clock_segment::time_of(std::uint64_t k) const {
+time_ps clock_segment::jittered_time_of(std::uint64_t k) const {
     const time_ps t = nominal_time_of(k);
-    if (jitter_ == 0) return t;
     const std::uint64_t idx = jitter_base_ + (k - first_tick_) * jitter_step_;
     const time_ps d = mix(jitter_seed_ ^ mix(idx)) % (jitter_ + 1);
     if (t > max_time_ps - d) throw_limit("clock edge");
@@ -135,19 +137,6 @@ std::uint64_t clock_segment::tick_at(time_ps t) const {
     std::uint64_t k = nominal_tick_at(t > jitter_ ? t - jitter_ : 0);
     while (time_of(k) < t) ++k;
     return k;
-}
-
-time_ps clock_segment::nominal_time_of(std::uint64_t k) const {
-    const u128 n = k - first_tick_;
-    if (beyond_limit_ || n > last_n_) throw_limit("clock edge");
-    // round half up of x / d as (2x + d) / (2d), inside 128 bits (set_limit).
-    const u128 d = step_den_;
-    const u128 x = base_ + n * step_num_;
-    const u128 num = 2 * x + d;
-    // Most edges fit a 64-bit division, several times faster than a 128-bit one.
-    if ((num >> 64) == 0)
-        return static_cast<time_ps>(static_cast<std::uint64_t>(num) / (2 * step_den_));
-    return static_cast<time_ps>(num / (2 * d));
 }
 
 std::uint64_t clock_segment::nominal_tick_at(time_ps t) const {
@@ -194,7 +183,7 @@ const clock_segment& clock_domain::segment_at(time_ps t) const {
     return *(it - 1);
 }
 
-time_ps clock_domain::time_of(std::uint64_t k) const {
+time_ps clock_domain::time_of_earlier(std::uint64_t k) const {
     const clock_segment& s = segments_[segment_of_tick(k)];
     if (!s.is_running())
         throw std::out_of_range("clock edge " + std::to_string(k) +

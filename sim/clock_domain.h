@@ -12,6 +12,7 @@
 // time").
 
 #include "sim/frequency.h"
+#include "sim/invariant_divider.h"
 
 #include <cstdint>
 #include <limits>
@@ -35,6 +36,8 @@ class time_limit_error : public std::runtime_error {
 public:
     using std::runtime_error::runtime_error;
 };
+// Throws time_limit_error for `what` ("clock edge"...).
+[[noreturn]] void throw_time_limit(const char* what);
 
 // One edge of a clock: its tick index and its time.
 struct clock_edge {
@@ -83,13 +86,25 @@ public:
     bool continues(const clock_segment& prev) const;
 
     // Time of edge k (k >= first_tick) of a running segment; throws time_limit_error past the
-    // limit.
-    time_ps time_of(std::uint64_t k) const;
+    // limit. Inline: every timer event asks it.
+    time_ps time_of(std::uint64_t k) const {
+        return jitter_ == 0 ? nominal_time_of(k) : jittered_time_of(k);
+    }
     // Index of the first edge at or after t of a running segment (first_tick if t <= start).
     std::uint64_t tick_at(time_ps t) const;
 
 private:
-    time_ps nominal_time_of(std::uint64_t k) const;
+    time_ps nominal_time_of(std::uint64_t k) const {
+        const u128 n = k - first_tick_;
+        if (beyond_limit_ || n > last_n_) throw_time_limit("clock edge");
+        // round half up of x / d as (2x + d) / (2d), inside 128 bits (set_limit); most edges fit
+        // a 64-bit dividend, divided without a hardware divide.
+        const u128 x = base_ + n * step_num_;
+        const u128 num = 2 * x + step_den_;
+        if ((num >> 64) == 0) return half_step_den_.divide(static_cast<std::uint64_t>(num));
+        return static_cast<time_ps>(num / (2 * static_cast<u128>(step_den_)));
+    }
+    time_ps jittered_time_of(std::uint64_t k) const;
     std::uint64_t nominal_tick_at(time_ps t) const;
     // Sets last_n_ from base_ and the step (called once the segment's timing is set).
     void set_limit();
@@ -109,7 +124,8 @@ private:
     // Largest edge offset (k - first_tick_) whose time still fits the time base, computed once so
     // that time_of needs no 128-bit division to check it.
     u128 last_n_ = 0;
-    bool beyond_limit_ = false;  // even the first edge lies past the limit
+    bool beyond_limit_ = false;        // even the first edge lies past the limit
+    invariant_divider half_step_den_;  // divides by 2 * step_den_
 };
 
 // A clock's whole timeline: segments in time order, tick indices continuous across them.
@@ -121,8 +137,15 @@ public:
     clock_domain(const frequency& f, time_ps origin = 0);
 
     // Time of edge k; throws std::out_of_range if the clock is stopped for ever before edge k, and
-    // time_limit_error if the edge lies past max_time_ps.
-    time_ps time_of(std::uint64_t k) const;
+    // time_limit_error if the edge lies past max_time_ps. Inline for the common case, an edge of
+    // the last segment.
+    time_ps time_of(std::uint64_t k) const {
+        if (!segments_.empty()) {
+            const clock_segment& s = segments_.back();
+            if (s.is_running() && k >= s.first_tick()) return s.time_of(k);
+        }
+        return time_of_earlier(k);
+    }
     // Index of the first edge at or after t, i.e. the number of edges strictly before t.
     std::uint64_t tick_at(time_ps t) const;
     // The first edge at or after t, or nothing when the clock stays stopped from then on.
@@ -155,6 +178,8 @@ public:
 private:
     // Index of the segment holding tick k.
     std::size_t segment_of_tick(std::uint64_t k) const;
+    // time_of for an edge before the last segment, or of a stopped last segment.
+    time_ps time_of_earlier(std::uint64_t k) const;
     std::vector<clock_segment> segments_;
 };
 

@@ -212,29 +212,14 @@ void timer_core::on_wrap(time_ps at) {
         --skip_count_;
 }
 
-bool timer_core::pwm_level(const channel& c) const {
-    const bool below =
-        (mode_ == count_mode::center && down_) ? counter_ <= c.compare : counter_ < c.compare;
-    return c.action == output_action::pwm_below ? below : !below;
-}
-
 void timer_core::evaluate_levels() {
-    for (unsigned i = 0; i < cfg_.channels; ++i) {
-        channel& c = ch_[i];
-        switch (c.action) {
-            case output_action::pwm_below:
-            case output_action::pwm_at_or_above:
-                c.ref = pwm_level(c);
-                break;
-            case output_action::force_low:
-                c.ref = false;
-                break;
-            case output_action::force_high:
-                c.ref = true;
-                break;
-            default:
-                break;
-        }
+    // Only the PWM actions follow the counter; forced levels are set when the action is written,
+    // the others hold.
+    const bool center_down = mode_ == count_mode::center && down_;
+    for (std::uint32_t m = pwm_channels_; m != 0; m &= m - 1) {
+        channel& c = ch_[static_cast<unsigned>(__builtin_ctz(m))];
+        const bool below = center_down ? counter_ <= c.compare : counter_ < c.compare;
+        c.ref = below != (c.action == output_action::pwm_at_or_above);
     }
 }
 
@@ -298,6 +283,19 @@ void timer_core::set_flags(std::uint32_t bits, time_ps at) {
     const std::uint32_t fresh = bits & ~flags_;
     flags_ |= bits;
     if (fresh && observer_) observer_->on_flags_set(fresh, at);
+}
+
+void timer_core::set_action(unsigned i, std::uint32_t code) {
+    channel& c = ch_[i];
+    c.action = static_cast<output_action>(code);
+    const bool pwm =
+        c.action == output_action::pwm_below || c.action == output_action::pwm_at_or_above;
+    if (pwm)
+        pwm_channels_ |= 1u << i;
+    else
+        pwm_channels_ &= ~(1u << i);
+    if (c.action == output_action::force_low) c.ref = false;
+    if (c.action == output_action::force_high) c.ref = true;
 }
 
 void timer_core::update_irq(time_ps at) {
@@ -531,7 +529,7 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
                     c.preload = bit;
                     break;
                 case timer_field::action:
-                    if (is_defined_value(cfg_, f, v)) c.action = static_cast<output_action>(v);
+                    if (is_defined_value(cfg_, f, v)) set_action(channel_index, v);
                     break;
                 case timer_field::main_enable:
                     c.main_enable = bit;

@@ -96,8 +96,10 @@ private:
     void on_wrap(time_ps at);
     void reload_event(bool from_wrap, time_ps at);
     void load_shadows();
-    bool pwm_level(const channel& c) const;
+    // Reference levels of the channels whose action follows the counter.
     void evaluate_levels();
+    // A new action for channel i (a code the model defines).
+    void set_action(unsigned i, std::uint32_t code);
     // Reference levels of all channels as a bit mask (bit c: channel c).
     std::uint32_t ref_mask() const;
     // Pin wants -> dead time -> pin levels of the channels in the mask `channels`; dead time counts
@@ -149,6 +151,7 @@ private:
     bool irq_ = false;
     std::uint32_t rise_channels_ = 0;  // bit c: a pin of channel c has a dead-time rise scheduled
     std::uint32_t all_channels_ = 0;   // bit c for every channel of the instance
+    std::uint32_t pwm_channels_ = 0;   // bit c: channel c's action is a PWM action
     unsigned pending_compares_ = 0;    // compare writes waiting out the compare latency
     mutable bool cache_valid_ = false;
     mutable std::uint64_t cached_tick_ = never;
