@@ -246,6 +246,8 @@ void platform::run(time_ps duration) {
                 }));
         }
     }
+    const time_ps end = sc_core::sc_time_stamp().value() + duration;
+    if (cpu_) cpu_->set_end(end);
     start_watchdog();
     try {
         sc_core::sc_start(sc_core::sc_time::from_value(duration));
@@ -253,7 +255,7 @@ void platform::run(time_ps duration) {
         // in time order across timers so that observers hear changes in order.
         std::vector<models::timer_core_if*> cores;
         for (auto& t : timers_) cores.push_back(t->module.get());
-        advance_in_order(cores, duration);
+        advance_in_order(cores, end);
     } catch (const std::exception& e) {
         fail(run_outcome::failed, e.what());
     }

@@ -83,8 +83,10 @@ public:
 
     // Starts the clock tree and builds every module (SystemC elaboration). Throws on bad set-up.
     void build();
-    // Runs the kernel until `duration`. On a firmware failure the report goes to stderr, every
-    // closer runs, and the process exits with code 3; `on_failure` (if set) sees the report first.
+    // Runs the kernel for `duration`; nothing is simulated after that end (the firmware stops there
+    // if it is still running, see harness::cpu). On a firmware failure the report goes to stderr,
+    // every closer runs, and the process exits with code 3; `on_failure` (if set) sees the report
+    // first.
     void run(time_ps duration);
     void on_failure(std::function<void(const failure_report&)> f) { on_failure_ = std::move(f); }
 

@@ -184,6 +184,7 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
         // A fixed date: the same inputs give a byte-identical file.
         vo.date = "not recorded (runs are reproducible)";
         vo.version = std::string("tickbench ") + TICKBENCH_VERSION;
+        vo.end_ps = duration;
         state.vcd = std::make_unique<sim::vcd_writer>(state.path("waves.vcd"), vo);
         state.fanout.add(*state.vcd, s.waves.signals, false);
     }

@@ -7,6 +7,8 @@
 #   EXPECT_STDOUT  optional "|"-separated fragments stdout must contain
 #   EXPECT_STDERR  optional "|"-separated fragments stderr must contain
 #   COMPARE_WITH   optional folder of an earlier run whose outputs must be byte-identical
+#   END_PS         optional end of the run in ps: no output may show a time after it (the waveform
+#                  must then be dumped at 1 ps)
 cmake_minimum_required(VERSION 3.25)
 string(REPLACE "|" ";" args "${ARGS}")
 list(GET args 0 command)
@@ -120,6 +122,28 @@ if(NOT code EQUAL 0 OR NOT vcd_err STREQUAL "")
   message(FATAL_ERROR "vcd2fst on waves.vcd: exit ${code}\nstderr:\n${vcd_err}")
 endif()
 file(REMOVE "${OUT}/waves.fst")
+
+# Nothing after the run's end: the waveform's last time, every check's at_s.
+if(NOT "${END_PS}" STREQUAL "")
+  file(READ "${OUT}/waves.vcd" vcd)
+  string(FIND "${vcd}" "$timescale\n\t1 ps\n$end" at)
+  if(at EQUAL -1)
+    message(FATAL_ERROR "END_PS needs a waveform dumped at 1 ps")
+  endif()
+  string(REGEX MATCHALL "\n#[0-9]+" vcd_times "${vcd}")
+  list(GET vcd_times -1 last)
+  string(SUBSTRING "${last}" 2 -1 last)
+  if(last GREATER END_PS)
+    message(FATAL_ERROR "waves.vcd has a time after the run's end: #${last} > ${END_PS} ps")
+  endif()
+  foreach(line IN LISTS lines)
+    string(JSON at_s GET "${line}" at_s)
+    # The same double as the report's: both are the nearest to the exact decimal.
+    if(at_s GREATER "${END_PS}e-12")
+      message(FATAL_ERROR "checks.jsonl reports a time after the run's end (${END_PS} ps): ${line}")
+    endif()
+  endforeach()
+endif()
 
 if(NOT "${COMPARE_WITH}" STREQUAL "")
   foreach(f waves.vcd checks.jsonl junit.xml summary.txt)
