@@ -34,51 +34,32 @@ namespace fs = std::filesystem;
 const char* const output_names[] = {"waves.vcd", "checks.jsonl", "junit.xml", "summary.txt",
                                     "failure.txt"};
 
-// One record per distinct firmware check (name, file and line), in order of first evaluation: how
-// often it was evaluated and the first failure.
-std::vector<sim::check_result> firmware_results(const std::vector<firmware_check>& checks,
+// One result per distinct firmware check (name, file and line), in order of first evaluation: how
+// often it was evaluated and its first failure.
+std::vector<sim::check_result> firmware_results(const firmware_check_log& checks,
                                                 sim::time_ps end) {
     std::vector<sim::check_result> out;
-    std::vector<std::uint64_t> failures;
-    for (const firmware_check& c : checks) {
-        const std::string where = c.file + ":" + std::to_string(c.line);
-        auto it = std::find_if(out.begin(), out.end(), [&](const sim::check_result& r) {
-            return r.name == c.name && r.signal == where;
-        });
-        if (it == out.end()) {
-            sim::check_result r;
-            r.name = c.name;
-            r.kind = sim::check_kind::never;
-            r.kind_name = "firmware";
-            r.signal = where;
-            r.unit = "evaluations";
-            r.expected_text = "holds every time it is evaluated";
-            r.passed = true;
+    for (const firmware_check_record& c : checks.records()) {
+        sim::check_result r;
+        r.name = c.name;
+        r.kind = sim::check_kind::never;
+        r.kind_name = "firmware";
+        r.signal = c.file + ":" + std::to_string(c.line);
+        r.unit = "evaluations";
+        r.expected_text = "holds every time it is evaluated";
+        r.count = c.evaluations();
+        r.passed = c.passed;
+        if (c.passed) {
             r.at = end;
-            out.push_back(r);
-            failures.push_back(0);
-            it = out.end() - 1;
-        }
-        sim::check_result& r = *it;
-        const std::size_t i = static_cast<std::size_t>(it - out.begin());
-        ++r.count;
-        if (!c.passed) {
-            if (failures[i] == 0) {
-                r.passed = false;
-                r.at = c.at;
-                r.detail = "failed at " + sim::format_time(c.at) + " (evaluation " +
-                           std::to_string(r.count) + ")";
-            }
-            ++failures[i];
-        }
-    }
-    for (std::size_t i = 0; i < out.size(); ++i) {
-        sim::check_result& r = out[i];
-        if (r.passed)
             r.detail = "held in all " + std::to_string(r.count) + " evaluations";
-        else
-            r.detail += "; " + std::to_string(failures[i]) + " of " + std::to_string(r.count) +
-                        " evaluations failed";
+        } else {
+            r.at = c.first_failure_at;
+            r.detail = "failed at " + sim::format_time(c.first_failure_at) + " (evaluation " +
+                       std::to_string(c.first_failure_evaluation) + "); " +
+                       std::to_string(c.failures) + " of " + std::to_string(r.count) +
+                       " evaluations failed";
+        }
+        out.push_back(std::move(r));
     }
     return out;
 }
