@@ -56,7 +56,7 @@ struct failure_report {
     std::vector<access_record> last_accesses;
     std::vector<std::string> access_names;  // register name of each access ("fan_timer.limit")
     std::vector<std::string> backtrace;     // crashes only
-    // A readable, multi-line rendering.
+    // A readable, multi-line rendering; every line, the last one too, ends with '\n'.
     std::string text() const;
 };
 
