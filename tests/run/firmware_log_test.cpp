@@ -4,13 +4,11 @@
 #include "harness/run/firmware_log.h"
 
 #include "sim/vcd_writer.h"  // sim::output_error
+#include "tests/support/temp_files.h"
 
 #include <gtest/gtest.h>
 
-#include <unistd.h>
 #include <filesystem>
-#include <fstream>
-#include <sstream>
 #include <string>
 
 namespace {
@@ -18,18 +16,11 @@ namespace {
 using harness::run::firmware_log;
 namespace fs = std::filesystem;
 
-std::string temp_path(const std::string& name) {
-    const fs::path dir =
-        fs::temp_directory_path() / ("tickbench_firmware_log_" + std::to_string(::getpid()));
-    fs::create_directories(dir);
-    return (dir / name).string();
-}
+using tickbench::test_support::read_whole_file;
 
-std::string slurp(const std::string& path) {
-    std::ifstream f(path, std::ios::binary);
-    std::ostringstream s;
-    s << f.rdbuf();
-    return s.str();
+// A fresh file name in the test's temporary folder.
+std::string temp_path(const std::string& name) {
+    return tickbench::test_support::temp_path("tickbench_firmware_log", name);
 }
 
 TEST(firmware_log_test, stamps_are_milliseconds_with_nine_exact_decimals) {
@@ -60,13 +51,13 @@ TEST(firmware_log_test, the_file_exists_from_the_start_and_holds_every_line) {
     log.close();
     log.close();                    // does nothing
     log.write(3'000'000'000, "x");  // after close: nothing
-    EXPECT_EQ(slurp(path),
+    EXPECT_EQ(read_whole_file(path),
               "1.000000000 ms  first\n2.500000000 ms  second\n2.500000000 ms  third\n");
     const std::string empty = temp_path("empty.log");
     firmware_log none(empty);
     none.close();
     EXPECT_TRUE(fs::exists(empty));
-    EXPECT_EQ(slurp(empty), "");
+    EXPECT_EQ(read_whole_file(empty), "");
 }
 
 TEST(firmware_log_test, failures_name_the_file_and_the_reason) {

@@ -1,13 +1,12 @@
 #include "sim/vcd_writer.h"
+#include "tests/support/temp_files.h"
 #include "tests/waves/vcd_reader.h"
 
 #include <gtest/gtest.h>
 
 #include <cstdio>
 #include <filesystem>
-#include <fstream>
 #include <set>
-#include <sstream>
 #include <string>
 
 namespace {
@@ -17,17 +16,11 @@ using sim::vcd_writer;
 
 // A fresh file name in the test's temporary folder.
 std::string temp_path(const std::string& name) {
-    const fs::path dir =
-        fs::temp_directory_path() / ("tickbench_waves_" + std::to_string(::getpid()));
-    fs::create_directories(dir);
-    return (dir / name).string();
+    return tickbench::test_support::temp_path("tickbench_waves", name);
 }
 
 std::string slurp(const std::string& path) {
-    std::ifstream f(path, std::ios::binary);
-    std::ostringstream s;
-    s << f.rdbuf();
-    return s.str();
+    return tickbench::test_support::read_whole_file(path);
 }
 
 sim::vcd_options fixed(sim::time_ps unit = 1) {
