@@ -64,7 +64,6 @@ void cpu::move_to(time_ps t) {
 
 void cpu::stop_at_end() {
     local_ = end_;
-    stopped_at_end_ = true;
     in_firmware_ = false;
     // The models reach the end with the kernel (the platform brings every one there when the run
     // ends); the firmware's thread waits here until the process ends, on an event nobody notifies.

@@ -94,8 +94,6 @@ public:
 
     // --- for the platform and reports ---
     firmware_state state() const { return state_; }
-    // True when the firmware was still running at the run's end and stopped there.
-    bool stopped_at_end() const { return stopped_at_end_; }
     // The last bus accesses, oldest first (at most 16).
     std::vector<access_record> last_accesses() const;
     std::uint64_t access_count() const { return accesses_; }
@@ -147,7 +145,6 @@ private:
 
     time_ps local_ = 0;
     time_ps end_ = sim::max_time_ps;
-    bool stopped_at_end_ = false;
     time_ps horizon_ = 0;  // earliest next event of any watched peripheral
     // The kernel's time, which moves only while this thread waits in sync(): kept here so the hot
     // path asks the kernel nothing.

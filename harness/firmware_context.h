@@ -58,6 +58,7 @@ struct firmware_check_record {
 
     // Counts one evaluation.
     void add(bool held, sim::time_ps when);
+    // How often the check was evaluated.
     std::uint64_t evaluations() const { return passes + failures; }
     // The last evaluations, oldest first (at most recent_capacity).
     std::vector<firmware_evaluation> recent() const;
@@ -78,8 +79,11 @@ public:
     // the next record() or clear()).
     const firmware_check_record& record(std::string_view name, std::string_view file, int line,
                                         bool passed, sim::time_ps at);
+    // Every check's record, in the order of first evaluation.
     const std::vector<firmware_check_record>& records() const { return records_; }
+    // True before any check was evaluated.
     bool empty() const { return records_.empty(); }
+    // Forgets every check (a new run).
     void clear();
     // Bytes held, heap included (a test's measure that memory does not grow with evaluations).
     std::size_t footprint_bytes() const;

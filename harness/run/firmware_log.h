@@ -39,6 +39,7 @@ public:
 
     // Lines written so far.
     std::uint64_t lines() const { return lines_; }
+    // The file being written.
     const std::string& path() const { return path_; }
 
     // "0.833354167 ms": `at` in milliseconds with exactly nine decimals.
