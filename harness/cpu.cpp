@@ -30,7 +30,7 @@ void cpu::run() {
     current_ = this;
     state_ = firmware_state::running;
     kernel_now_ = sc_core::sc_time_stamp().value();
-    local_ = after_cycles(0, cfg_.start_offset_cycles);
+    move_to(after_cycles(0, cfg_.start_offset_cycles));
     sync_if_far_ahead();
     in_firmware_ = true;
     entry_();
@@ -52,6 +52,22 @@ time_ps cpu::after_cycles(time_ps from, std::uint64_t n) {
              ": firmware cannot go on");
         throw;
     }
+}
+
+void cpu::move_to(time_ps t) {
+    if (t <= end_) {
+        local_ = t;
+        return;
+    }
+    stop_at_end();
+}
+
+void cpu::stop_at_end() {
+    local_ = end_;
+    in_firmware_ = false;
+    // The models reach the end with the kernel (the platform brings every one there when the run
+    // ends); the firmware's thread waits here until the process ends, on an event nobody notifies.
+    for (;;) sc_core::wait(never_);
 }
 
 void cpu::bring_models_to(time_ps t) {
@@ -112,9 +128,9 @@ void cpu::take_interrupts() {
         }
         const unsigned saved = running_priority_;
         running_priority_ = irqs_.line(d->line).priority;
-        local_ = after_cycles(local_, cfg_.irq_entry_cycles);
+        move_to(after_cycles(local_, cfg_.irq_entry_cycles));
         handler();
-        local_ = after_cycles(local_, cfg_.irq_exit_cycles);
+        move_to(after_cycles(local_, cfg_.irq_exit_cycles));
         running_priority_ = saved;
         bring_models_to(local_);
     }
@@ -171,7 +187,9 @@ std::uint32_t cpu::transport(bool is_write, std::uint32_t address, unsigned size
     const time_ps now = kernel_now_;
     sc_core::sc_time delay = sc_core::sc_time::from_value(local_ - now);
     socket->b_transport(payload_, delay);
-    local_ = std::max<time_ps>(local_, now + delay.value());
+    // An access latency may carry the access's end past the run's end: it is listed at the end.
+    const time_ps done = std::max<time_ps>(local_, now + delay.value());
+    local_ = std::min(done, end_);
     std::uint32_t result = 0;
     if (!is_write)
         for (unsigned i = 0; i < size; ++i) result |= std::uint32_t{data[i]} << (8 * i);
@@ -183,6 +201,7 @@ std::uint32_t cpu::transport(bool is_write, std::uint32_t address, unsigned size
         fail(std::string("bus error on a ") + std::to_string(size * 8) + "-bit " +
              (is_write ? "write to " : "read of ") + a + ": " + payload_.get_response_string());
     }
+    if (done > end_) stop_at_end();
     return result;
 }
 
@@ -193,7 +212,7 @@ std::uint32_t cpu::read(std::uint32_t address, unsigned size) {
     beat();
     bring_models_to(local_);
     take_interrupts();
-    local_ = after_cycles(local_, cfg_.access_cycles);
+    move_to(after_cycles(local_, cfg_.access_cycles));
     sync_if_far_ahead();
     // Every peripheral up to the access's time first, so the one accessed reports nothing ahead
     // of the others.
@@ -209,7 +228,7 @@ void cpu::write(std::uint32_t address, unsigned size, std::uint32_t value) {
     beat();
     bring_models_to(local_);
     take_interrupts();
-    local_ = after_cycles(local_, cfg_.access_cycles);
+    move_to(after_cycles(local_, cfg_.access_cycles));
     sync_if_far_ahead();
     bring_models_to(local_);
     transport(true, address, size, value);
@@ -229,12 +248,12 @@ void cpu::cycles(std::uint64_t n) {
         if (const time_ps r = interrupt_ready_at(); r != sim::max_time_ps)
             next = std::min(next, std::max(r, local_));
         if (next >= end || remaining == 0) {
-            local_ = end;
+            move_to(end);
             break;
         }
         const std::uint64_t k0 = clock_.tick_at(local_);
         const std::uint64_t used = std::min(remaining, clock_.tick_at(std::max(next, local_)) - k0);
-        local_ = clock_.time_of(k0 + used);
+        move_to(clock_.time_of(k0 + used));
         remaining -= used;
         if (used == 0 && interrupt_ready_at() > local_) {
             // The instant that matters is now: let the models process it.
@@ -258,13 +277,17 @@ void cpu::wait_for_interrupt() {
             next = std::min(next, std::max(r, local_));
         if (next == sim::max_time_ps) {
             // Nothing is scheduled anywhere the cpu can see: let the kernel run a quantum (stimulus
-            // from outside may arrive) and look again.
-            local_ = after_cycles(kernel_now_ + cfg_.quantum, 0);
+            // from outside may arrive), but not past the run's end, and look again.
+            if (local_ >= end_) stop_at_end();
+            const time_ps wake = kernel_now_ + cfg_.quantum;
+            move_to(wake >= end_ ? end_ : after_cycles(wake, 0));
             sync();
             continue;
         }
-        // Sleep to the first CPU clock edge at or after that instant.
-        local_ = after_cycles(std::max(local_, next), 0);
+        // Sleep to the first CPU clock edge at or after that instant (none is needed after the
+        // end).
+        if (next > end_) stop_at_end();
+        move_to(after_cycles(std::max(local_, next), 0));
         sync_if_far_ahead();
     }
 }

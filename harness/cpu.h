@@ -11,6 +11,10 @@
 // control to the kernel only when it must: every `quantum` of run-ahead, and when it waits for an
 // interrupt with nothing left to compute locally. So a register read costs no context switch at
 // all.
+//
+// A run has an end, and nothing happens after it: firmware whose local time would pass the end
+// stops there for good (its thread stays parked at the end, the access or annotation that would
+// have crossed it never reaches the models), and the models are never brought past it.
 
 #include "harness/interrupt_controller.h"
 #include "models/timer/timer_types.h"
@@ -70,6 +74,9 @@ public:
     // Moves the firmware's start (before the run begins): sweeps use it to slide the firmware's
     // accesses across an instant such as a counter wrap.
     void set_start_offset(std::uint64_t cycles) { cfg_.start_offset_cycles = cycles; }
+    // The run's end (set before the run begins; none by default): firmware local time is held
+    // there, and nothing the firmware does after it reaches the models.
+    void set_end(time_ps end) { end_ = end; }
 
     // --- firmware-facing, called from the firmware's thread only ---
     std::uint32_t read(std::uint32_t address, unsigned size);
@@ -80,7 +87,7 @@ public:
     void irq_enable();
     void irq_line_enable(unsigned line, bool enable);
     void set_handler(unsigned line, void (*handler)());
-    // Local simulated time of the firmware.
+    // Local simulated time of the firmware (never after the run's end).
     time_ps now() const { return local_; }
     // The cpu whose firmware is running (set while its thread runs).
     static cpu* current() { return current_; }
@@ -105,6 +112,11 @@ private:
     };
 
     void run();
+    // Moves the local time to `t`, or, when `t` lies after the run's end, stops the firmware at
+    // the end (never returns then).
+    void move_to(time_ps t);
+    // Holds the firmware at the run's end for good: the kernel finishes the run without it.
+    [[noreturn]] void stop_at_end();
     // Local time after `n` more CPU cycles from `from`.
     time_ps after_cycles(time_ps from, std::uint64_t n);
     void bring_models_to(time_ps t);
@@ -134,6 +146,7 @@ private:
     std::array<void (*)(), 64> handlers_{};
 
     time_ps local_ = 0;
+    time_ps end_ = sim::max_time_ps;
     time_ps horizon_ = 0;  // earliest next event of any watched peripheral
     // The kernel's time, which moves only while this thread waits in sync(): kept here so the hot
     // path asks the kernel nothing.
@@ -156,6 +169,7 @@ private:
     std::atomic<bool> in_firmware_{false};
     tlm::tlm_generic_payload payload_;
     sc_core::sc_event irq_wakeup_;
+    sc_core::sc_event never_;  // never notified: what a firmware stopped at the end waits for
 
     static cpu* current_;
 };

@@ -82,9 +82,12 @@ void tick_log(const char* format, ...) {
 
 void tick_check(int passed, const char* name, const char* file, int line) {
     auto& ctx = harness::firmware_context::get();
-    harness::firmware_check c{name, file, line, passed != 0, harness::running().now()};
-    ctx.checks.push_back(c);
-    if (!c.passed && ctx.on_failed_check) ctx.on_failed_check(c);
+    const sim::time_ps at = harness::running().now();
+    if (name == nullptr) name = "";
+    if (file == nullptr) file = "";
+    ctx.checks.record(name, file, line, passed != 0, at);
+    if (passed == 0 && ctx.on_failed_check)
+        ctx.on_failed_check(harness::firmware_check{name, file, line, false, at});
 }
 
 }  // extern "C"

@@ -44,19 +44,27 @@ std::string failure_report::text() const {
         s << "last " << last_accesses.size() << " bus accesses (oldest first):\n";
         for (std::size_t i = 0; i < last_accesses.size(); ++i) {
             const access_record& a = last_accesses[i];
-            char line[160];
-            std::snprintf(line, sizeof line, "  %-18s %-5s %2u-bit 0x%08x %-24s 0x%08x%s\n",
-                          sim::format_time(a.at).c_str(), a.write ? "write" : "read", a.size * 8,
-                          a.address, i < access_names.size() ? access_names[i].c_str() : "",
-                          a.value, a.failed ? "  (bus error)" : "");
-            s << line;
+            // Columns padded with strings, so a long register name widens its line instead of
+            // cutting it short.
+            const auto padded = [](std::string t, std::size_t width) {
+                if (t.size() < width) t.resize(width, ' ');
+                return t;
+            };
+            char numbers[48];
+            std::snprintf(numbers, sizeof numbers, "%2u-bit 0x%08x", a.size * 8, a.address);
+            char value[16];
+            std::snprintf(value, sizeof value, "0x%08x", a.value);
+            s << "  " << padded(sim::format_time(a.at), 18) << ' '
+              << padded(a.write ? "write" : "read", 5) << ' ' << numbers << ' '
+              << padded(i < access_names.size() ? access_names[i] : "", 24) << ' ' << value
+              << (a.failed ? "  (bus error)" : "") << "\n";
         }
     }
     if (!backtrace.empty()) {
         s << "host backtrace:\n";
         for (const std::string& f : backtrace) s << "  " << f << "\n";
     }
-    return s.str();
+    return s.str();  // every line above ends in '\n', the last one too
 }
 
 // Forwards a timer's interrupt request line to the interrupt controller.
@@ -246,6 +254,8 @@ void platform::run(time_ps duration) {
                 }));
         }
     }
+    const time_ps end = sc_core::sc_time_stamp().value() + duration;
+    if (cpu_) cpu_->set_end(end);
     start_watchdog();
     try {
         sc_core::sc_start(sc_core::sc_time::from_value(duration));
@@ -253,7 +263,7 @@ void platform::run(time_ps duration) {
         // in time order across timers so that observers hear changes in order.
         std::vector<models::timer_core_if*> cores;
         for (auto& t : timers_) cores.push_back(t->module.get());
-        advance_in_order(cores, duration);
+        advance_in_order(cores, end);
     } catch (const std::exception& e) {
         fail(run_outcome::failed, e.what());
     }

@@ -56,7 +56,7 @@ struct failure_report {
     std::vector<access_record> last_accesses;
     std::vector<std::string> access_names;  // register name of each access ("fan_timer.limit")
     std::vector<std::string> backtrace;     // crashes only
-    // A readable, multi-line rendering.
+    // A readable, multi-line rendering; every line, the last one too, ends with '\n'.
     std::string text() const;
 };
 
@@ -83,8 +83,10 @@ public:
 
     // Starts the clock tree and builds every module (SystemC elaboration). Throws on bad set-up.
     void build();
-    // Runs the kernel until `duration`. On a firmware failure the report goes to stderr, every
-    // closer runs, and the process exits with code 3; `on_failure` (if set) sees the report first.
+    // Runs the kernel for `duration`; nothing is simulated after that end (the firmware stops there
+    // if it is still running, see harness::cpu). On a firmware failure the report goes to stderr,
+    // every closer runs, and the process exits with code 3; `on_failure` (if set) sees the report
+    // first.
     void run(time_ps duration);
     void on_failure(std::function<void(const failure_report&)> f) { on_failure_ = std::move(f); }
 

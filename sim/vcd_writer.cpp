@@ -226,6 +226,9 @@ void vcd_writer::change(signal_id id, bool level, time_ps at) {
                                    ? "vcd_writer: change of undeclared signal " + std::to_string(id)
                                    : std::string("vcd_writer: change outside begin()..end()"));
     }
+    if (at > options_.end_ps)
+        throw std::logic_error("vcd_writer: change at " + format_time(at) +
+                               " after the run's end " + format_time(options_.end_ps));
     signal& s = signals_[id];
     if (s.level == level) return;
     std::uint64_t t = at;
@@ -234,7 +237,7 @@ void vcd_writer::change(signal_id id, bool level, time_ps at) {
         const time_ps rem = at % unit_;
         if (rem != 0) {
             ++rounded_;
-            if (2 * rem >= unit_) ++t;
+            if (2 * rem >= unit_ && t < options_.end_ps / unit_) ++t;
         }
     }
     if (t != last_time_) {
@@ -259,9 +262,9 @@ void vcd_writer::end(time_ps at) {
     if (ended_) return;
     if (!begun_) begin();
     ended_ = true;
-    // The final time marks how long the run lasted, so viewers show the last levels to the end.
-    std::uint64_t t = at / unit_;
-    if (2 * (at % unit_) >= unit_) ++t;
+    // The final time marks how long the run lasted, so viewers show the last levels to the end;
+    // rounded down, so that it never lies after the run.
+    const std::uint64_t t = std::min(at, options_.end_ps) / unit_;
     if (t > last_time_) {
         reserve(max_time_line);
         append_time(t);

@@ -12,8 +12,8 @@
 // of 1 ps keeps every edge exact; a caller may ask for a coarser power of ten (10 ns, 1 us...) to
 // make the file smaller or to suit a reader that expands it into samples at the unit's rate. A
 // change whose time is not a multiple of the unit is placed at the nearest multiple (exact halves
-// go up) and counted in rounded_changes(); coarsest_exact_unit() finds the coarsest unit that keeps
-// a given set of times exact.
+// go up, but never past the run's end) and counted in rounded_changes(); coarsest_exact_unit()
+// finds the coarsest unit that keeps a given set of times exact.
 //
 // Two changes of one signal at one instant (a glitch, or two edges a coarse unit merged) are both
 // written, in order, under the same "#<time>": the file says exactly what the model reported. A
@@ -68,6 +68,9 @@ struct vcd_options {
     // Write full buffers from a thread of the writer's own, overlapping the copy into the operating
     // system with the simulation; false writes from the calling thread.
     bool writer_thread = true;
+    // The run's end: no time after it is written. A change rounded past it (a coarse unit that
+    // does not divide it) is placed at the last multiple of the unit at or before it.
+    time_ps end_ps = max_time_ps;
 };
 
 class vcd_writer final : public signal_sink {
@@ -86,10 +89,12 @@ public:
     // Writes the header, the definitions and the initial values.
     void begin() override;
     // Appends a value change; throws std::logic_error if time goes backwards (as seen in timescale
-    // units) or the id is unknown, output_error if the file cannot be written.
+    // units), lies after the options' end or the id is unknown, output_error if the file cannot be
+    // written.
     void change(signal_id id, bool level, time_ps at) override;
-    // Writes the final time, flushes and closes the file; throws output_error on a write failure.
-    // Later calls do nothing.
+    // Writes the final time (the last multiple of the unit at or before `at` and the options' end,
+    // so the file never shows a time after the run), flushes and closes the file; throws
+    // output_error on a write failure. Later calls do nothing.
     void end(time_ps at) override;
     // Writes every complete time step to the file and waits until it is there (the step in
     // progress stays in memory, so the file still ends on a step boundary); throws output_error on

@@ -5,6 +5,7 @@
 #include "harness/firmware_context.h"
 #include "harness/firmware_library.h"
 #include "harness/platform.h"
+#include "harness/run/firmware_log.h"
 #include "harness/run/log_setup.h"
 #include "harness/run/progress_line.h"
 #include "harness/run/signal_fanout.h"
@@ -31,54 +32,35 @@ namespace {
 
 namespace fs = std::filesystem;
 
-const char* const output_names[] = {"waves.vcd", "checks.jsonl", "junit.xml", "summary.txt",
-                                    "failure.txt"};
+const char* const output_names[] = {"waves.vcd",   "checks.jsonl", "junit.xml",
+                                    "summary.txt", "firmware.log", "failure.txt"};
 
-// One record per distinct firmware check (name, file and line), in order of first evaluation: how
-// often it was evaluated and the first failure.
-std::vector<sim::check_result> firmware_results(const std::vector<firmware_check>& checks,
+// One result per distinct firmware check (name, file and line), in order of first evaluation: how
+// often it was evaluated and its first failure.
+std::vector<sim::check_result> firmware_results(const firmware_check_log& checks,
                                                 sim::time_ps end) {
     std::vector<sim::check_result> out;
-    std::vector<std::uint64_t> failures;
-    for (const firmware_check& c : checks) {
-        const std::string where = c.file + ":" + std::to_string(c.line);
-        auto it = std::find_if(out.begin(), out.end(), [&](const sim::check_result& r) {
-            return r.name == c.name && r.signal == where;
-        });
-        if (it == out.end()) {
-            sim::check_result r;
-            r.name = c.name;
-            r.kind = sim::check_kind::never;
-            r.kind_name = "firmware";
-            r.signal = where;
-            r.unit = "evaluations";
-            r.expected_text = "holds every time it is evaluated";
-            r.passed = true;
+    for (const firmware_check_record& c : checks.records()) {
+        sim::check_result r;
+        r.name = c.name;
+        r.kind = sim::check_kind::never;
+        r.kind_name = "firmware";
+        r.signal = c.file + ":" + std::to_string(c.line);
+        r.unit = "evaluations";
+        r.expected_text = "holds every time it is evaluated";
+        r.count = c.evaluations();
+        r.passed = c.passed;
+        if (c.passed) {
             r.at = end;
-            out.push_back(r);
-            failures.push_back(0);
-            it = out.end() - 1;
-        }
-        sim::check_result& r = *it;
-        const std::size_t i = static_cast<std::size_t>(it - out.begin());
-        ++r.count;
-        if (!c.passed) {
-            if (failures[i] == 0) {
-                r.passed = false;
-                r.at = c.at;
-                r.detail = "failed at " + sim::format_time(c.at) + " (evaluation " +
-                           std::to_string(r.count) + ")";
-            }
-            ++failures[i];
-        }
-    }
-    for (std::size_t i = 0; i < out.size(); ++i) {
-        sim::check_result& r = out[i];
-        if (r.passed)
             r.detail = "held in all " + std::to_string(r.count) + " evaluations";
-        else
-            r.detail += "; " + std::to_string(failures[i]) + " of " + std::to_string(r.count) +
-                        " evaluations failed";
+        } else {
+            r.at = c.first_failure_at;
+            r.detail = "failed at " + sim::format_time(c.first_failure_at) + " (evaluation " +
+                       std::to_string(c.first_failure_evaluation) + "); " +
+                       std::to_string(c.failures) + " of " + std::to_string(r.count) +
+                       " evaluations failed";
+        }
+        out.push_back(std::move(r));
     }
     return out;
 }
@@ -91,6 +73,7 @@ struct run_state {
     std::unique_ptr<firmware_library> firmware;
     std::unique_ptr<sim::check_engine> engine;
     std::unique_ptr<sim::vcd_writer> vcd;
+    std::unique_ptr<firmware_log> log;
     signal_fanout fanout;
     std::vector<std::unique_ptr<models::timer_probe>> probes;
     std::optional<failure_report> failure;
@@ -110,24 +93,54 @@ struct run_state {
                 "to keep "
                 "every edge exact)",
                 vcd->rounded_changes(), sim::vcd_writer::timescale_text(vcd->unit()));
+        // The log first: a failure to write it must not cost the reports.
+        std::optional<sim::output_error> log_error;
+        try {
+            log->close();
+        } catch (const sim::output_error& e) {
+            log_error = e;
+        }
         std::vector<sim::check_result> results = engine->results();
         const auto fw = firmware_results(firmware_context::get().checks, end);
         results.insert(results.end(), fw.begin(), fw.end());
         sim::write_checks_jsonl(path("checks.jsonl"), results);
         sim::write_junit_xml(path("junit.xml"), results, s.name);
-        sim::write_summary(path("summary.txt"), results);
+        const std::vector<std::string> notes = {
+            "firmware log: " + std::to_string(log->lines()) +
+            (log->lines() == 1 ? " line in firmware.log" : " lines in firmware.log")};
+        sim::write_summary(path("summary.txt"), results, notes);
         if (failure) {
             std::ofstream f(path("failure.txt"), std::ios::binary);
             f << failure->text();
+            f.close();
             if (!f) throw sim::output_error("cannot write " + path("failure.txt"));
         }
-        *out << sim::summary_text(results);
+        *out << sim::summary_text(results, notes);
         if (failure)
             *out << "firmware " << to_string(failure->outcome) << ": see " << path("failure.txt")
                  << "\n";
-        *out << "outputs in " << out_dir << "\n";
+        std::string written;
+        for (const char* name : output_names) {
+            const std::string n = name;
+            if ((n == "waves.vcd" && !vcd) || (n == "failure.txt" && !failure)) continue;
+            written += (written.empty() ? "" : ", ") + n;
+        }
+        *out << "outputs in " << out_dir << ": " << written << "\n";
         out->flush();
+        if (log_error) throw *log_error;
         return results;
+    }
+
+    // Flushes and closes what was opened when bad input stops the run before it starts.
+    void abandon() {
+        if (progress) progress->stop();
+        finished = true;
+        try {
+            if (log) log->close();
+            if (vcd) vcd->end(0);
+        } catch (const std::exception& e) {
+            spdlog::error("while closing outputs: {}", e.what());
+        }
     }
 };
 
@@ -137,6 +150,69 @@ std::unique_ptr<firmware_library> load_firmware(const scenario& s) {
         return std::make_unique<firmware_library>(s.firmware->library, s.firmware->entry);
     } catch (const firmware_load_error& e) {
         throw firmware_load_error(s.firmware->origin + ": " + e.what());
+    }
+}
+
+// Everything between opening the outputs and starting the kernel: the sinks, the part, the
+// firmware. Throws on bad input.
+void start_run(platform& part, run_state& state, const std::string& path,
+               const run_options& options) {
+    const scenario& s = state.s;
+    const sim::time_ps duration = *s.run.duration;
+    firmware_context& ctx = firmware_context::get();
+    ctx.checks.clear();
+    if (s.firmware) ctx.params = s.firmware->parameters;
+    ctx.on_log = [&state](sim::time_ps at, const std::string& line) {
+        state.log->write(at, line);
+        // Stamped with the firmware's time already (log_setup.h).
+        spdlog::info("firmware: {}", line);
+    };
+
+    state.engine = std::make_unique<sim::check_engine>(s.checks);
+    state.fanout.add(*state.engine, {}, true);
+    if (s.waves.enabled) {
+        sim::vcd_options vo;
+        vo.unit_ps = s.waves.unit_ps;
+        // A fixed date: the same inputs give a byte-identical file.
+        vo.date = "not recorded (runs are reproducible)";
+        vo.version = std::string("tickbench ") + TICKBENCH_VERSION;
+        vo.end_ps = duration;
+        state.vcd = std::make_unique<sim::vcd_writer>(state.path("waves.vcd"), vo);
+        state.fanout.add(*state.vcd, s.waves.signals, false);
+    }
+    sim::signal_id id = 0;
+    for (timer_spec spec : s.timers) {
+        state.probes.push_back(std::make_unique<models::timer_probe>(
+            spec.name, spec.layout.instance, state.fanout, id));
+        id = state.probes.back()->end_id();
+        spec.observers.push_back(state.probes.back().get());
+        part.add_timer(std::move(spec));
+    }
+    part.set_unmapped_policy(s.run.unmapped);
+    part.set_hang_wall_seconds(s.run.hang_wall_seconds);
+    if (s.firmware) {
+        part.set_map_peripherals(s.firmware->map_peripherals);
+        void (*entry)() = state.firmware->entry();
+        part.set_firmware(*s.cpu, [entry] { entry(); });
+    }
+    try {
+        part.build();
+    } catch (const std::exception& e) {
+        throw sim::scenario_error(sim::scenario_finding{
+            path, 0, 0, "", std::string("cannot build the part: ") + e.what()});
+    }
+    state.fanout.begin();
+    part.on_failure([&state](const failure_report& r) { state.failure = r; });
+    part.on_close([&state] {
+        if (state.finished) return;
+        const sim::time_ps end =
+            std::max(state.fanout.last_time(), state.failure ? state.failure->at : 0);
+        state.finish(end);
+    });
+    if (options.progress) {
+        state.progress =
+            std::make_unique<progress_line>(duration, [&state] { return state.fanout.reached(); });
+        state.progress->start();
     }
 }
 
@@ -169,57 +245,12 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
         throw sim::output_error("cannot create the output folder '" + state.out_dir +
                                 "': " + (ec ? ec.message() : "not a folder"));
     for (const char* name : output_names) fs::remove(state.path(name), ec);
-
-    firmware_context& ctx = firmware_context::get();
-    ctx.checks.clear();
-    if (s.firmware) ctx.params = s.firmware->parameters;
-    // The log line is stamped with the firmware's time already (log_setup.h).
-    ctx.on_log = [](sim::time_ps, const std::string& line) { spdlog::info("firmware: {}", line); };
-
-    state.engine = std::make_unique<sim::check_engine>(s.checks);
-    state.fanout.add(*state.engine, {}, true);
-    if (s.waves.enabled) {
-        sim::vcd_options vo;
-        vo.unit_ps = s.waves.unit_ps;
-        // A fixed date: the same inputs give a byte-identical file.
-        vo.date = "not recorded (runs are reproducible)";
-        vo.version = std::string("tickbench ") + TICKBENCH_VERSION;
-        state.vcd = std::make_unique<sim::vcd_writer>(state.path("waves.vcd"), vo);
-        state.fanout.add(*state.vcd, s.waves.signals, false);
-    }
-    sim::signal_id id = 0;
-    for (timer_spec spec : s.timers) {
-        state.probes.push_back(std::make_unique<models::timer_probe>(
-            spec.name, spec.layout.instance, state.fanout, id));
-        id = state.probes.back()->end_id();
-        spec.observers.push_back(state.probes.back().get());
-        p->add_timer(std::move(spec));
-    }
-    p->set_unmapped_policy(s.run.unmapped);
-    p->set_hang_wall_seconds(s.run.hang_wall_seconds);
-    if (s.firmware) {
-        p->set_map_peripherals(s.firmware->map_peripherals);
-        void (*entry)() = state.firmware->entry();
-        p->set_firmware(*s.cpu, [entry] { entry(); });
-    }
+    state.log = std::make_unique<firmware_log>(state.path("firmware.log"));
     try {
-        p->build();
-    } catch (const std::exception& e) {
-        throw sim::scenario_error(sim::scenario_finding{
-            path, 0, 0, "", std::string("cannot build the part: ") + e.what()});
-    }
-    state.fanout.begin();
-    p->on_failure([&state](const failure_report& r) { state.failure = r; });
-    p->on_close([&state] {
-        if (state.finished) return;
-        const sim::time_ps end =
-            std::max(state.fanout.last_time(), state.failure ? state.failure->at : 0);
-        state.finish(end);
-    });
-    if (options.progress) {
-        state.progress =
-            std::make_unique<progress_line>(duration, [&state] { return state.fanout.reached(); });
-        state.progress->start();
+        start_run(*p, state, path, options);
+    } catch (...) {
+        state.abandon();
+        throw;
     }
     spdlog::info("{}: running {} (seed {}), outputs in {}", path, sim::format_time(duration),
                  s.run.seed, state.out_dir);

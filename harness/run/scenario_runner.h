@@ -2,11 +2,13 @@
 // Running a scenario: the part it describes is built as a harness::platform, the timers' outputs
 // go through probes to a fan-out feeding the waveform writer and the check engine, the firmware
 // library is loaded and run, and the outputs are written into one folder (docs/cli.md, "run"):
-// waves.vcd (streamed), checks.jsonl, junit.xml, summary.txt and, when firmware fails, failure.txt.
+// waves.vcd (streamed), checks.jsonl, junit.xml, summary.txt, firmware.log (the firmware's log
+// lines, streamed) and, when firmware fails, failure.txt.
 //
 // A firmware failure ends the process with exit code 3 (harness::platform::fail); before it does,
 // the outputs written so far are finished with the verdicts as they stand, so a crash still leaves
-// a readable waveform and assertion log behind.
+// a readable waveform, assertion log and firmware log behind. Bad input found after the outputs
+// were opened closes them before the error is thrown.
 
 #include "harness/run/scenario.h"
 

@@ -5,6 +5,7 @@
 #include "tickbench/firmware.h"
 
 #include <unistd.h>
+#include <algorithm>
 #include <cstdio>
 #include <fstream>
 #include <sstream>
@@ -32,16 +33,15 @@ std::string get(std::istream& in) {
     return s;
 }
 
-// What the child collects while it runs.
-struct child_record {
-    std::vector<firmware_check> checks;
-    std::vector<firmware_log_line> log;
-};
-
 void write_results(const std::string& path, const firmware_run& r) {
     std::ofstream out(path, std::ios::binary | std::ios::trunc);
-    for (const firmware_check& c : r.checks) {
-        out << "C " << (c.passed ? 1 : 0) << ' ' << c.line << ' ' << c.at << ' ';
+    for (const firmware_check_record& c : r.checks) {
+        out << "C " << c.line << ' ' << c.passes << ' ' << c.failures << ' ' << c.first_at << ' '
+            << c.last_at << ' ' << c.first_failure_at << ' ' << c.first_failure_evaluation << ' ';
+        const std::vector<firmware_evaluation> recent = c.recent();
+        out << recent.size();
+        for (const firmware_evaluation& e : recent) out << ' ' << (e.passed ? 1 : 0) << ' ' << e.at;
+        out << ' ';
         put(out, c.name);
         out << ' ';
         put(out, c.file);
@@ -64,14 +64,24 @@ bool read_results(const std::string& path, firmware_run& r) {
     char tag = 0;
     while (in >> tag) {
         if (tag == 'C') {
-            firmware_check c;
-            int passed = 0;
-            in >> passed >> c.line >> c.at;
+            firmware_check_record c;
+            std::size_t kept = 0;
+            in >> c.line >> c.passes >> c.failures >> c.first_at >> c.last_at >>
+                c.first_failure_at >> c.first_failure_evaluation >> kept;
+            std::vector<firmware_evaluation> recent(
+                std::min(kept, firmware_check_record::recent_capacity));
+            for (firmware_evaluation& e : recent) {
+                int passed = 0;
+                in >> passed >> e.at;
+                e.passed = passed != 0;
+            }
             in.get();
             c.name = get(in);
             in.get();
             c.file = get(in);
-            c.passed = passed != 0;
+            c.passed = c.failures == 0;
+            c.at = c.passed ? c.last_at : c.first_failure_at;
+            c.restore_recent(recent);
             r.checks.push_back(std::move(c));
         } else if (tag == 'L') {
             firmware_log_line l;
@@ -103,15 +113,15 @@ bool read_results(const std::string& path, firmware_run& r) {
     return ::testing::AssertionFailure() << *this;
 }
 
-std::vector<firmware_check> firmware_run::failed_checks() const {
-    std::vector<firmware_check> v;
-    for (const firmware_check& c : checks)
+std::vector<firmware_check_record> firmware_run::failed_checks() const {
+    std::vector<firmware_check_record> v;
+    for (const firmware_check_record& c : checks)
         if (!c.passed) v.push_back(c);
     return v;
 }
 
-std::optional<firmware_check> firmware_run::check(const std::string& name) const {
-    for (const firmware_check& c : checks)
+std::optional<firmware_check_record> firmware_run::check(const std::string& name) const {
+    for (const firmware_check_record& c : checks)
         if (c.name == name) return c;
     return std::nullopt;
 }
@@ -127,9 +137,16 @@ std::ostream& operator<<(std::ostream& out, const firmware_run& run) {
     if (run.signal != 0) out << ", killed by signal " << run.signal;
     out << ") at " << sim::format_time(run.firmware_time) << " after " << run.accesses
         << " bus accesses\n";
-    for (const firmware_check& c : run.checks)
+    for (const firmware_check_record& c : run.checks) {
         out << "  check " << (c.passed ? "passed" : "FAILED") << " at " << sim::format_time(c.at)
-            << ": '" << c.name << "' (" << c.file << ":" << c.line << ")\n";
+            << ": '" << c.name << "' (" << c.file << ":" << c.line << ")";
+        if (c.evaluations() > 1) {
+            out << ", " << c.failures << " of " << c.evaluations() << " evaluations failed; last:";
+            for (const firmware_evaluation& e : c.recent())
+                out << ' ' << (e.passed ? "pass" : "FAIL") << '@' << sim::format_time(e.at);
+        }
+        out << "\n";
+    }
     for (const firmware_log_line& l : run.log)
         out << "  log " << sim::format_time(l.at) << ": " << l.text << "\n";
     if (!run.report.empty())
@@ -206,7 +223,7 @@ const firmware_run& firmware_fixture::run_firmware(std::function<void()> firmwar
             auto finish = [&](run_outcome outcome, const std::string& report) {
                 r.outcome = outcome;
                 r.report = report;
-                r.checks = ctx.checks;
+                r.checks = ctx.checks.records();
                 if (harness::cpu* c = p.cpu()) {
                     r.firmware_time = c->now();
                     r.accesses = c->access_count();

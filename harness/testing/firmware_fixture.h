@@ -4,11 +4,11 @@
 //
 // A test describes the part in its body or in SetUp() (clocks, timers from register layouts, the
 // cpu's costs, firmware parameters, edge-case settings), then runs firmware for a stretch of
-// simulated time and inspects what came back: how the run ended, the failure report, every firmware
-// check with its place and time, and every tick_log() line. Each run happens in a child process of
-// its own, which builds the part from the description: SystemC elaborates once per process, and a
-// firmware failure ends its process with exit code 3 by design. The test process itself never
-// starts a kernel, so one test may run as many variants as it likes.
+// simulated time and inspects what came back: how the run ended, the failure report, each firmware
+// check with its place, counts, first failure and last evaluations, and every tick_log() line. Each
+// run happens in a child process of its own, which builds the part from the description: SystemC
+// elaborates once per process, and a firmware failure ends its process with exit code 3 by design.
+// The test process itself never starts a kernel, so one test may run as many variants as it likes.
 //
 //     class fan_test : public harness::firmware_fixture {};
 //     TEST_F(fan_test, duty_follows_the_request) {
@@ -53,7 +53,9 @@ struct firmware_run {
     int signal = 0;      // the signal that killed the child outright (should not happen)
     std::string report;  // the failure report text; empty when the run completed
     std::string output;  // everything the child wrote to stdout and stderr
-    std::vector<firmware_check> checks;  // every tick_check()/TICK_ASSERT, in order
+    // One record per distinct tick_check()/TICK_ASSERT (name and place), in order of first
+    // evaluation: passes, failures, the first failure and the last few evaluations.
+    std::vector<firmware_check_record> checks;
     std::vector<firmware_log_line> log;  // every tick_log() line, in order
     time_ps firmware_time = 0;           // the firmware's local time when the run ended
     std::uint64_t accesses = 0;          // bus accesses the firmware made
@@ -62,11 +64,11 @@ struct firmware_run {
     // Success when the run completed and every firmware check passed; otherwise the failure says
     // how the run ended, which checks failed and where, and the report.
     ::testing::AssertionResult passed() const;
-    // The checks that failed (a failed check ends the run, so at most one unless the run was
-    // inspected after its end).
-    std::vector<firmware_check> failed_checks() const;
-    // The first check named `name`, or nothing.
-    std::optional<firmware_check> check(const std::string& name) const;
+    // The checks that failed at least once (a failed check ends the run, so at most one unless
+    // the run was inspected after its end).
+    std::vector<firmware_check_record> failed_checks() const;
+    // The first check named `name` (the first place, if several places use the name), or nothing.
+    std::optional<firmware_check_record> check(const std::string& name) const;
     // True when some log line contains `text`.
     bool logged(const std::string& text) const;
 };

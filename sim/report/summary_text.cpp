@@ -36,7 +36,8 @@ std::string measured_text(double value, const std::string& unit) {
     return number_text(value) + " " + unit;
 }
 
-std::string summary_text(const std::vector<check_result>& results) {
+std::string summary_text(const std::vector<check_result>& results,
+                         const std::vector<std::string>& notes) {
     struct row {
         std::array<std::string, 5> cells;
         const check_result* r;
@@ -75,11 +76,13 @@ std::string summary_text(const std::vector<check_result>& results) {
     out += std::to_string(results.size()) + (results.size() == 1 ? " check: " : " checks: ") +
            std::to_string(results.size() - failed) + " passed, " + std::to_string(failed) +
            " failed\n";
+    for (const std::string& n : notes) out += n + "\n";
     return out;
 }
 
-void write_summary(const std::string& path, const std::vector<check_result>& results) {
-    detail::write_output_file(path, summary_text(results));
+void write_summary(const std::string& path, const std::vector<check_result>& results,
+                   const std::vector<std::string>& notes) {
+    detail::write_output_file(path, summary_text(results, notes));
 }
 
 }  // namespace sim

@@ -59,7 +59,7 @@ TEST(check_kinds_test, period_fails_one_tick_outside_a_ppm_tolerance_at_the_exac
     check_spec c = make(check_kind::period, {"a"});
     c.expected = 40 * us;
     c.tol = tolerance::relative_ppb(100'000);
-    const auto r = run_one(s, c, 1 * ms);
+    const auto r = run_one(s, c, 130 * us);
     EXPECT_FALSE(r.passed);
     EXPECT_EQ(r.at, 80 * us + 8 * ns + 1);
     EXPECT_EQ(r.count, 3u);
@@ -77,18 +77,18 @@ TEST(check_kinds_test, period_absolute_and_tick_tolerances) {
     check_spec c = make(check_kind::period, {"a"});
     c.expected = 40 * us;
     c.tol = tolerance::ticks_of(1, "timer_clock", sim::frequency::hz(48'000'000));
-    auto r = run_one(s, c, 1 * ms);
+    auto r = run_one(s, c, 120 * us);
     EXPECT_TRUE(r.passed) << r.detail;
     EXPECT_EQ(r.tolerance_text, "1 tick of timer_clock");
     s.set("a", true,
           120 * us + 20'833 + 20'834 + 41'667 + 2);  // two ticks late (and 1 ps beyond rounding)
-    r = run_one(s, c, 1 * ms);
+    r = run_one(s, c, 150 * us);
     EXPECT_FALSE(r.passed);
     EXPECT_NE(r.detail.find("exceeds 40 us +/- 1 tick of timer_clock"), std::string::npos)
         << r.detail;
 
     c.tol = tolerance::absolute_units(20 * ns);
-    r = run_one(s, c, 1 * ms);
+    r = run_one(s, c, 150 * us);
     EXPECT_FALSE(r.passed);  // 20.833 ns is beyond 20 ns
     EXPECT_EQ(r.at, 40 * us + 20'833);
     EXPECT_EQ(r.tolerance_text, "20 ns");
@@ -114,13 +114,13 @@ TEST(check_kinds_test, frequency_checks_each_period_exactly) {
         .set("a", false, 50 * us);
     t.set("a", true, 79'996'800);
     c.tol = tolerance::absolute_hz(sim::frequency::hz(1));
-    r = run_one(t, c, 1 * ms);  // 1e12 / 39998400 = 25001.000... Hz: just above 25001
+    r = run_one(t, c, 100 * us);  // 1e12 / 39998400 = 25001.000... Hz: just above 25001
     EXPECT_FALSE(r.passed);
     EXPECT_EQ(r.at, 39'998'400u);
     EXPECT_NE(r.detail.find("frequency 25001.00004 Hz"), std::string::npos) << r.detail;
     EXPECT_NE(r.detail.find("exceeds 25 kHz +/- 1 Hz"), std::string::npos) << r.detail;
     c.tol = tolerance::relative_ppb(41'000);  // 41 ppm of 25 kHz is 1.025 Hz
-    r = run_one(t, c, 1 * ms);
+    r = run_one(t, c, 100 * us);
     EXPECT_TRUE(r.passed) << r.detail;
     EXPECT_EQ(r.count, 2u);
 }
@@ -238,6 +238,7 @@ TEST(check_kinds_test, window_and_settle_skip_start_up) {
     EXPECT_FALSE(r.passed);
     EXPECT_EQ(r.at, 30 * us);
     c.settle = 1 * ms;
+    c.until = 3 * ms;  // the wave stops after its last rise at 2.96 ms
     r = run_one(s, c, 4 * ms);
     EXPECT_TRUE(r.passed) << r.detail;
     EXPECT_EQ(r.count, 49u);
@@ -408,6 +409,191 @@ TEST(check_kinds_test, never_condition_with_windows_and_same_instant_swaps) {
     r = run_one(s, c, 100 * us);
     EXPECT_FALSE(r.passed);
     EXPECT_EQ(r.count, 2u);  // the overlap, and both low from 60 us to 61 us
+}
+
+// The window rules of docs/scenario.md ("Which periods and pulses a check counts"): a measurement
+// counts when both its edges lie in [from + settle, until], both ends included.
+
+TEST(check_kinds_test, window_edges_exactly_at_from_and_until_count) {
+    // Rises at 100, 140, ..., 300 us; each high for 10 us.
+    edge_script s;
+    s.signal("a").square("a", 100 * us, 40 * us, 10 * us, 6);
+    check_spec c = make(check_kind::period, {"a"});
+    c.expected = 40 * us;
+    c.from = 100 * us;   // the rise at 100 us starts the first period
+    c.until = 300 * us;  // the rise at 300 us ends the last one
+    auto r = run_one(s, c, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_EQ(r.count, 5u);
+    EXPECT_EQ(r.at, 1 * ms);
+    EXPECT_EQ(r.detail, "5 periods, all 40 us exactly");
+
+    // One picosecond later on either side loses the period at that side.
+    c.from = 100 * us + 1;
+    c.until = 300 * us - 1;
+    r = run_one(s, c, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_EQ(r.count, 3u);
+
+    // settle moves the start: from 60 us + 40 us of settling is 100 us, included.
+    c.from = 60 * us;
+    c.settle = 40 * us;
+    c.until = 300 * us;
+    EXPECT_EQ(run_one(s, c, 1 * ms).count, 5u);
+
+    // Pulses and edges alike: the high pulse from 100 us to 110 us counts from `from` = 100 us,
+    // and the fall at 310 us ends a pulse with `until` = 310 us.
+    check_spec p = make(check_kind::pulse_width, {"a"});
+    p.expected = 10 * us;
+    p.from = 100 * us;
+    p.until = 310 * us;
+    r = run_one(s, p, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_EQ(r.count, 6u);
+    check_spec e = make(check_kind::edge_count, {"a"});
+    e.edge = sim::edge_select::both;
+    e.from = 100 * us;
+    e.until = 310 * us;
+    e.expected = 12;
+    r = run_one(s, e, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+}
+
+TEST(check_kinds_test, window_first_edge_after_from_only_starts_a_measurement) {
+    // High from 90 us to 110 us, then rises every 40 us from 140 us.
+    edge_script s;
+    s.signal("a").set("a", true, 90 * us).set("a", false, 110 * us);
+    s.square("a", 140 * us, 40 * us, 10 * us, 4);
+    // The first edge after `from` is a fall: it starts nothing; the first rise starts the first
+    // period, and the pulse that began before `from` is not measured.
+    check_spec c = make(check_kind::period, {"a"});
+    c.expected = 40 * us;
+    c.from = 100 * us;
+    c.until = 300 * us;
+    auto r = run_one(s, c, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_EQ(r.count, 3u);
+    check_spec p = make(check_kind::pulse_width, {"a"});
+    p.maximum = 15 * us;  // the 20 us pulse straddling `from` would fail
+    p.from = 100 * us;
+    p.until = 300 * us;
+    r = run_one(s, p, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_EQ(r.count, 4u);
+}
+
+TEST(check_kinds_test, window_a_period_or_pulse_straddling_until_is_not_measured) {
+    // Periods of 40 us, high for 10 us, from 0; `until` falls inside the period from 80 us.
+    edge_script s;
+    s.signal("a").square("a", 0, 40 * us, 10 * us, 5);
+    check_spec c = make(check_kind::period, {"a"});
+    c.expected = 40 * us;
+    c.until = 105 * us;
+    auto r = run_one(s, c, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_EQ(r.count, 2u);  // 0-40 and 40-80; 80-120 straddles `until`
+    check_spec p = make(check_kind::pulse_width, {"a"});
+    p.expected = 10 * us;
+    p.until = 85 * us;  // inside the pulse from 80 us to 90 us
+    r = run_one(s, p, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_EQ(r.count, 2u);
+}
+
+TEST(check_kinds_test, window_a_pulse_still_open_at_until_fails_when_already_too_long) {
+    // A pulse from 100 us stuck high until 900 us: by `until` = 500 us it is already 400 us long.
+    // It fails at `until` whether it ends after `until` or never, as an unanswered latency event
+    // does.
+    edge_script s;
+    s.signal("a").square("a", 0, 40 * us, 10 * us, 2).set("a", true, 100 * us);
+    check_spec p = make(check_kind::pulse_width, {"a"});
+    p.maximum = 20 * us;
+    p.until = 500 * us;
+    auto r = run_one(s, p, 1 * ms);
+    EXPECT_FALSE(r.passed);
+    EXPECT_EQ(r.at, 500 * us);
+    EXPECT_EQ(r.detail,
+              "high pulse from 100 us still open after 400 us, is above the maximum 20 us");
+    s.set("a", false, 900 * us);
+    r = run_one(s, p, 1 * ms);
+    EXPECT_FALSE(r.passed);
+    EXPECT_EQ(r.at, 500 * us);
+    EXPECT_EQ(r.count, 2u);
+    EXPECT_EQ(r.detail,
+              "high pulse from 100 us still open after 400 us, is above the maximum 20 us");
+    // Still within the maximum at `until`: not measured, no verdict on it.
+    p.until = 110 * us;
+    r = run_one(s, p, 1 * ms);
+    EXPECT_TRUE(r.passed) << r.detail;
+}
+
+TEST(check_kinds_test, window_a_signal_that_stops_inside_it_fails_period_and_frequency) {
+    // A 25 kHz wave that stops after its rise at 160 us, in a window running to 1 ms.
+    edge_script s;
+    s.signal("a").square("a", 0, 40 * us, 10 * us, 5);
+    check_spec c = make(check_kind::period, {"a"});
+    c.expected = 40 * us;
+    c.tol = tolerance::relative_ppb(100'000);
+    auto r = run_one(s, c, 1 * ms);
+    EXPECT_FALSE(r.passed);
+    EXPECT_EQ(r.count, 4u);
+    EXPECT_EQ(r.at, 1 * ms);
+    EXPECT_EQ(r.detail,
+              "no rising edge of a since 160 us: the period still open at 1 ms is already 840 us, "
+              "so its length exceeds 40 us +/- 100 ppm");
+    check_spec f = make(check_kind::frequency, {"a"});
+    f.expected_frequency = sim::frequency::hz(25'000);
+    r = run_one(s, f, 1 * ms);
+    EXPECT_FALSE(r.passed);
+    EXPECT_EQ(r.detail,
+              "no rising edge of a since 160 us: the period still open at 1 ms is already 840 us, "
+              "so its frequency falls short of 25 kHz exactly");
+    // With an earlier failure, the open period is named after it and not counted among them.
+    s.set("a", true, 200 * us + 5 * ns).set("a", false, 210 * us);
+    r = run_one(s, c, 1 * ms);
+    EXPECT_FALSE(r.passed);
+    EXPECT_EQ(r.at, 200 * us + 5 * ns);
+    EXPECT_EQ(r.detail,
+              "period 40.005 us exceeds 40 us +/- 100 ppm at 200.005 us; the last period, still "
+              "open when the window closed, was already too long");
+    // The window ends where the wave does: the period open at `until` is no longer than 40 us.
+    c.until = 200 * us;  // just before the late rise
+    EXPECT_TRUE(run_one(s, c, 1 * ms).passed);
+    // A duty cycle bounds no period: it judges complete periods only.
+    check_spec d = make(check_kind::duty_cycle, {"a"});
+    d.expected = 250'000'000;
+    r = run_one(s, d, 1 * ms);
+    EXPECT_FALSE(r.passed);  // 10 us of the 40.005 us period is not exactly 25 %
+    EXPECT_EQ(r.count, 5u);
+}
+
+TEST(check_kinds_test, window_period_changes_are_judged_per_period) {
+    // Two periods of 40 us at 25 % high, then two of 50 us at 50 % high.
+    edge_script s;
+    s.signal("a").square("a", 0, 40 * us, 10 * us, 2).square("a", 80 * us, 50 * us, 25 * us, 2);
+    s.set("a", true, 180 * us);
+    check_spec f = make(check_kind::frequency, {"a"});
+    f.expected_frequency = sim::frequency::hz(25'000);
+    f.until = 180 * us;
+    auto r = run_one(s, f, 180 * us);
+    // Each period is one frequency: 25 kHz twice, then 20 kHz twice.
+    EXPECT_FALSE(r.passed);
+    EXPECT_EQ(r.at, 130 * us);
+    EXPECT_EQ(r.count, 4u);
+    EXPECT_DOUBLE_EQ(*r.min, 20'000.0);
+    EXPECT_DOUBLE_EQ(*r.max, 25'000.0);
+    // The mean is periods over their total time: 4 periods in 180 us.
+    EXPECT_DOUBLE_EQ(*r.mean, 4 / 180e-6);
+    // A duty cycle is high time over its own period, each period alone; the mean is the plain
+    // mean of the periods' values, not weighted by their length.
+    check_spec d = make(check_kind::duty_cycle, {"a"});
+    d.minimum = 200'000'000;
+    d.maximum = 600'000'000;
+    r = run_one(s, d, 180 * us);
+    EXPECT_TRUE(r.passed) << r.detail;
+    EXPECT_DOUBLE_EQ(*r.min, 25.0);
+    EXPECT_DOUBLE_EQ(*r.max, 50.0);
+    EXPECT_DOUBLE_EQ(*r.mean, 37.5);
 }
 
 TEST(check_kinds_test, an_unknown_signal_name_is_refused_at_begin) {

@@ -183,6 +183,17 @@ TEST(report_test, summary_is_an_aligned_table_with_totals) {
     std::filesystem::remove_all(dir);
 }
 
+TEST(report_test, summary_notes_follow_the_totals) {
+    const auto results = sample_results();
+    const std::vector<std::string> notes = {"firmware log: 2 lines in firmware.log"};
+    const std::string text = sim::summary_text(results, notes);
+    EXPECT_EQ(text, sim::summary_text(results) + "firmware log: 2 lines in firmware.log\n");
+    const auto dir = temp_dir("summary_notes");
+    sim::write_summary((dir / "summary.txt").string(), results, notes);
+    EXPECT_EQ(read_file(dir / "summary.txt"), text);
+    std::filesystem::remove_all(dir);
+}
+
 TEST(report_test, an_unwritable_file_names_the_path_and_the_reason) {
     const std::string path = "/nonexistent-tickbench-dir/checks.jsonl";
     try {

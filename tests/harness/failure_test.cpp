@@ -51,6 +51,27 @@ bool has(const std::string& text, const std::string& what) {
     return text.find(what) != std::string::npos;
 }
 
+TEST(failure_test, report_text_keeps_long_register_names_and_ends_with_a_newline) {
+    harness::failure_report r;
+    r.outcome = harness::run_outcome::crashed;
+    r.message = "SIGSEGV";
+    r.at = 1'000'000;
+    // A timer's name is the scenario's choice, of any length.
+    const std::string name = std::string(150, 'x') + ".count";
+    r.last_accesses = {{2'000, 0x5000'0400, 2, false, 7, false}};
+    r.access_names = {name};
+    const std::string text = r.text();
+    EXPECT_TRUE(has(text, name + " 0x00000007\n")) << text;
+    ASSERT_FALSE(text.empty());
+    EXPECT_EQ(text.back(), '\n');
+    // The columns of ordinary names stay as they were.
+    r.access_names = {"stopwatch.count"};
+    EXPECT_TRUE(has(r.text(),
+                    "  2 ns               read  16-bit 0x50000400 stopwatch.count          "
+                    "0x00000007\n"))
+        << r.text();
+}
+
 TEST(failure_test, crash_outside_the_peripherals_is_reported_with_backtrace_and_accesses) {
     const std::string closed = ::testing::TempDir() + "closer_" + std::to_string(getpid());
     const auto r = run_part(

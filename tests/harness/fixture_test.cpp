@@ -79,7 +79,7 @@ TEST_F(fixture_test, a_failing_check_ends_the_run_with_its_place_and_a_report) {
     ASSERT_EQ(r.checks.size(), 2u) << r;
     EXPECT_TRUE(r.checks[0].passed);
     ASSERT_EQ(r.failed_checks().size(), 1u);
-    const harness::firmware_check failed = r.failed_checks()[0];
+    const harness::firmware_check_record failed = r.failed_checks()[0];
     EXPECT_EQ(failed.name, "tick_read16(stopwatch_limit) == 1000");
     EXPECT_EQ(failed.line, r.checks[0].line + 1);
     EXPECT_FALSE(r.logged("never reached"));

@@ -1,13 +1,12 @@
 #include "sim/vcd_writer.h"
+#include "tests/support/temp_files.h"
 #include "tests/waves/vcd_reader.h"
 
 #include <gtest/gtest.h>
 
 #include <cstdio>
 #include <filesystem>
-#include <fstream>
 #include <set>
-#include <sstream>
 #include <string>
 
 namespace {
@@ -17,17 +16,11 @@ using sim::vcd_writer;
 
 // A fresh file name in the test's temporary folder.
 std::string temp_path(const std::string& name) {
-    const fs::path dir =
-        fs::temp_directory_path() / ("tickbench_waves_" + std::to_string(::getpid()));
-    fs::create_directories(dir);
-    return (dir / name).string();
+    return tickbench::test_support::temp_path("tickbench_waves", name);
 }
 
 std::string slurp(const std::string& path) {
-    std::ifstream f(path, std::ios::binary);
-    std::ostringstream s;
-    s << f.rdbuf();
-    return s.str();
+    return tickbench::test_support::read_whole_file(path);
 }
 
 sim::vcd_options fixed(sim::time_ps unit = 1) {
@@ -180,6 +173,26 @@ TEST(vcd_writer_test, coarse_unit_rounds_to_nearest_and_counts) {
         {10'000, '1'}, {20'000, '0'}, {20'000, '1'}, {70'000, '0'}};
     EXPECT_EQ(v.of("t.a"), expected);
     EXPECT_NE(slurp(path).find("$comment"), std::string::npos);  // says that rounding happens
+}
+
+TEST(vcd_writer_test, no_time_after_the_runs_end_even_with_a_coarse_unit) {
+    const std::string path = temp_path("ended.vcd");
+    sim::vcd_options o = fixed(10'000);  // 10 ns
+    o.end_ps = 25'000;                   // the run ends half-way through a unit
+    vcd_writer w(path, o);
+    w.declare(0, {"t", "a", false});
+    w.begin();
+    w.change(0, true, 14'000);   // 1.4 units: #1
+    w.change(0, false, 25'000);  // 2.5 units would go up to #3, after the end: #2
+    EXPECT_THROW(w.change(0, true, 25'001), std::logic_error);  // after the end
+    EXPECT_EQ(w.rounded_changes(), 2u);
+    w.end(25'000);
+    const auto v = tickbench::waves_test::read_vcd(path);
+    const std::vector<std::pair<sim::time_ps, char>> expected = {{10'000, '1'}, {20'000, '0'}};
+    EXPECT_EQ(v.of("t.a"), expected);
+    // The final time line is the last unit at or before the end, not the nearest one.
+    ASSERT_FALSE(v.times.empty());
+    EXPECT_EQ(v.times.back(), 20'000u);
 }
 
 TEST(vcd_writer_test, unopenable_path_raises_output_error_naming_file_and_reason) {

@@ -39,7 +39,10 @@ public:
         const bool was = level_;
         level_ = level;
         note_change(at);
-        if (!in_window(at)) return;
+        if (!in_window(at)) {
+            if (at > until_) close_window(until_);
+            return;
+        }
         if (was) high_ += at - segment_start_;
         segment_start_ = at;
         if (!matches(spec_.edge, level)) return;
@@ -50,12 +53,36 @@ public:
     }
 
     void finish(time_ps end) override {
+        close_window(std::min(end, until_));
         if (count_ == 0 && !failed_)
             fail_no_data(end, std::string("complete period of ") + names_[0]);
-        conclude(end, "periods");
+        conclude_open(end, "periods", "period");
     }
 
 private:
+    // The window closed at `stop`: a period still open then that is already longer than allowed
+    // (it can only get longer) fails, as a pulse or an unanswered event does. A duty cycle has no
+    // bound on the period, so it judges complete periods only.
+    void close_window(time_ps stop) {
+        if (closed_) return;
+        closed_ = true;
+        if (!has_ref_ || stop <= ref_at_ || spec_.kind == check_kind::duty_cycle) return;
+        const time_ps open = stop - ref_at_;
+        const verdict v =
+            spec_.kind == check_kind::frequency
+                ? (judge_frequency(open) == verdict::below ? verdict::below : verdict::ok)
+                : (judge(open, 1, 1) == verdict::above ? verdict::above : verdict::ok);
+        if (v == verdict::ok) return;
+        open_failed_ = true;
+        fail(stop, [&] {
+            return std::string("no ") + to_string(spec_.edge) + " edge of " + names_[0] +
+                   " since " + format_time(ref_at_) + ": the period still open at " +
+                   format_time(stop) + " is already " + format_time(open) + ", so its " +
+                   (spec_.kind == check_kind::frequency ? "frequency " : "length ") +
+                   failure_phrase(v);
+        });
+    }
+
     void measure(time_ps period, time_ps high, time_ps at) {
         switch (spec_.kind) {
             case check_kind::period: {
@@ -105,6 +132,7 @@ private:
     }
 
     bool level_ = false;
+    bool closed_ = false;
     bool has_ref_ = false;
     time_ps ref_at_ = 0;
     time_ps segment_start_ = 0;
@@ -122,6 +150,7 @@ public:
     void on_change(unsigned, bool level, time_ps at) override {
         note_change(at);
         if (!in_window(at)) {
+            if (at > until_) close_window(until_);
             open_ = false;
             return;
         }
@@ -144,25 +173,29 @@ public:
     }
 
     void finish(time_ps end) override {
-        // A pulse still open at the end that is already too long fails too.
-        if (open_) {
-            const time_ps stop = std::min(end, until_);
-            const time_ps width = stop - open_at_;
-            if (judge(width, 1, 1) == verdict::above) {
-                fail(stop, [&] {
-                    return level_word() + " pulse from " + format_time(open_at_) +
-                           " still open after " + format_time(width) + ", " +
-                           failure_phrase(verdict::above);
-                });
-            }
-        }
+        close_window(std::min(end, until_));
         if (count_ == 0 && !failed_)
             fail_no_data(end, "complete " + level_word() + " pulse of " + names_[0]);
-        conclude(end, "pulses");
+        conclude_open(end, "pulses", "pulse");
     }
 
 private:
     std::string level_word() const { return spec_.high_pulses ? "high" : "low"; }
+    // The window closed at `stop` (at `until`, or the run's end): a pulse still open then that is
+    // already too long fails, whether it ends after `until` or never.
+    void close_window(time_ps stop) {
+        if (closed_) return;
+        closed_ = true;
+        if (!open_ || stop < open_at_) return;
+        const time_ps width = stop - open_at_;
+        if (judge(width, 1, 1) != verdict::above) return;
+        open_failed_ = true;
+        fail(stop, [&] {
+            return level_word() + " pulse from " + format_time(open_at_) + " still open after " +
+                   format_time(width) + ", " + failure_phrase(verdict::above);
+        });
+    }
+    bool closed_ = false;
     bool open_ = false;
     time_ps open_at_ = 0;
 };

@@ -213,6 +213,14 @@ void check_state::conclude(time_ps end, const char* noun_plural) {
               expected_text_;
 }
 
+void check_state::conclude_open(time_ps end, const char* noun_plural, const char* noun) {
+    if (open_failed_) --failures_;
+    conclude(end, noun_plural);
+    if (open_failed_ && failures_ > 0)
+        detail_ += std::string("; the last ") + noun +
+                   ", still open when the window closed, was already too long";
+}
+
 std::size_t check_state::footprint_bytes() const {
     std::size_t n = object_bytes() + fail_sentence_.capacity() + detail_.capacity() +
                     expected_text_.capacity() + tolerance_text_.capacity() +

@@ -10,6 +10,10 @@
 //     after every change of that instant, so the order in which a model reports simultaneous
 //     changes (a fall of one output and a rise of the other at one time) cannot fake an overlap or
 //     a full-period phase. A rise and fall of one signal within one instant is invisible to them.
+// Every kind measures inside one window, [from + settle, until] with both ends included: a
+// measurement counts when all its edges lie inside, and the kinds whose open measurement can only
+// grow (period, frequency, pulse width, latency) judge it when the window closes and fail it if it
+// is already too long (docs/scenario.md, "Which periods and pulses a check counts").
 // Internal to sim/checks.
 
 #include "sim/checks/check_result.h"
@@ -95,6 +99,10 @@ protected:
     void fail_no_data(time_ps end, const std::string& what);
     // Sets the pass/fail detail at the end, from the measurements.
     void conclude(time_ps end, const char* noun_plural);
+    // conclude() for the kinds that judge a measurement still open when the window closed (set
+    // open_failed_ when it failed): that one is not among the `noun_plural` counted, and the
+    // detail names it when an earlier failure holds the sentence.
+    void conclude_open(time_ps end, const char* noun_plural, const char* noun);
 
     check_spec spec_;
     std::vector<std::string> names_;
@@ -109,6 +117,7 @@ protected:
     u128 sum_ = 0;
 
     std::uint64_t failures_ = 0;
+    bool open_failed_ = false;  // a measurement still open when the window closed failed
     bool failed_ = false;
     time_ps fail_at_ = 0;
     std::string fail_sentence_;

@@ -2,7 +2,10 @@
  * timer (models/layouts/timer16_quad.toml) with a reload interrupt. Parameters:
  *   base    address of the timer's window (default 0x50000400)
  *   reloads how many reload interrupts to wait for before the firmware's own check (default 20)
- *   ending  "return" (default), "crash" (a store through a null pointer) or "fail-check"
+ *   ending  "return" (default), "crash" (a store through a null pointer), "fail-check", "hang"
+ *           (a loop that never calls the simulator), or "run-on" (a control loop that never
+ *           sleeps or returns: 1 ms of work, then a write of the same compare value and a log
+ *           line, again and again)
  * The timer clock is 48 MHz: 1920 ticks are 40 us; channel 1 is active for 480 ticks (25 %),
  * channel 2 for 960 (50 %).
  */
@@ -48,6 +51,16 @@ void tick_firmware_main(void) {
     while (reloads < (uint32_t)wanted) tick_wait_for_interrupt();
     tick_log("%u reloads seen", (unsigned)reloads);
     if (strcmp(ending, "crash") == 0) *(volatile int*)0 = 1;
+    if (strcmp(ending, "hang") == 0)
+        for (;;) {
+        }
     TICK_ASSERT(strcmp(ending, "fail-check") != 0);
     TICK_ASSERT(reloads >= (uint32_t)wanted);
+    if (strcmp(ending, "run-on") == 0) {
+        for (unsigned round = 1;; ++round) {
+            tick_cycles(48000); /* 1 ms at 48 MHz */
+            tick_write16(base + Q16_MATCH(0), 480);
+            tick_log("round %u", round);
+        }
+    }
 }
