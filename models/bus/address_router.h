@@ -37,8 +37,11 @@ class address_router : public sc_core::sc_module {
 public:
     // Facing the initiator (a CPU or the firmware runner).
     tlm_utils::simple_target_socket<address_router> target_socket;
-    // Bind range i's target as the i-th binding of this socket.
-    tlm_utils::multi_passthrough_initiator_socket<address_router> initiator_socket;
+    // Bind range i's target as the i-th binding of this socket. A router with no ranges (a part
+    // without peripherals) leaves it unbound.
+    tlm_utils::multi_passthrough_initiator_socket<address_router, 32, tlm::tlm_base_protocol_types,
+                                                  0, sc_core::SC_ZERO_OR_MORE_BOUND>
+        initiator_socket;
 
     // Maps `ranges`; throws std::invalid_argument naming both ranges if two overlap, or naming one
     // of size 0 or one that runs past the 64-bit address space.

@@ -142,3 +142,26 @@ TEST_F(fixture_test, a_crash_is_an_outcome_not_a_dead_test) {
 }
 
 }  // namespace
+
+namespace {
+
+// A part with a processor and no peripheral at all runs: docs/scenario.md makes [timers] optional.
+class no_timer_test : public harness::firmware_fixture {
+protected:
+    void SetUp() override { add_pll_clock("sys", 12'000'000, 8); }
+};
+
+TEST_F(no_timer_test, firmware_runs_on_a_part_without_timers) {
+    const harness::firmware_run& r = run_firmware(
+        [] {
+            tick_cycles(96);
+            tick_log("alone at %llu ps", static_cast<unsigned long long>(tick_now_ps()));
+        },
+        harness::us(10));
+    EXPECT_TRUE(r.passed()) << r;
+    EXPECT_TRUE(r.firmware_returned);
+    // 96 cycles of the 96 MHz clock: 1 us.
+    EXPECT_TRUE(r.logged("alone at 1000000 ps")) << r;
+}
+
+}  // namespace
