@@ -71,7 +71,8 @@ TYPED_TEST(timing_rules_test, write_effects_show_at_the_next_clock_edge) {
     r.set(timer_field::rearm, 1, 9 * us + 100'000);
     r.timer.advance_to(12 * us);
 
-    EXPECT_EQ(r.log.pin_edges(models::main_pin(0), true), (std::vector<sim::time_ps>{2 * us, 10 * us}));
+    EXPECT_EQ(r.log.pin_edges(models::main_pin(0), true),
+              (std::vector<sim::time_ps>{2 * us, 10 * us}));
     EXPECT_EQ(r.log.pin_edges(models::main_pin(0), false), (std::vector<sim::time_ps>{8 * us}));
     EXPECT_EQ(r.log.flag_sets(models::flag_reload), (std::vector<sim::time_ps>{4 * us}));
     EXPECT_EQ(r.log.flag_sets(models::flag_fault), (std::vector<sim::time_ps>{8 * us}));
@@ -146,9 +147,10 @@ TYPED_TEST(timing_rules_test, without_a_scale_field_the_scale_stays_one) {
 
 TEST(dead_time_warning_test, a_clipped_dead_time_is_logged_with_the_simulated_time) {
     std::ostringstream out;
-    auto logger =
-        std::make_shared<spdlog::logger>("timer", std::make_shared<spdlog::sinks::ostream_sink_st>(out));
+    auto logger = std::make_shared<spdlog::logger>(
+        "timer", std::make_shared<spdlog::sinks::ostream_sink_st>(out));
     logger->set_pattern("%l %v");
+    const auto previous = spdlog::get("timer");
     spdlog::drop("timer");
     spdlog::register_logger(logger);
     models::timer_config cfg = complementary();
@@ -163,6 +165,7 @@ TEST(dead_time_warning_test, a_clipped_dead_time_is_logged_with_the_simulated_ti
               "warning motor: dead time 5000 written at 7000250 ps is above the instance's maximum "
               "1023; clipped to 1023\n");
     spdlog::drop("timer");
+    if (previous) spdlog::register_logger(previous);
 }
 
 }  // namespace
