@@ -24,8 +24,7 @@ std::optional<std::string> env(const char* name) {
 // A whole decimal number, or an error naming the variable and what it accepts.
 std::uint64_t whole_number(const char* name, const std::string& text, const char* accepted) {
     std::size_t digits = 0;
-    while (digits < text.size() && std::isdigit(static_cast<unsigned char>(text[digits])))
-        ++digits;
+    while (digits < text.size() && std::isdigit(static_cast<unsigned char>(text[digits]))) ++digits;
     if (digits == 0 || digits != text.size() || digits > 19)
         throw std::invalid_argument(std::string(name) + "=" + text + ": not a whole number; " +
                                     accepted);
@@ -36,8 +35,8 @@ std::uint64_t whole_number(const char* name, const std::string& text, const char
 std::string shell_quoted(const std::string& s) {
     bool plain = !s.empty();
     for (char c : s)
-        if (!std::isalnum(static_cast<unsigned char>(c)) && std::string("/._-+=:,").find(c) ==
-                                                                 std::string::npos)
+        if (!std::isalnum(static_cast<unsigned char>(c)) &&
+            std::string("/._-+=:,").find(c) == std::string::npos)
             plain = false;
     if (plain) return s;
     std::string out = "'";
@@ -119,8 +118,7 @@ std::uint64_t rotating_first_seed(const std::string& text) {
     return 1'000'000 + (h % 999'000) * 1000;
 }
 
-std::vector<std::uint64_t> shard_seeds(const seed_window& w, unsigned shard,
-                                       unsigned shard_count) {
+std::vector<std::uint64_t> shard_seeds(const seed_window& w, unsigned shard, unsigned shard_count) {
     std::vector<std::uint64_t> seeds;
     for (std::uint64_t i = shard; i < w.count; i += shard_count) seeds.push_back(w.first + i);
     return seeds;

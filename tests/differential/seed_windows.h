@@ -1,7 +1,7 @@
 #pragma once
 // Which seeds the differential test runs. A fixed window, the same on every run, keeps a known set
-// of programs passing; a rotating window, chosen by the commit checked out, lets every change of the
-// code explore programs no run has tried, while a rerun of the same commit tries the same ones.
+// of programs passing; a rotating window, chosen by the commit checked out, lets every change of
+// the code explore programs no run has tried, while a rerun of the same commit tries the same ones.
 // Both come from the environment (DEVELOPERS.md, "Tests"); a failure prints the command line that
 // reruns its one program from the seed alone.
 
@@ -35,8 +35,8 @@ std::uint64_t rotating_first_seed(const std::string& text);
 // The seeds shard `shard` of `shard_count` runs: every shard_count-th seed of the window.
 std::vector<std::uint64_t> shard_seeds(const seed_window& w, unsigned shard, unsigned shard_count);
 // The shell command that reruns program `seed` alone, in shard 0 of the fixed window of test
-// `fixed_shard_test` (its name up to the shard number, e.g. "shards/fast_vs_reference.fixed_seeds"),
-// with the test binary `program`.
+// `fixed_shard_test` (its name up to the shard number, e.g.
+// "shards/fast_vs_reference.fixed_seeds"), with the test binary `program`.
 std::string rerun_command(std::uint64_t seed, const std::string& program,
                           const std::string& fixed_shard_test);
 // "first..last (origin)", for the log.

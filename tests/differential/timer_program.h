@@ -39,7 +39,7 @@ struct timer_program {
 };
 
 // The program of a seed: a few hundred to a few thousand timer clock ticks, or for a long program
-// ten to forty thousand.
+// up to forty thousand.
 timer_program generate_program(std::uint64_t seed);
 // Human-readable listing: configuration, clock and one line per operation.
 std::string describe(const timer_program& p);

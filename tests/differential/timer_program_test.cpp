@@ -31,7 +31,7 @@ struct program_trace {
         std::uint32_t prescaler;       // the prescaler register then
     };
     std::vector<wrap> wraps;
-    std::uint64_t ticks = 0;  // ticks of the whole run
+    std::uint64_t ticks = 0;   // ticks of the whole run
     sim::clock_domain domain;  // the timer clock with every change of the program
 };
 
@@ -163,7 +163,8 @@ TEST(timer_program_test, writes_out_of_range_values_of_every_kind) {
     const auto share = [&](write_range r) { return by_kind[static_cast<std::size_t>(r)]; };
     EXPECT_GE(programs_with_any * 100, programs * 80) << programs_with_any << " of " << programs;
     // Per thousand writes.
-    EXPECT_GE(share(write_range::reserved_value) * 1000, writes * 10) << share(write_range::reserved_value);
+    EXPECT_GE(share(write_range::reserved_value) * 1000, writes * 10)
+        << share(write_range::reserved_value);
     EXPECT_GE(share(write_range::missing_channel) * 1000, writes * 6)
         << share(write_range::missing_channel);
     EXPECT_GE(share(write_range::too_wide) * 1000, writes * 15) << share(write_range::too_wide);
