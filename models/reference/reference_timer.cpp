@@ -371,6 +371,8 @@ void reference_timer::activate_fault(time_ps at) {
 
 void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) {
     advance_to(t);
+    // A per-channel field of a channel the instance lacks: ignored.
+    if (is_channel_field(f) && channel >= cfg_.channels) return;
     const bool bit = (value & 1u) != 0;
     switch (f) {
         case timer_field::enable:
@@ -484,6 +486,8 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
 
 std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) {
     advance_to(t);
+    // A per-channel field of a channel the instance lacks reads 0.
+    if (is_channel_field(f) && channel >= cfg_.channels) return 0;
     switch (f) {
         case timer_field::enable:
             return enable_;

@@ -45,7 +45,8 @@ std::optional<disagreement> differ(const timer_program& p, const model_factory& 
 
 // A smaller program on which the models still disagree (delta debugging: drop chunks of operations,
 // then single ones, and cut the run short, while the disagreement persists). `budget` bounds the
-// number of program runs.
+// number of program runs; a candidate spanning more than four times the ticks of `p` is passed
+// over.
 timer_program shrink(const timer_program& p, const model_factory& expected,
                      const model_factory& actual, std::size_t budget = 2000);
 

@@ -150,6 +150,7 @@ TEST(dead_time_warning_test, a_clipped_dead_time_is_logged_with_the_simulated_ti
     auto logger = std::make_shared<spdlog::logger>(
         "timer", std::make_shared<spdlog::sinks::ostream_sink_st>(out));
     logger->set_pattern("%l %v");
+    const auto previous = spdlog::get("timer");
     spdlog::drop("timer");
     spdlog::register_logger(logger);
     models::timer_config cfg = complementary();
@@ -164,6 +165,7 @@ TEST(dead_time_warning_test, a_clipped_dead_time_is_logged_with_the_simulated_ti
               "warning motor: dead time 5000 written at 7000250 ps is above the instance's maximum "
               "1023; clipped to 1023\n");
     spdlog::drop("timer");
+    if (previous) spdlog::register_logger(previous);
 }
 
 }  // namespace

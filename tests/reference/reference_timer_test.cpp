@@ -459,5 +459,31 @@ TEST(reference_timer_test, preloaded_compare_shows_in_the_next_period_only) {
               (std::vector<std::uint64_t>{5, 18, 28}));
 }
 
+// docs/timer-model.md, "Out-of-range writes": per-channel fields of a channel the instance lacks
+// are ignored and read 0.
+TEST(reference_timer_test, fields_of_a_channel_the_instance_lacks_are_ignored_and_read_zero) {
+    timer_config cfg = plain_config();
+    cfg.channels = 2;
+    reference_fixture fx(cfg);
+    start_pwm(fx, count_mode::up, 0, 9, 5);
+    for (unsigned ch : {2u, 5u, 6u, 255u}) {
+        fx.write(2, timer_field::compare, 3, ch);
+        fx.write(2, timer_field::action, static_cast<std::uint32_t>(output_action::force_high), ch);
+        fx.write(2, timer_field::main_enable, 1, ch);
+        EXPECT_EQ(fx.read(3, timer_field::compare, ch), 0u) << "channel " << ch;
+        EXPECT_EQ(fx.read(3, timer_field::action, ch), 0u) << "channel " << ch;
+        EXPECT_EQ(fx.read(3, timer_field::main_enable, ch), 0u) << "channel " << ch;
+    }
+    fx.run_to(30);
+    // Channel 0 runs on as written (it falls at compare 5 of each 10-tick period); no other pin
+    // moves.
+    EXPECT_EQ(ticks_of(fx, fx.log.pin_edges(main_pin(0), false)),
+              (std::vector<std::uint64_t>{5, 15, 25}));
+    for (const auto& e : fx.log.events) {
+        if (e.kind != timer_event_kind::pin) continue;
+        EXPECT_EQ(e.id, main_pin(0)) << e;
+    }
+}
+
 }  // namespace
 }  // namespace tickbench::test_reference
