@@ -216,29 +216,27 @@ void timer_core::evaluate_levels() {
     // Only the PWM actions follow the counter; forced levels are set when the action is written,
     // the others hold.
     const bool center_down = mode_ == count_mode::center && down_;
+    std::uint32_t refs = refs_ & ~pwm_channels_;
     for (std::uint32_t m = pwm_channels_; m != 0; m &= m - 1) {
-        channel& c = ch_[static_cast<unsigned>(__builtin_ctz(m))];
-        const bool below = center_down ? counter_ <= c.compare : counter_ < c.compare;
-        c.ref = below != (c.action == output_action::pwm_at_or_above);
+        const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
+        const std::uint32_t compare = ch_[i].compare;
+        const bool below = center_down ? counter_ <= compare : counter_ < compare;
+        refs |= static_cast<std::uint32_t>(below) << i;
     }
-}
-
-std::uint32_t timer_core::ref_mask() const {
-    std::uint32_t m = 0;
-    for (unsigned i = 0; i < cfg_.channels; ++i) m |= static_cast<std::uint32_t>(ch_[i].ref) << i;
-    return m;
+    refs_ = refs ^ pwm_above_channels_;
 }
 
 void timer_core::update_pins(std::uint32_t channels, std::uint64_t first_tick_after, time_ps at) {
     for (std::uint32_t bits = channels; bits != 0; bits &= bits - 1) {
         const unsigned i = static_cast<unsigned>(__builtin_ctz(bits));
         const channel& c = ch_[i];
+        const bool ref = (refs_ >> i) & 1u;
         pin_state& m = pins_[main_pin(i)];
         pin_state& k = pins_[comp_pin(i)];
         if (!cfg_.complementary) {
-            m.active = c.ref;
+            m.active = ref;
         } else {
-            for (auto [ps, want] : {std::pair<pin_state*, bool>{&m, c.ref}, {&k, !c.ref}}) {
+            for (auto [ps, want] : {std::pair<pin_state*, bool>{&m, ref}, {&k, !ref}}) {
                 if (!want) {
                     ps->active = false;
                     ps->rise_at = never;
@@ -290,12 +288,12 @@ void timer_core::set_action(unsigned i, std::uint32_t code) {
     c.action = static_cast<output_action>(code);
     const bool pwm =
         c.action == output_action::pwm_below || c.action == output_action::pwm_at_or_above;
-    if (pwm)
-        pwm_channels_ |= 1u << i;
-    else
-        pwm_channels_ &= ~(1u << i);
-    if (c.action == output_action::force_low) c.ref = false;
-    if (c.action == output_action::force_high) c.ref = true;
+    const std::uint32_t bit = 1u << i;
+    pwm_channels_ = pwm ? pwm_channels_ | bit : pwm_channels_ & ~bit;
+    pwm_above_channels_ = c.action == output_action::pwm_at_or_above ? pwm_above_channels_ | bit
+                                                                     : pwm_above_channels_ & ~bit;
+    if (c.action == output_action::force_low) refs_ &= ~bit;
+    if (c.action == output_action::force_high) refs_ |= bit;
 }
 
 void timer_core::update_irq(time_ps at) {
@@ -328,7 +326,7 @@ void timer_core::activate_fault(time_ps at) {
 void timer_core::process_tick(std::uint64_t n, time_ps at) {
     ++ticks_processed_;
     invalidate();
-    const std::uint32_t refs_before = ref_mask();
+    const std::uint32_t refs_before = refs_;
     const bool fault_before = fault_active_;
     // What register accesses since the last tick changed shows from this tick on.
     const bool after_access = effects_pending_;
@@ -375,11 +373,11 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
                 continue;
             set_flags(flag_channel(i), at);
             if (c.action == output_action::set_on_match)
-                c.ref = true;
+                refs_ |= 1u << i;
             else if (c.action == output_action::clear_on_match)
-                c.ref = false;
+                refs_ &= ~(1u << i);
             else if (c.action == output_action::toggle_on_match)
-                c.ref = !c.ref;
+                refs_ ^= 1u << i;
             if (trigger_select_ == trigger_on_match(i)) trigger(at);
         }
     }
@@ -389,7 +387,7 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
     // access or a change of the fault state.
     const std::uint32_t channels = after_access || fault_active_ != fault_before
                                        ? all_channels_
-                                       : (ref_mask() ^ refs_before) | rise_channels_;
+                                       : (refs_ ^ refs_before) | rise_channels_;
     if (channels != 0) update_pins(channels, next_tick_, at);
     update_irq(at);
 }

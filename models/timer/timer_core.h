@@ -60,7 +60,6 @@ private:
         bool preload = false;
         bool waiting = false;  // written with preload on, not loaded yet
         output_action action = output_action::hold;
-        bool ref = false;
         bool main_enable = false, main_active_low = false;
         bool comp_enable = false, comp_active_low = false;
         bool main_safe = false, comp_safe = false;
@@ -100,8 +99,6 @@ private:
     void evaluate_levels();
     // A new action for channel i (a code the model defines).
     void set_action(unsigned i, std::uint32_t code);
-    // Reference levels of all channels as a bit mask (bit c: channel c).
-    std::uint32_t ref_mask() const;
     // Pin wants -> dead time -> pin levels of the channels in the mask `channels`; dead time counts
     // from `first_tick_after`, the first tick not yet processed.
     void update_pins(std::uint32_t channels, std::uint64_t first_tick_after, time_ps at);
@@ -152,7 +149,9 @@ private:
     std::uint32_t rise_channels_ = 0;  // bit c: a pin of channel c has a dead-time rise scheduled
     std::uint32_t all_channels_ = 0;   // bit c for every channel of the instance
     std::uint32_t pwm_channels_ = 0;   // bit c: channel c's action is a PWM action
-    unsigned pending_compares_ = 0;    // compare writes waiting out the compare latency
+    std::uint32_t pwm_above_channels_ = 0;  // bit c: ... and it is pwm_at_or_above
+    std::uint32_t refs_ = 0;                // reference levels: bit c is channel c's
+    unsigned pending_compares_ = 0;         // compare writes waiting out the compare latency
     mutable bool cache_valid_ = false;
     mutable std::uint64_t cached_tick_ = never;
     mutable std::optional<time_ps> cached_time_;

@@ -184,10 +184,11 @@ int run(int argc, char** argv) {
         return 0;
     }
     std::cout << "tickbench-bench: median of " << (quick ? 1 : full_repetitions)
-              << (quick ? " quick repetition" : " repetitions") << " per metric, "
-              << reporter.cpus() << " CPUs at " << std::fixed << std::setprecision(0)
-              << reporter.mhz() << " MHz\n"
-              << std::defaultfloat << std::setprecision(4);
+              << (quick ? " quick repetition" : " repetitions") << " per metric";
+    if (reporter.cpus() > 0)  // known once a timed metric has run
+        std::cout << ", " << reporter.cpus() << " CPUs at " << std::fixed << std::setprecision(0)
+                  << reporter.mhz() << " MHz";
+    std::cout << "\n" << std::defaultfloat << std::setprecision(4);
 #ifndef NDEBUG
     std::cout << "note: built without NDEBUG (assertions on); figures are not representative\n";
 #endif
