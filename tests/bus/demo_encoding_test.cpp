@@ -15,7 +15,6 @@
 
 #include <gtest/gtest.h>
 
-#include <regex>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -178,11 +177,22 @@ struct documented_action {
 std::vector<documented_action> documented_actions() {
     const std::string table =
         table_after(read_file(source_dir + "/docs/timer-model.md"), "Output actions (`action`");
+    // Rows look like "| `0x4` | `pwm_below` | ... |".
     std::vector<documented_action> out;
-    const std::regex row(R"(\| `0x([0-9a-f]+)` \| `([a-z_]+)` \|)");
-    for (std::sregex_iterator it(table.begin(), table.end(), row), end; it != end; ++it)
-        out.push_back(
-            {static_cast<std::uint32_t>(std::stoul((*it)[1].str(), nullptr, 16)), (*it)[2].str()});
+    std::istringstream rows(table);
+    for (std::string line; std::getline(rows, line);) {
+        const auto code_at = line.find("| `0x");
+        if (code_at != 0) continue;
+        const auto code_end = line.find('`', code_at + 3);
+        const auto name_at = line.find("| `", code_end);
+        const auto name_end = line.find('`', name_at + 3);
+        if (code_end == std::string::npos || name_at == std::string::npos ||
+            name_end == std::string::npos)
+            continue;
+        out.push_back({static_cast<std::uint32_t>(std::stoul(
+                           line.substr(code_at + 5, code_end - code_at - 5), nullptr, 16)),
+                       line.substr(name_at + 3, name_end - name_at - 3)});
+    }
     return out;
 }
 
