@@ -46,6 +46,18 @@ void operator delete(void* p) noexcept {
 void operator delete[](void* p) noexcept { ::operator delete(p); }
 void operator delete(void* p, std::size_t) noexcept { ::operator delete(p); }
 void operator delete[](void* p, std::size_t) noexcept { ::operator delete(p); }
+// The nothrow forms go to the same pair, so that memory from one form is never released through
+// another's allocator (the library's temporary buffers use them; the sanitizers catch a mix-up).
+void* operator new(std::size_t n, const std::nothrow_t&) noexcept {
+    void* p = std::malloc(n == 0 ? 1 : n);
+    if (p != nullptr) live_heap_bytes += static_cast<long long>(malloc_usable_size(p));
+    return p;
+}
+void* operator new[](std::size_t n, const std::nothrow_t& t) noexcept {
+    return ::operator new(n, t);
+}
+void operator delete(void* p, const std::nothrow_t&) noexcept { ::operator delete(p); }
+void operator delete[](void* p, const std::nothrow_t&) noexcept { ::operator delete(p); }
 #pragma GCC diagnostic pop
 
 namespace {
