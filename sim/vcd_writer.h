@@ -22,10 +22,13 @@
 // sigrok's VCD input, which turns the file into samples, keeps only the last value of the instant
 // (tried by hand with sigrok-cli 0.7.2), so a zero-width pulse is invisible there.
 //
-// Speed matters (a waveform must cost less than half the simulation it records): every per-signal
-// string is built once in begin(), changes are appended to one large buffer with hand-made integer
-// formatting, and full buffers go to the file in big std::fwrite calls made by a writer thread, so
-// the copy into the operating system overlaps the simulation (two buffers, swapped). When a buffer
+// Speed matters (a waveform should cost little beside the simulation it records): every
+// per-signal string is built once in begin(), changes are appended to one large buffer with
+// hand-made integer formatting (eight digits at once), and full buffers go to the file in big
+// std::fwrite calls. A writer thread can make those calls, overlapping the copy into the operating
+// system with the simulation (two buffers, swapped); it is off by default, because on the 2-core
+// development machine it made a run slower, not faster (vcd_overhead 2.15 with it, 1.65 without:
+// DEVELOPERS.md, "Benchmarks"). When a buffer
 // fills, only the complete time steps are handed over and the current one is kept, so the file on
 // disk always ends on a time-step boundary and a run that dies mid-way leaves a readable file up to
 // that point. A write failure on that thread surfaces as output_error from the next call that
@@ -66,8 +69,8 @@ struct vcd_options {
     // writing on a thread.
     std::size_t buffer_bytes = std::size_t{1} << 20;
     // Write full buffers from a thread of the writer's own, overlapping the copy into the operating
-    // system with the simulation; false writes from the calling thread.
-    bool writer_thread = true;
+    // system with the simulation; false (the default) writes from the calling thread.
+    bool writer_thread = false;
     // The run's end: no time after it is written. A change rounded past it (a coarse unit that
     // does not divide it) is placed at the last multiple of the unit at or before it.
     time_ps end_ps = max_time_ps;
@@ -129,7 +132,15 @@ private:
     };
 
     // Makes room for `n` more bytes in the buffer, writing out complete time steps if needed.
-    void reserve(std::size_t n);
+    void reserve(std::size_t n) {
+        if (used_ + n > capacity_) make_room(n);
+    }
+    [[gnu::noinline]] void make_room(std::size_t n);
+    // Throws the std::logic_error change() owes a change it cannot take.
+    [[noreturn, gnu::noinline, gnu::cold]] void refuse_change(signal_id id, time_ps at) const;
+    // `at` in timescale units, rounded to the nearest one (counted in rounded_), never past the
+    // end.
+    [[gnu::noinline]] std::uint64_t to_units(time_ps at);
     // Hands buffer bytes [0, n) to the writer thread (started on first use) and keeps the rest;
     // throws output_error if an earlier write failed.
     void write_out(std::size_t n);

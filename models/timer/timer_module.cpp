@@ -46,6 +46,7 @@ time_ps timer_module::now_ps() { return sc_core::sc_time_stamp().value(); }
 void timer_module::wake() {
     const time_ps now = now_ps();
     scheduled_ = sim::max_time_ps;
+    wake_now_ = now;
     in_wake_ = true;
     drive(now);
     core_.advance_to(now);
@@ -57,6 +58,7 @@ void timer_module::wake() {
 void timer_module::fault_changed() { set_fault_input(fault_in->read(), now_ps()); }
 
 void timer_module::drive(time_ps now) {
+    if (queue_.empty() && trigger_times_.empty()) return;
     while (!queue_.empty() && queue_.front().at <= now) {
         const queued q = queue_.front();
         queue_.pop_front();
@@ -99,7 +101,7 @@ void timer_module::on_pin(unsigned pin, bool level, time_ps at) {
     // Reported at the kernel's own time (the common case): drive the signal now; reported ahead
     // of it (an access from firmware running ahead): drive it when the kernel gets there.
     // Signals have one writer, the wake process: from anywhere else, queue.
-    if (in_wake_ && queue_.empty() && sc_core::sc_time_stamp().value() == at)
+    if (in_wake_ && queue_.empty() && wake_now_ == at)
         pins_[pin]->write(level);
     else
         queue_.push_back({at, static_cast<int>(pin), level});
@@ -110,7 +112,7 @@ void timer_module::on_flags_set(std::uint32_t bits, time_ps at) {
 void timer_module::on_irq(bool level, time_ps at) {
     for (timer_observer* o : observers_) o->on_irq(level, at);
     if (!irq_driven_) return;
-    if (in_wake_ && queue_.empty() && sc_core::sc_time_stamp().value() == at)
+    if (in_wake_ && queue_.empty() && wake_now_ == at)
         irq_.write(level);
     else
         queue_.push_back({at, -1, level});

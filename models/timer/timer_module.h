@@ -108,6 +108,7 @@ private:
     std::uint64_t triggers_ = 0;
     time_ps scheduled_ = sim::max_time_ps;
     bool in_wake_ = false;  // inside wake(), the signals' only writer
+    time_ps wake_now_ = 0;  // the kernel's time during wake()
 };
 
 }  // namespace models
