@@ -33,10 +33,35 @@
 #define DEMO_TRIGGER_ON_MATCH(c) (1u + (c))
 #define DEMO_TRIGGER_ON_RELOAD 7u
 
-/* Flag and interrupt-enable bits of both layouts: channel c at bit c, reload 8, fault 9. */
+/* Flag and interrupt-enable bits: channel c's match or capture at bit c, reload 8, fault 9,
+ * trigger 10. Over-capture flags: timer16_quad's 16-bit registers hold channel c's at bit 12 + c,
+ * timer32_dual's at bit 16 + c. */
 #define DEMO_FLAG_CHANNEL(c) (1u << (c))
 #define DEMO_FLAG_RELOAD 0x100u
 #define DEMO_FLAG_FAULT 0x200u
+#define DEMO_FLAG_TRIGGER 0x400u
+#define Q16_FLAG_OVERCAPTURE(c) (1u << (12u + (c)))
+#define D32_FLAG_OVERCAPTURE(c) (1u << (16u + (c)))
+
+/* The input side (docs/timer-model.md, "Inputs"). */
+#define DEMO_ROLE_COMPARE 0u
+#define DEMO_ROLE_CAPTURE_OWN 1u
+#define DEMO_ROLE_CAPTURE_NEIGHBOUR 2u
+#define DEMO_EDGE_RISING 0u
+#define DEMO_EDGE_FALLING 1u
+#define DEMO_EDGE_BOTH 2u
+#define DEMO_COUNT_TIMER_CLOCK 0u
+#define DEMO_COUNT_TRIGGER_EDGES 1u
+#define DEMO_COUNT_ENCODER_X2 2u
+#define DEMO_COUNT_ENCODER_X4 3u
+#define DEMO_TRIGGER_ACTION_NONE 0u
+#define DEMO_TRIGGER_ACTION_RESTART 1u
+#define DEMO_TRIGGER_ACTION_GATE 2u
+#define DEMO_TRIGGER_ACTION_START 3u
+#define DEMO_TRIGGER_FROM_INPUT0 0u
+#define DEMO_TRIGGER_FROM_INPUT1 1u
+#define DEMO_TRIGGER_FROM_PIN 2u
+#define DEMO_TRIGGER_FROM_CHAIN 3u
 
 /* ---- timer16_quad: 16-bit counter, 4 channels, complementary outputs, dead time, fault ---- */
 #define Q16_COUNT 0x00u /* counter */
@@ -54,6 +79,9 @@
 #define Q16_NOTIFY 0x1cu       /* interrupt enables */
 #define Q16_STATUS 0x1eu       /* flags, read-only */
 #define Q16_STATUS_CLEAR 0x20u /* flags, write 1 to clear */
+#define Q16_SENSE 0x22u        /* channel roles and captured edges */
+#define Q16_SENSE_TUNE 0x24u   /* input filters and capture prescalers */
+#define Q16_LINK 0x26u         /* counting source and trigger */
 
 /* run */
 #define Q16_RUN_ENABLE 0x0001u
@@ -86,6 +114,20 @@
 #define Q16_GUARD_LATENCY(ticks) ((unsigned)(ticks) << 8)
 #define Q16_GUARD_FAULT_ENABLE 0x8000u
 
+/* sense: a nibble per channel, channel c at bits 4c..4c+3 */
+#define Q16_SENSE_ROLE(c, role) ((unsigned)(role) << (4u * (c)))
+#define Q16_SENSE_EDGE(c, edge) ((unsigned)(edge) << (4u * (c) + 2u))
+/* sense_tune: a nibble per channel */
+#define Q16_TUNE_FILTER(c, index) ((unsigned)(index) << (4u * (c)))
+#define Q16_TUNE_PRESCALER(c, p) ((unsigned)(p) << (4u * (c) + 2u))
+/* link */
+#define Q16_LINK_COUNT(source) ((unsigned)(source))
+#define Q16_LINK_ACTION(action) ((unsigned)(action) << 2)
+#define Q16_LINK_TRIGGER_FROM(source) ((unsigned)(source) << 4)
+#define Q16_LINK_TRIGGER_FALLING 0x0040u
+#define Q16_LINK_TRIGGER_FILTER(index) ((unsigned)(index) << 8)
+#define Q16_LINK_FILTER_DIVIDER(d) ((unsigned)(d) << 12)
+
 /* ---- timer32_dual: 32-bit counter, 2 channels ---- */
 #define D32_COUNT 0x00u
 #define D32_LIMIT 0x04u
@@ -97,6 +139,7 @@
 #define D32_TAKE 0x20u    /* flags, cleared by the read that returns them */
 #define D32_PENDING 0x24u /* flags, read-only */
 #define D32_ALERTS 0x28u  /* interrupt enables */
+#define D32_INPUTS 0x2cu  /* the input side */
 
 /* setup */
 #define D32_SETUP_ENABLE 0x0001u
@@ -115,5 +158,17 @@
 #define D32_OUTPUT_MAIN_ACTIVE_LOW 0x20u
 #define D32_OUTPUT_COMPARE_PRELOAD 0x40u
 #define D32_OUTPUT_BYTE(c, byte) ((unsigned)(byte) << (8u * (c)))
+
+/* inputs: a byte per channel, then the counting source and the trigger */
+#define D32_INPUT_ROLE(c, role) ((unsigned)(role) << (8u * (c)))
+#define D32_INPUT_EDGE(c, edge) ((unsigned)(edge) << (8u * (c) + 2u))
+#define D32_INPUT_PRESCALER(c, p) ((unsigned)(p) << (8u * (c) + 4u))
+#define D32_INPUT_FILTER(c, index) ((unsigned)(index) << (8u * (c) + 6u))
+#define D32_INPUT_COUNT(source) ((unsigned)(source) << 16)
+#define D32_INPUT_ACTION(action) ((unsigned)(action) << 18)
+#define D32_INPUT_TRIGGER_FROM(source) ((unsigned)(source) << 20)
+#define D32_INPUT_TRIGGER_FALLING 0x400000u
+#define D32_INPUT_TRIGGER_FILTER(index) ((unsigned)(index) << 24)
+#define D32_INPUT_FILTER_DIVIDER(d) ((unsigned)(d) << 28)
 
 #endif

@@ -18,7 +18,7 @@ constexpr std::array<access_kind, 6> all_access_kinds = {
     access_kind::read_write,          access_kind::read_only,     access_kind::write_one_to_clear,
     access_kind::write_zero_to_clear, access_kind::clear_on_read, access_kind::write_only};
 
-constexpr timer_field last_field = timer_field::comp_safe_level;
+constexpr timer_field last_field = timer_field::input_filter;
 
 std::uint32_t low_mask(unsigned width) { return width >= 32 ? 0xffff'ffffu : (1u << width) - 1; }
 
@@ -1002,14 +1002,24 @@ unsigned value_width(const timer_config& instance, timer_field f) {
         case timer_field::slope:
         case timer_field::reload_policy:
         case timer_field::dead_time_scale:
+        case timer_field::filter_divider:
+        case timer_field::count_source:
+        case timer_field::trigger_action:
+        case timer_field::trigger_source:
+        case timer_field::channel_role:
+        case timer_field::capture_edge:
+        case timer_field::capture_prescaler:
             return 2;
+        case timer_field::trigger_filter:
+        case timer_field::input_filter:
+            return bits_for(static_cast<std::uint32_t>(instance.filter_lengths.size() - 1));
         case timer_field::action:
             return 4;
         case timer_field::trigger_select:
             return 3;
         case timer_field::flags:
         case timer_field::irq_enable:
-            return 10;
+            return 16 + instance.channels;
         default:
             return 1;
     }

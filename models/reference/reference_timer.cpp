@@ -566,4 +566,15 @@ void reference_timer::set_fault_input(bool level, time_ps t) {
     }
 }
 
+// The input side is being built (docs/timer-model.md, "Inputs").
+void reference_timer::set_input(unsigned, bool, time_ps) {
+    throw std::logic_error("reference_timer: inputs are not implemented yet");
+}
+void reference_timer::set_initial_input(unsigned, bool) {
+    throw std::logic_error("reference_timer: inputs are not implemented yet");
+}
+void reference_timer::chained_pulse(time_ps) {
+    throw std::logic_error("reference_timer: inputs are not implemented yet");
+}
+
 }  // namespace models::reference

@@ -31,6 +31,9 @@ public:
     std::uint32_t read(timer_field f, unsigned channel, time_ps t) override;
     void clear_flags(std::uint32_t mask, time_ps t) override;
     void set_fault_input(bool level, time_ps t) override;
+    void set_input(unsigned input, bool level, time_ps t) override;
+    void set_initial_input(unsigned input, bool level) override;
+    void chained_pulse(time_ps t) override;
     // The next timer clock tick (the reference has work at every tick), or false while the clock
     // stays stopped.
     bool next_event(time_ps& at) const override;

@@ -646,4 +646,15 @@ void timer_core::set_fault_input(bool level, time_ps t) {
         fault_at_ = next_tick_ + fault_latency_;
 }
 
+// The input side is being built (docs/timer-model.md, "Inputs").
+void timer_core::set_input(unsigned, bool, time_ps) {
+    throw std::logic_error("timer_core: inputs are not implemented yet");
+}
+void timer_core::set_initial_input(unsigned, bool) {
+    throw std::logic_error("timer_core: inputs are not implemented yet");
+}
+void timer_core::chained_pulse(time_ps) {
+    throw std::logic_error("timer_core: inputs are not implemented yet");
+}
+
 }  // namespace models

@@ -140,6 +140,17 @@ void timer_module::clear_flags(std::uint32_t mask, time_ps t) {
     core_.clear_flags(mask, t);
     reschedule();
 }
+void timer_module::set_input(unsigned input, bool level, time_ps t) {
+    core_.set_input(input, level, t);
+    reschedule();
+}
+void timer_module::set_initial_input(unsigned input, bool level) {
+    core_.set_initial_input(input, level);
+}
+void timer_module::chained_pulse(time_ps t) {
+    core_.chained_pulse(t);
+    reschedule();
+}
 void timer_module::set_fault_input(bool level, time_ps t) {
     core_.set_fault_input(level, t);
     reschedule();

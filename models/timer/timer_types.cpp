@@ -64,6 +64,26 @@ const char* to_string(timer_field f) {
             return "main_safe_level";
         case timer_field::comp_safe_level:
             return "comp_safe_level";
+        case timer_field::filter_divider:
+            return "filter_divider";
+        case timer_field::count_source:
+            return "count_source";
+        case timer_field::trigger_action:
+            return "trigger_action";
+        case timer_field::trigger_source:
+            return "trigger_source";
+        case timer_field::trigger_edge:
+            return "trigger_edge";
+        case timer_field::trigger_filter:
+            return "trigger_filter";
+        case timer_field::channel_role:
+            return "channel_role";
+        case timer_field::capture_edge:
+            return "capture_edge";
+        case timer_field::capture_prescaler:
+            return "capture_prescaler";
+        case timer_field::input_filter:
+            return "input_filter";
     }
     return "?";
 }
@@ -82,13 +102,36 @@ void timer_config::validate() const {
         bad("wrap skip width " + std::to_string(wrap_skip_bits) + " bits; accepted: 0 to 16");
     if (compare_latency > 2)
         bad("compare latency " + std::to_string(compare_latency) + " ticks; accepted: 0 to 2");
+    if (input_sync_ticks < 1 || input_sync_ticks > 3)
+        bad("input synchroniser of " + std::to_string(input_sync_ticks) +
+            " ticks; accepted: 1 to 3");
+    if (filter_lengths.empty() || filter_lengths.size() > 16)
+        bad(std::to_string(filter_lengths.size()) + " filter lengths; accepted: 1 to 16");
+    for (const unsigned n : filter_lengths)
+        if (n < 1 || n > 255)
+            bad("filter length " + std::to_string(n) + " samples; accepted: 1 to 255");
+    if (chain_latency > 3)
+        bad("chain latency " + std::to_string(chain_latency) + " ticks; accepted: 0 to 3");
 }
 
 bool is_defined_value(const timer_config& cfg, timer_field f, std::uint32_t value) {
     switch (f) {
         case timer_field::mode:
         case timer_field::slope:
+        case timer_field::channel_role:
+        case timer_field::capture_edge:
             return value <= 2;
+        case timer_field::filter_divider:
+        case timer_field::capture_prescaler:
+        case timer_field::count_source:
+        case timer_field::trigger_action:
+        case timer_field::trigger_source:
+            return value <= 3;
+        case timer_field::trigger_edge:
+            return value <= 1;
+        case timer_field::trigger_filter:
+        case timer_field::input_filter:
+            return value < cfg.filter_lengths.size();
         case timer_field::reload_policy:
             return value <= static_cast<std::uint32_t>(reload_policy::held);
         case timer_field::trigger_select:

@@ -11,6 +11,7 @@
 
 #include <cstdint>
 #include <string>
+#include <vector>
 
 namespace models {
 
@@ -42,6 +43,38 @@ enum class reload_policy : std::uint32_t {
     quiet_forced = 1,  // as `every`, but a forced reload sets no reload flag
     held = 2,          // wraps cause no reload event; a forced reload moves the counter only
 };
+// What a channel does: compare (and drive its output), or capture the counter on edges of its own
+// input or of its neighbour's (channel c ^ 1: 0 and 1, 2 and 3, 4 and 5 are neighbours).
+enum class channel_role : std::uint32_t { compare = 0, capture_own = 1, capture_neighbour = 2 };
+// Which edges of the filtered input a capture channel takes.
+enum class capture_edge : std::uint32_t { rising = 0, falling = 1, both = 2 };
+// What steps the counter: the timer clock, accepted edges of the trigger source, or a quadrature
+// encoder on the inputs of channels 0 (A) and 1 (B), counting edges of A only or of A and B.
+enum class count_source : std::uint32_t {
+    timer_clock = 0,
+    trigger_edges = 1,
+    encoder_x2 = 2,
+    encoder_x4 = 3,
+};
+// What an accepted trigger does: nothing, restart the counter (a forced reload), let the counter
+// count only while the trigger is active, or start the counter.
+enum class trigger_action : std::uint32_t { none = 0, restart = 1, gate = 2, start = 3 };
+// Where the trigger comes from: the filtered input of channel 0 or 1, the trigger input pin
+// (filtered), or another timer's trigger pulses (the chained input).
+enum class trigger_source : std::uint32_t {
+    channel_0_input = 0,
+    channel_1_input = 1,
+    trigger_pin = 2,
+    chained = 3,
+};
+
+// The inputs of a timer: each channel's input pin, the trigger input pin and the fault input.
+// Levels change by set_input(); the chained input carries pulses (chained_pulse()).
+inline constexpr unsigned input_of_channel(unsigned c) { return c; }
+inline constexpr unsigned trigger_pin_input = 6;
+inline constexpr unsigned fault_input = 7;
+inline constexpr unsigned input_count = 8;
+
 // Values of `trigger_select`: what sends a trigger pulse.
 inline constexpr std::uint32_t trigger_none = 0;
 // Channel c's match sends the trigger pulse.
@@ -70,26 +103,39 @@ enum class timer_field : std::uint32_t {
     flags,            // flag bits (flag_channel, flag_reload, flag_fault)
     irq_enable,       // same bits: which flags raise the interrupt request
     trigger_select,   // trigger_none, trigger_on_match(c) or trigger_on_reload
+    filter_divider,   // input sampling clock = timer clock / (1 << filter_divider), 0..3
+    count_source,     // count_source
+    trigger_action,   // trigger_action
+    trigger_source,   // trigger_source
+    trigger_edge,     // 0: the trigger is a rising edge (gate: high level); 1: falling (low)
+    trigger_filter,   // the trigger pin's filter: an index into the instance's filter_lengths
     // per channel
-    compare,          // compare value
-    compare_preload,  // 1: compare writes wait for the next reload event
-    action,           // output_action
-    main_enable,      // 1: the main output drives its level; 0: it sits inactive
-    main_active_low,  // 1: the main output's active level is low
-    comp_enable,      // complementary output enable
-    comp_active_low,  // complementary output polarity
-    main_safe_level,  // level of the main output while a fault holds
-    comp_safe_level,  // level of the complementary output while a fault holds
+    compare,            // compare value
+    compare_preload,    // 1: compare writes wait for the next reload event
+    action,             // output_action
+    main_enable,        // 1: the main output drives its level; 0: it sits inactive
+    main_active_low,    // 1: the main output's active level is low
+    comp_enable,        // complementary output enable
+    comp_active_low,    // complementary output polarity
+    main_safe_level,    // level of the main output while a fault holds
+    comp_safe_level,    // level of the complementary output while a fault holds
+    channel_role,       // channel_role
+    capture_edge,       // capture_edge
+    capture_prescaler,  // capture on every 1st, 2nd, 4th or 8th taken edge (0..3)
+    input_filter,       // this channel's input filter: an index into the instance's filter_lengths
 };
 // Readable name of a field ("period", "compare"...), for layouts and messages.
 const char* to_string(timer_field f);
 // Whether the field is indexed by channel.
 bool is_channel_field(timer_field f);
 
-// Flag bits: channel c's match at bit c, the reload event at bit 8, the fault at bit 9.
+// Flag bits: channel c's match or capture at bit c, the reload event at bit 8, the fault at bit 9,
+// an accepted trigger at bit 10, channel c's over-capture at bit 16 + c.
 inline constexpr std::uint32_t flag_channel(unsigned c) { return 1u << c; }
 inline constexpr std::uint32_t flag_reload = 1u << 8;
 inline constexpr std::uint32_t flag_fault = 1u << 9;
+inline constexpr std::uint32_t flag_trigger = 1u << 10;
+inline constexpr std::uint32_t flag_overcapture(unsigned c) { return 1u << (16 + c); }
 
 // What one timer instance has: fixed by the part, not by firmware.
 struct timer_config {
@@ -102,6 +148,11 @@ struct timer_config {
     unsigned dead_time_max = 1023;   // largest dead_time value; larger writes are clipped
     bool dead_time_scaled = false;   // the dead_time_scale field exists (else the scale is 1)
     unsigned compare_latency = 0;    // 0..2 timer clock ticks before a compare write acts
+    unsigned input_sync_ticks = 2;   // 1..3: synchroniser depth of every input
+    // The filter lengths a filter field chooses from (1 to 16 entries, each 1..255 samples).
+    std::vector<unsigned> filter_lengths = {1, 2, 4, 8};
+    bool capture_read_clears_flag = true;  // reading a captured value clears its capture flag
+    unsigned chain_latency = 0;            // 0..3: extra ticks a chained trigger pulse takes
     // Throws std::invalid_argument naming the first out-of-range value.
     void validate() const;
     std::uint32_t counter_max() const {
@@ -148,6 +199,13 @@ public:
     virtual void clear_flags(std::uint32_t mask, time_ps t) = 0;
     // The fault input changed level at time t.
     virtual void set_fault_input(bool level, time_ps t) = 0;
+    // Input `input` (input_of_channel(c) or trigger_pin_input) changed to `level` at time t.
+    virtual void set_input(unsigned input, bool level, time_ps t) = 0;
+    // The level input `input` has held since before time 0 (its reset level; call before any
+    // other call).
+    virtual void set_initial_input(unsigned input, bool level) = 0;
+    // A trigger pulse from another timer reached the chained input at time t.
+    virtual void chained_pulse(time_ps t) = 0;
     // The earliest time something may happen that was not yet processed, or none.
     virtual bool next_event(time_ps& at) const = 0;
     // The timer clock's timeline changed from time t on (the clock tree rebuilt it).

@@ -149,7 +149,7 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
         // 5: a reserved location inside timer_a's window, with the error policy on its register
         // file.
         regs_a.set_policy(models::unmapped_policy::error);
-        r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x24, 4, 0));
+        r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x2c, 4, 0));
         logs.push_back(take_log());
         // 6-9: misaligned, bad length, scattered byte enables, running past the window.
         r.push_back(self.access(TLM_READ_COMMAND, base_a + 0x02, 4, 0));
@@ -197,8 +197,8 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
     EXPECT_EQ(r[3].data, 0u);
     EXPECT_EQ(logs[1],
               "warning read of 4 bytes at 0x50000200 hits no peripheral; nearest register: "
-              "status_clear of "
-              "timer_a, 0x1df bytes above it; at 1000000 ps\n");
+              "link of "
+              "timer_a, 0x1d9 bytes above it; at 1000000 ps\n");
     // error: an address error and an error message.
     EXPECT_EQ(r[4].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
     EXPECT_EQ(logs[2],
@@ -209,8 +209,8 @@ TEST(bus_platform_test, routes_times_and_polices_accesses) {
     EXPECT_EQ(r[5].status, tlm::TLM_ADDRESS_ERROR_RESPONSE);
     EXPECT_NE(
         logs[3].find(
-            "error read of 4 bytes at 0x50000024 hits a location reserved in timer_a; nearest "
-            "register: status_clear of timer_a, 0x3 bytes above it; at 1000000 ps"),
+            "error read of 4 bytes at 0x5000002c hits a location reserved in timer_a; nearest "
+            "register: link of timer_a, 0x5 bytes above it; at 1000000 ps"),
         std::string::npos)
         << logs[3];
 

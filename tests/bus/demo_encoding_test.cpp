@@ -115,6 +115,23 @@ TEST(demo_encoding_test, the_firmware_header_names_the_layout_of_timer16_quad) {
     EXPECT_EQ(Q16_DEAD_TIME(0x3ff), mask_of(l, "dead", timer_field::dead_time));
     EXPECT_EQ(Q16_DEAD_SCALE(3), mask_of(l, "dead", timer_field::dead_time_scale));
     EXPECT_EQ(Q16_GUARD_LATENCY(0xf), mask_of(l, "guard", timer_field::fault_latency));
+    EXPECT_EQ(Q16_SENSE, offset_of(l, "sense"));
+    EXPECT_EQ(Q16_SENSE_TUNE, offset_of(l, "sense_tune"));
+    EXPECT_EQ(Q16_LINK, offset_of(l, "link"));
+    for (unsigned c = 0; c < 4; ++c) {
+        SCOPED_TRACE(c);
+        EXPECT_EQ(Q16_SENSE_ROLE(c, 3), mask_of(l, "sense", timer_field::channel_role, c));
+        EXPECT_EQ(Q16_SENSE_EDGE(c, 3), mask_of(l, "sense", timer_field::capture_edge, c));
+        EXPECT_EQ(Q16_TUNE_FILTER(c, 3), mask_of(l, "sense_tune", timer_field::input_filter, c));
+        EXPECT_EQ(Q16_TUNE_PRESCALER(c, 3),
+                  mask_of(l, "sense_tune", timer_field::capture_prescaler, c));
+    }
+    EXPECT_EQ(Q16_LINK_COUNT(3), mask_of(l, "link", timer_field::count_source));
+    EXPECT_EQ(Q16_LINK_ACTION(3), mask_of(l, "link", timer_field::trigger_action));
+    EXPECT_EQ(Q16_LINK_TRIGGER_FROM(3), mask_of(l, "link", timer_field::trigger_source));
+    EXPECT_EQ(Q16_LINK_TRIGGER_FALLING, mask_of(l, "link", timer_field::trigger_edge));
+    EXPECT_EQ(Q16_LINK_TRIGGER_FILTER(3), mask_of(l, "link", timer_field::trigger_filter));
+    EXPECT_EQ(Q16_LINK_FILTER_DIVIDER(3), mask_of(l, "link", timer_field::filter_divider));
     EXPECT_EQ(Q16_GUARD_FAULT_ENABLE, mask_of(l, "guard", timer_field::fault_enable));
 }
 
@@ -140,6 +157,21 @@ TEST(demo_encoding_test, the_firmware_header_names_the_layout_of_timer32_dual) {
     EXPECT_EQ(D32_SETUP_TRIGGER(7), mask_of(l, "setup", timer_field::trigger_select));
     EXPECT_EQ(D32_SETUP_DIRECTION_DOWN, mask_of(l, "setup", timer_field::direction));
     EXPECT_EQ(D32_COMMAND_FORCE_RELOAD, mask_of(l, "command", timer_field::force_reload));
+    EXPECT_EQ(D32_INPUTS, offset_of(l, "inputs"));
+    for (unsigned c = 0; c < 2; ++c) {
+        SCOPED_TRACE(c);
+        EXPECT_EQ(D32_INPUT_ROLE(c, 3), mask_of(l, "inputs", timer_field::channel_role, c));
+        EXPECT_EQ(D32_INPUT_EDGE(c, 3), mask_of(l, "inputs", timer_field::capture_edge, c));
+        EXPECT_EQ(D32_INPUT_PRESCALER(c, 3),
+                  mask_of(l, "inputs", timer_field::capture_prescaler, c));
+        EXPECT_EQ(D32_INPUT_FILTER(c, 3), mask_of(l, "inputs", timer_field::input_filter, c));
+    }
+    EXPECT_EQ(D32_INPUT_COUNT(3), mask_of(l, "inputs", timer_field::count_source));
+    EXPECT_EQ(D32_INPUT_ACTION(3), mask_of(l, "inputs", timer_field::trigger_action));
+    EXPECT_EQ(D32_INPUT_TRIGGER_FROM(3), mask_of(l, "inputs", timer_field::trigger_source));
+    EXPECT_EQ(D32_INPUT_TRIGGER_FALLING, mask_of(l, "inputs", timer_field::trigger_edge));
+    EXPECT_EQ(D32_INPUT_TRIGGER_FILTER(3), mask_of(l, "inputs", timer_field::trigger_filter));
+    EXPECT_EQ(D32_INPUT_FILTER_DIVIDER(3), mask_of(l, "inputs", timer_field::filter_divider));
     for (unsigned c = 0; c < 2; ++c) {
         SCOPED_TRACE(c);
         EXPECT_EQ(D32_OUTPUT_BYTE(c, D32_OUTPUT_ACTION(0xf)),
@@ -158,6 +190,14 @@ TEST(demo_encoding_test, the_firmware_header_names_the_model_values) {
     EXPECT_EQ(DEMO_FLAG_CHANNEL(3), models::flag_channel(3));
     EXPECT_EQ(DEMO_FLAG_RELOAD, models::flag_reload);
     EXPECT_EQ(DEMO_FLAG_FAULT, models::flag_fault);
+    EXPECT_EQ(DEMO_FLAG_TRIGGER, models::flag_trigger);
+    EXPECT_EQ(D32_FLAG_OVERCAPTURE(1), models::flag_overcapture(1));
+    EXPECT_EQ(DEMO_ROLE_CAPTURE_NEIGHBOUR,
+              static_cast<unsigned>(models::channel_role::capture_neighbour));
+    EXPECT_EQ(DEMO_EDGE_BOTH, static_cast<unsigned>(models::capture_edge::both));
+    EXPECT_EQ(DEMO_COUNT_ENCODER_X4, static_cast<unsigned>(models::count_source::encoder_x4));
+    EXPECT_EQ(DEMO_TRIGGER_ACTION_START, static_cast<unsigned>(models::trigger_action::start));
+    EXPECT_EQ(DEMO_TRIGGER_FROM_CHAIN, static_cast<unsigned>(models::trigger_source::chained));
     EXPECT_EQ(DEMO_TRIGGER_NONE, models::trigger_none);
     EXPECT_EQ(DEMO_TRIGGER_ON_MATCH(2), models::trigger_on_match(2));
     EXPECT_EQ(DEMO_TRIGGER_ON_RELOAD, models::trigger_on_reload);

@@ -26,6 +26,13 @@ public:
     }
     void clear_flags(std::uint32_t mask, sim::time_ps t) override { inner_.clear_flags(mask, t); }
     void set_fault_input(bool level, sim::time_ps t) override { inner_.set_fault_input(level, t); }
+    void set_input(unsigned input, bool level, sim::time_ps t) override {
+        inner_.set_input(input, level, t);
+    }
+    void set_initial_input(unsigned input, bool level) override {
+        inner_.set_initial_input(input, level);
+    }
+    void chained_pulse(sim::time_ps t) override { inner_.chained_pulse(t); }
     bool next_event(sim::time_ps& at) const override { return inner_.next_event(at); }
     void clock_changed(sim::time_ps t) override { inner_.clock_changed(t); }
 

@@ -45,6 +45,9 @@ public:
         values[{models::timer_field::flags, 0}] &= ~mask;
     }
     void set_fault_input(bool, models::time_ps) override {}
+    void set_input(unsigned, bool, models::time_ps) override {}
+    void set_initial_input(unsigned, bool) override {}
+    void chained_pulse(models::time_ps) override {}
     bool next_event(models::time_ps&) const override { return false; }
     void clock_changed(models::time_ps) override {}
 
