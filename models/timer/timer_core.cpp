@@ -53,7 +53,7 @@ std::uint64_t timer_core::tick_of_step(std::uint64_t k) const {
 }
 
 std::uint64_t timer_core::steps_to_next_interesting() const {
-    if (!enable_) return never;
+    if (!clock_counting()) return never;
     const std::uint64_t c = counter_, p = period_;
     std::uint64_t best = never;
     // Values the counter reaches before the wrap, at `steps` from now.
@@ -63,32 +63,37 @@ std::uint64_t timer_core::steps_to_next_interesting() const {
     auto consider_down = [&](std::uint64_t v, std::uint64_t floor) {
         if (v < c && v >= floor) best = std::min(best, c - v);
     };
-    const unsigned n = cfg_.channels;
+    // Capture channels never match: only compare channels make a step interesting.
+    const std::uint32_t compares = all_channels_ & ~capture_channels_;
+    auto each = [&](auto f) {
+        for (std::uint32_t m = compares; m != 0; m &= m - 1)
+            f(ch_[static_cast<unsigned>(__builtin_ctz(m))].compare);
+    };
     switch (mode_) {
         case count_mode::up: {
             const std::uint64_t top = c <= p ? p : max_;
             best = top - c + 1;  // the wrap
-            for (unsigned i = 0; i < n; ++i) consider_up(ch_[i].compare, top);
+            each([&](std::uint64_t v) { consider_up(v, top); });
             break;
         }
         case count_mode::down:
             best = c + 1;  // the wrap
-            for (unsigned i = 0; i < n; ++i) {
-                consider_down(ch_[i].compare, 0);
+            each([&](std::uint64_t v) {
+                consider_down(v, 0);
                 // counter < compare starts at the step reaching compare - 1
-                if (ch_[i].compare > 0) consider_down(ch_[i].compare - 1, 0);
-            }
+                if (v > 0) consider_down(v - 1, 0);
+            });
             break;
         case count_mode::center:
             if (p == 0) return never;  // nothing moves
             if (!down_) {
                 if (c >= p) return 1;
                 best = p - c;
-                for (unsigned i = 0; i < n; ++i) consider_up(ch_[i].compare, p - 1);
+                each([&](std::uint64_t v) { consider_up(v, p - 1); });
             } else {
                 if (c == 0) return 1;
                 best = c;
-                for (unsigned i = 0; i < n; ++i) consider_down(ch_[i].compare, 1);
+                each([&](std::uint64_t v) { consider_down(v, 1); });
             }
             break;
     }
@@ -118,6 +123,9 @@ std::uint64_t timer_core::compute_next_interesting_tick() const {
         const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
         n = std::min({n, pins_[main_pin(i)].rise_at, pins_[comp_pin(i)].rise_at});
     }
+    for (std::uint32_t m = pending_inputs_; m != 0; m &= m - 1)
+        n = std::min(n, inputs_[static_cast<unsigned>(__builtin_ctz(m))].accept_at);
+    if (!chained_ticks_.empty()) n = std::min(n, chained_ticks_.front());
     const std::uint64_t s = steps_to_next_interesting();
     if (s != never) n = std::min(n, tick_of_step(s));
     return n;
@@ -127,7 +135,7 @@ void timer_core::skip_to(std::uint64_t n) {
     if (n <= next_tick_) return;
     const std::uint64_t m = n - next_tick_;
     next_tick_ = n;
-    if (!enable_) return;
+    if (!clock_counting()) return;
     const std::uint64_t p = std::uint64_t{prescaler_} + 1;
     const std::uint64_t d = pcount_ + 1 >= p ? 1 : p - pcount_;
     if (m < d) {
@@ -216,14 +224,15 @@ void timer_core::evaluate_levels() {
     // Only the PWM actions follow the counter; forced levels are set when the action is written,
     // the others hold.
     const bool center_down = mode_ == count_mode::center && down_;
-    std::uint32_t refs = refs_ & ~pwm_channels_;
-    for (std::uint32_t m = pwm_channels_; m != 0; m &= m - 1) {
+    const std::uint32_t pwm = pwm_channels_ & ~capture_channels_;
+    std::uint32_t refs = refs_ & ~pwm;
+    for (std::uint32_t m = pwm; m != 0; m &= m - 1) {
         const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
         const std::uint32_t compare = ch_[i].compare;
         const bool below = center_down ? counter_ <= compare : counter_ < compare;
         refs |= static_cast<std::uint32_t>(below) << i;
     }
-    refs_ = refs ^ pwm_above_channels_;
+    refs_ = refs ^ (pwm_above_channels_ & pwm);
 }
 
 void timer_core::update_pins(std::uint32_t channels, std::uint64_t first_tick_after, time_ps at) {
@@ -281,6 +290,169 @@ void timer_core::set_flags(std::uint32_t bits, time_ps at) {
     const std::uint32_t fresh = bits & ~flags_;
     flags_ |= bits;
     if (fresh && observer_) observer_->on_flags_set(fresh, at);
+}
+
+bool timer_core::clock_counting() const {
+    return enable_ && count_source_ == count_source::timer_clock &&
+           (trigger_action_ != trigger_action::gate || trigger_active());
+}
+
+std::uint64_t timer_core::filter_length(unsigned i) const {
+    const std::uint32_t index =
+        i == trigger_pin_input ? trigger_filter_ : ch_[i < max_channels ? i : 0].input_filter;
+    return cfg_.filter_lengths[index];
+}
+
+void timer_core::schedule_run(unsigned i, std::uint64_t from) {
+    // The first sampling tick at or after `from`, then N - 1 sampling periods on.
+    const std::uint64_t d = std::uint64_t{1} << filter_divider_;
+    const std::uint64_t first = from + (d - from % d) % d;
+    inputs_[i].accept_at = first + (filter_length(i) - 1) * d;
+    pending_inputs_ |= 1u << i;
+}
+
+void timer_core::restart_filter(unsigned i) {
+    input_state& in = inputs_[i];
+    if (in.accept_at == never) return;
+    schedule_run(i, std::max(in.run_visible_at, next_tick_));
+    // An edge back to the output that shows before the new flip tick now ends the run.
+    if (in.raw == in.out && in.raw_visible_at <= in.accept_at) {
+        in.accept_at = never;
+        pending_inputs_ &= ~(1u << i);
+    }
+}
+
+int timer_core::capture_source(unsigned c) const {
+    const unsigned src = ch_[c].role == channel_role::capture_own ? c : (c ^ 1u);
+    return src < cfg_.channels ? static_cast<int>(src) : -1;
+}
+
+int timer_core::trigger_input() const {
+    switch (trigger_source_) {
+        case trigger_source::channel_0_input:
+            return 0;
+        case trigger_source::channel_1_input:
+            return cfg_.channels > 1 ? 1 : -1;
+        case trigger_source::trigger_pin:
+            return static_cast<int>(trigger_pin_input);
+        case trigger_source::chained:
+            return -1;
+    }
+    return -1;
+}
+
+bool timer_core::trigger_active() const {
+    const int i = trigger_input();
+    return i >= 0 && inputs_[static_cast<unsigned>(i)].out != trigger_falling_;
+}
+
+void timer_core::raise_matches(bool slope_down, time_ps at) {
+    for (std::uint32_t m = all_channels_ & ~capture_channels_; m != 0; m &= m - 1) {
+        const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
+        channel& c = ch_[i];
+        if (counter_ != c.compare) continue;
+        if (mode_ == count_mode::center && slope_ != match_slope::both &&
+            (slope_ == match_slope::down) != slope_down)
+            continue;
+        set_flags(flag_channel(i), at);
+        if (c.action == output_action::set_on_match)
+            refs_ |= 1u << i;
+        else if (c.action == output_action::clear_on_match)
+            refs_ &= ~(1u << i);
+        else if (c.action == output_action::toggle_on_match)
+            refs_ ^= 1u << i;
+        if (trigger_select_ == trigger_on_match(i)) trigger(at);
+    }
+}
+
+void timer_core::encoder_step(bool up, time_ps at) {
+    encoder_down_ = !up;
+    bool wrapped = false;
+    if (up) {
+        if (counter_ == period_ || counter_ == max_) {
+            counter_ = 0;
+            wrapped = true;
+        } else {
+            ++counter_;
+        }
+    } else if (counter_ == 0) {
+        counter_ = period_;
+        wrapped = true;
+    } else {
+        --counter_;
+    }
+    if (wrapped) on_wrap(at);
+    raise_matches(!up, at);
+}
+
+void timer_core::forced_reload(bool now, time_ps at) {
+    if (policy_ != reload_policy::held) load_shadows();
+    counter_ = mode_ == count_mode::down ? period_ : 0;
+    if (mode_ == count_mode::center) down_ = false;
+    pcount_ = 0;
+    skip_count_ = wrap_skip_;
+    const bool flag = policy_ == reload_policy::every;
+    const bool pulse = trigger_select_ == trigger_on_reload;
+    if (now) {
+        if (flag) set_flags(flag_reload, at);
+        if (pulse) trigger(at);
+    } else {
+        if (flag) pending_flags_ |= flag_reload;
+        if (pulse) pending_trigger_ = true;
+    }
+}
+
+void timer_core::take_capture_edge(unsigned c, time_ps at) {
+    channel& ch = ch_[c];
+    if (++ch.capture_count < (1u << ch.capture_prescaler)) return;
+    ch.capture_count = 0;
+    ch.compare = ch.compare_shadow = counter_;
+    if (flags_ & flag_channel(c)) set_flags(flag_overcapture(c), at);
+    set_flags(flag_channel(c), at);
+}
+
+void timer_core::update_capture_mask() {
+    capture_channels_ = 0;
+    for (unsigned c = 0; c < cfg_.channels; ++c)
+        if (ch_[c].role != channel_role::compare) capture_channels_ |= 1u << c;
+}
+
+void timer_core::set_input(unsigned i, bool level, time_ps t) {
+    if (i == fault_input) return set_fault_input(level, t);
+    if (i >= pin_inputs || (i < max_channels && i >= cfg_.channels)) return;
+    catch_up(t);
+    invalidate();
+    input_state& in = inputs_[i];
+    if (level == in.raw) return;
+    in.raw = level;
+    // Sampled first at the first tick after t, synchronised S - 1 ticks later.
+    const std::uint64_t visible = next_tick_ + cfg_.input_sync_ticks - 1;
+    in.raw_visible_at = visible;
+    if (in.accept_at == never) {
+        if (level != in.out) {
+            in.run_visible_at = visible;
+            schedule_run(i, visible);
+        }
+    } else if (level == in.out && visible <= in.accept_at) {
+        // Back to the output level before the filter accepted the run: the run ends.
+        in.accept_at = never;
+        pending_inputs_ &= ~(1u << i);
+    }
+}
+
+void timer_core::set_initial_input(unsigned i, bool level) {
+    if (i == fault_input) {
+        fault_input_ = level;
+        return;
+    }
+    if (i >= pin_inputs) return;
+    inputs_[i].raw = inputs_[i].out = level;
+}
+
+void timer_core::chained_pulse(time_ps t) {
+    catch_up(t);
+    invalidate();
+    chained_ticks_.push_back(next_tick_ + cfg_.chain_latency);
 }
 
 void timer_core::set_action(unsigned i, std::uint32_t code) {
@@ -352,34 +524,74 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
         fault_at_ = never;
         activate_fault(at);
     }
-    bool stepped = false;
-    if (enable_) {
-        const std::uint64_t p = std::uint64_t{prescaler_} + 1;
-        if (pcount_ + 1 >= p) {
-            pcount_ = 0;
-            stepped = true;
-        } else {
-            ++pcount_;
+    // Inputs: the filter outputs that flip at this tick, and what they mean.
+    std::uint32_t edges = 0, rising = 0;
+    for (std::uint32_t m = pending_inputs_; m != 0; m &= m - 1) {
+        const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
+        input_state& in = inputs_[i];
+        if (in.accept_at != n) continue;
+        in.out = !in.out;
+        edges |= 1u << i;
+        if (in.out) rising |= 1u << i;
+        if (in.raw != in.out)
+            schedule_run(i, std::max(in.raw_visible_at, n + 1));
+        else
+            in.accept_at = never, pending_inputs_ &= ~(1u << i);
+    }
+    // The trigger: an accepted trigger at this tick.
+    bool triggered = false;
+    if (trigger_source_ == trigger_source::chained) {
+        while (!chained_ticks_.empty() && chained_ticks_.front() <= n) {
+            chained_ticks_.pop_front();
+            triggered = true;
+        }
+    } else if (const int ti = trigger_input(); ti >= 0 && (edges >> ti) & 1u) {
+        triggered = ((rising >> ti) & 1u) != trigger_falling_;
+    }
+    if (!chained_ticks_.empty() && trigger_source_ != trigger_source::chained)
+        while (!chained_ticks_.empty() && chained_ticks_.front() <= n) chained_ticks_.pop_front();
+    if (triggered) set_flags(flag_trigger, at);
+    // Counting events, steps, wraps and matches.
+    if (count_source_ == count_source::encoder_x2 || count_source_ == count_source::encoder_x4) {
+        if (enable_) {
+            const bool a = inputs_[input_of_channel(0)].out;
+            const bool b_before = (edges >> 1) & 1u ? !inputs_[input_of_channel(1)].out
+                                                    : inputs_[input_of_channel(1)].out;
+            if (edges & 1u) encoder_step(a != b_before, at);
+            if (count_source_ == count_source::encoder_x4 && ((edges >> 1) & 1u))
+                encoder_step(a == inputs_[input_of_channel(1)].out, at);
+        }
+    } else {
+        const bool event =
+            count_source_ == count_source::timer_clock ? clock_counting() : enable_ && triggered;
+        bool stepped = false;
+        if (event) {
+            const std::uint64_t p = std::uint64_t{prescaler_} + 1;
+            if (pcount_ + 1 >= p) {
+                pcount_ = 0;
+                stepped = true;
+            } else {
+                ++pcount_;
+            }
+        }
+        bool wrapped = false, slope_down = false;
+        if (stepped && step_counter(wrapped, slope_down)) {
+            if (wrapped) on_wrap(at);
+            raise_matches(slope_down, at);
         }
     }
-    bool wrapped = false, slope_down = false;
-    if (stepped && step_counter(wrapped, slope_down)) {
-        if (wrapped) on_wrap(at);
-        for (unsigned i = 0; i < cfg_.channels; ++i) {
-            channel& c = ch_[i];
-            if (counter_ != c.compare) continue;
-            if (mode_ == count_mode::center && slope_ != match_slope::both &&
-                (slope_ == match_slope::down) != slope_down)
-                continue;
-            set_flags(flag_channel(i), at);
-            if (c.action == output_action::set_on_match)
-                refs_ |= 1u << i;
-            else if (c.action == output_action::clear_on_match)
-                refs_ &= ~(1u << i);
-            else if (c.action == output_action::toggle_on_match)
-                refs_ ^= 1u << i;
-            if (trigger_select_ == trigger_on_match(i)) trigger(at);
-        }
+    // Captures, then what the trigger does.
+    for (std::uint32_t m = capture_channels_; edges != 0 && m != 0; m &= m - 1) {
+        const unsigned c = static_cast<unsigned>(__builtin_ctz(m));
+        const int src = capture_source(c);
+        if (src < 0 || !((edges >> src) & 1u)) continue;
+        const bool up = (rising >> src) & 1u;
+        if (ch_[c].edge == capture_edge::both || (ch_[c].edge == capture_edge::rising) == up)
+            take_capture_edge(c, at);
+    }
+    if (triggered) {
+        if (trigger_action_ == trigger_action::restart) forced_reload(true, at);
+        if (trigger_action_ == trigger_action::start) enable_ = true;
     }
     evaluate_levels();
     next_tick_ = n + 1;
@@ -451,14 +663,7 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             if (is_defined_value(cfg_, f, v)) policy_ = static_cast<reload_policy>(v);
             break;
         case timer_field::force_reload:
-            if (!bit) break;
-            if (policy_ != reload_policy::held) load_shadows();
-            counter_ = mode_ == count_mode::down ? period_ : 0;
-            if (mode_ == count_mode::center) down_ = false;
-            pcount_ = 0;
-            skip_count_ = wrap_skip_;
-            if (policy_ == reload_policy::every) pending_flags_ |= flag_reload;
-            if (trigger_select_ == trigger_on_reload) pending_trigger_ = true;
+            if (bit) forced_reload(false, t);
             break;
         case timer_field::prescaler: {
             const std::uint32_t mask =
@@ -508,11 +713,34 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
         case timer_field::trigger_select:
             if (is_defined_value(cfg_, f, v)) trigger_select_ = v;
             break;
+        case timer_field::filter_divider:
+            if (!is_defined_value(cfg_, f, v)) break;
+            filter_divider_ = v;
+            for (unsigned i = 0; i < pin_inputs; ++i) restart_filter(i);
+            break;
+        case timer_field::trigger_filter:
+            if (!is_defined_value(cfg_, f, v)) break;
+            trigger_filter_ = v;
+            restart_filter(trigger_pin_input);
+            break;
+        case timer_field::count_source:
+            if (is_defined_value(cfg_, f, v)) count_source_ = static_cast<count_source>(v);
+            break;
+        case timer_field::trigger_action:
+            if (is_defined_value(cfg_, f, v)) trigger_action_ = static_cast<trigger_action>(v);
+            break;
+        case timer_field::trigger_source:
+            if (is_defined_value(cfg_, f, v)) trigger_source_ = static_cast<trigger_source>(v);
+            break;
+        case timer_field::trigger_edge:
+            if (is_defined_value(cfg_, f, v)) trigger_falling_ = v != 0;
+            break;
         default: {
             if (channel_index >= cfg_.channels) break;
             channel& c = ch_[channel_index];
             switch (f) {
                 case timer_field::compare:
+                    if (c.role != channel_role::compare) break;  // holds the captured value
                     c.compare_shadow = v & max_;
                     c.waiting = c.preload;
                     if (c.preload) break;
@@ -546,6 +774,27 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
                     break;
                 case timer_field::comp_safe_level:
                     c.comp_safe = bit;
+                    break;
+                case timer_field::channel_role:
+                    if (!is_defined_value(cfg_, f, v)) break;
+                    c.role = static_cast<channel_role>(v);
+                    c.capture_count = 0;
+                    update_capture_mask();
+                    break;
+                case timer_field::capture_edge:
+                    if (!is_defined_value(cfg_, f, v)) break;
+                    c.edge = static_cast<capture_edge>(v);
+                    c.capture_count = 0;
+                    break;
+                case timer_field::capture_prescaler:
+                    if (!is_defined_value(cfg_, f, v)) break;
+                    c.capture_prescaler = v;
+                    c.capture_count = 0;
+                    break;
+                case timer_field::input_filter:
+                    if (!is_defined_value(cfg_, f, v)) break;
+                    c.input_filter = v;
+                    restart_filter(input_of_channel(channel_index));
                     break;
                 default:
                     break;
@@ -583,6 +832,9 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
         case timer_field::wrap_skip:
             return wrap_skip_shadow_;
         case timer_field::direction:
+            if (count_source_ == count_source::encoder_x2 ||
+                count_source_ == count_source::encoder_x4)
+                return encoder_down_ ? 1 : 0;
             return mode_ == count_mode::down || (mode_ == count_mode::center && down_) ? 1 : 0;
         case timer_field::dead_time:
             return dead_time_;
@@ -600,6 +852,18 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
             return irq_enable_;
         case timer_field::trigger_select:
             return trigger_select_;
+        case timer_field::filter_divider:
+            return filter_divider_;
+        case timer_field::count_source:
+            return static_cast<std::uint32_t>(count_source_);
+        case timer_field::trigger_action:
+            return static_cast<std::uint32_t>(trigger_action_);
+        case timer_field::trigger_source:
+            return static_cast<std::uint32_t>(trigger_source_);
+        case timer_field::trigger_edge:
+            return trigger_falling_ ? 1 : 0;
+        case timer_field::trigger_filter:
+            return trigger_filter_;
         default:
             break;
     }
@@ -607,6 +871,13 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
     const channel& c = ch_[channel_index];
     switch (f) {
         case timer_field::compare:
+            if (c.role != channel_role::compare && cfg_.capture_read_clears_flag &&
+                (flags_ & flag_channel(channel_index))) {
+                // Reading the captured value takes its flag; the line follows at the next tick.
+                flags_ &= ~flag_channel(channel_index);
+                effects_pending_ = true;
+                invalidate();
+            }
             return c.compare_shadow;
         case timer_field::compare_preload:
             return c.preload;
@@ -624,6 +895,14 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
             return c.main_safe;
         case timer_field::comp_safe_level:
             return c.comp_safe;
+        case timer_field::channel_role:
+            return static_cast<std::uint32_t>(c.role);
+        case timer_field::capture_edge:
+            return static_cast<std::uint32_t>(c.edge);
+        case timer_field::capture_prescaler:
+            return c.capture_prescaler;
+        case timer_field::input_filter:
+            return c.input_filter;
         default:
             return 0;
     }
@@ -644,17 +923,6 @@ void timer_core::set_fault_input(bool level, time_ps t) {
     // The fault acts at the first tick after the rise, or fault_latency ticks later.
     if (rising && fault_enable_ && cfg_.complementary && !fault_active_ && fault_at_ == never)
         fault_at_ = next_tick_ + fault_latency_;
-}
-
-// The input side is being built (docs/timer-model.md, "Inputs").
-void timer_core::set_input(unsigned, bool, time_ps) {
-    throw std::logic_error("timer_core: inputs are not implemented yet");
-}
-void timer_core::set_initial_input(unsigned, bool) {
-    throw std::logic_error("timer_core: inputs are not implemented yet");
-}
-void timer_core::chained_pulse(time_ps) {
-    throw std::logic_error("timer_core: inputs are not implemented yet");
 }
 
 }  // namespace models

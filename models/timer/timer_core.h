@@ -66,6 +66,24 @@ private:
         bool main_enable = false, main_active_low = false;
         bool comp_enable = false, comp_active_low = false;
         bool main_safe = false, comp_safe = false;
+        // The input side.
+        channel_role role = channel_role::compare;
+        capture_edge edge = capture_edge::rising;
+        std::uint32_t capture_prescaler = 0;  // capture every 1 << capture_prescaler taken edges
+        std::uint32_t input_filter = 0;       // index into the instance's filter lengths
+        std::uint32_t capture_count = 0;
+    };
+    // An input pin between its raw level and its filtered level (docs/timer-model.md, "Inputs").
+    // Instead of sampling every tick, it keeps the tick at which the filter output will flip, if
+    // the raw level stays: a run of synchronised levels unlike the output starts at the tick the
+    // edge that began it becomes visible, and the output flips at the N-th sampling tick of the run
+    // unless an edge back becomes visible first.
+    struct input_state {
+        bool raw = false;                  // level after every edge given so far
+        bool out = false;                  // filtered level after the processed ticks
+        std::uint64_t raw_visible_at = 0;  // first synchronised tick of the last raw change
+        std::uint64_t run_visible_at = 0;  // first synchronised tick of the pending run
+        std::uint64_t accept_at = never;   // tick at which `out` flips, or never
     };
     struct pin_state {
         bool active = false;            // after dead time
@@ -114,6 +132,34 @@ private:
     void warn_dead_time_clipped(std::uint32_t written, time_ps at) const;
     std::optional<time_ps> time_of_tick(std::uint64_t n) const;
 
+    // The input side.
+    // Whether the timer clock's ticks are counting events now: enabled, counting the timer clock,
+    // and not held by a closed gate.
+    bool clock_counting() const;
+    // Filter length of input i (samples).
+    std::uint64_t filter_length(unsigned i) const;
+    // Sets input i's flip tick for a run whose synchronised levels differ from the output from tick
+    // `from` on.
+    void schedule_run(unsigned i, std::uint64_t from);
+    // A filter setting changed: input i's count restarts from the first tick not yet processed.
+    void restart_filter(unsigned i);
+    // The filtered input a capture channel c takes edges from, or -1.
+    int capture_source(unsigned c) const;
+    // The input the trigger comes from (-1: the chained input or none).
+    int trigger_input() const;
+    // Whether the trigger is active now (a gate is open).
+    bool trigger_active() const;
+    // One encoder step, up or down, wrapping at the period both ways; false if nothing moved.
+    void encoder_step(bool up, time_ps at);
+    // Matches of a step that left the counter where it is, on the given slope.
+    void raise_matches(bool slope_down, time_ps at);
+    // The forced reload of a force_reload write or a restart trigger: flags and pulse at `at` when
+    // `now`, else at the next tick.
+    void forced_reload(bool now, time_ps at);
+    // Counts a taken edge of channel c and captures when the prescaler says so.
+    void take_capture_edge(unsigned c, time_ps at);
+    void update_capture_mask();
+
     timer_config cfg_;
     const sim::clock_domain& clock_;
     timer_observer* observer_;
@@ -146,6 +192,20 @@ private:
     // Fault.
     bool fault_input_ = false, fault_active_ = false;
     std::uint64_t fault_at_ = never;
+
+    // Inputs: channel inputs 0..5, then the trigger pin.
+    static constexpr unsigned pin_inputs = 7;
+    std::array<input_state, pin_inputs> inputs_{};
+    std::uint32_t pending_inputs_ = 0;  // bit i: input i has a flip scheduled
+    std::uint32_t filter_divider_ = 0;
+    std::uint32_t trigger_filter_ = 0;
+    count_source count_source_ = count_source::timer_clock;
+    trigger_action trigger_action_ = trigger_action::none;
+    trigger_source trigger_source_ = trigger_source::channel_0_input;
+    bool trigger_falling_ = false;
+    std::deque<std::uint64_t> chained_ticks_;  // ticks at which chained pulses land, in order
+    std::uint32_t capture_channels_ = 0;       // bit c: channel c captures
+    bool encoder_down_ = false;                // direction of the last encoder step
 
     std::array<pin_state, 2 * max_channels> pins_{};
     bool irq_ = false;
