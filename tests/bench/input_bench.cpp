@@ -2,8 +2,9 @@
 // per input edge; the stimulus sources that feed a scenario's inputs add their own).
 //
 // - capture_edges_per_second: a 100 kHz square wave on channel 0's input of a timer clocked at
-//   100 MHz, captured on two channels (channel 0 its rising edges, channel 1 the neighbour's falling
-//   edges: period and pulse width), 0.2 s simulated: input edges per wall second; median of 5.
+//   100 MHz, captured on two channels (channel 0 its rising edges, channel 1 the neighbour's
+//   falling edges: period and pulse width), 0.2 s simulated: input edges per wall second; median
+//   of 5.
 // - encoder_cost_spread: a quadrature encoder of 2048 lines turning at 10 000 rpm (x4: 1.37 M
 //   edges per second) counted in encoder x4 mode, 0.05 s simulated, at 1 MHz and 1 GHz timer
 //   clocks: the wall time per edge of the slower over the faster; medians of 5 interleaved rounds.
@@ -66,7 +67,8 @@ double capture_seconds_per_edge(sim::time_ps simulated) {
 double capture_edges_per_second(bool quick) {
     const sim::time_ps simulated = quick ? 2'000'000'000 : 200'000'000'000;  // 2 ms / 0.2 s
     std::vector<double> rates;
-    for (int i = 0; i < (quick ? 1 : 5); ++i) rates.push_back(1.0 / capture_seconds_per_edge(simulated));
+    for (int i = 0; i < (quick ? 1 : 5); ++i)
+        rates.push_back(1.0 / capture_seconds_per_edge(simulated));
     return bench::median(rates);
 }
 

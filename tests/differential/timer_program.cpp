@@ -3,6 +3,7 @@
 #include "models/reference/reference_timer.h"
 
 #include <algorithm>
+#include <array>
 #include <deque>
 #include <random>
 #include <sstream>
@@ -95,6 +96,7 @@ enum class program_shape { regular, many_wraps, near_wide_wrap, slow_prescaler }
 // them). timer_program_test measures both, so they cannot silently drop.
 constexpr double long_share = 0.125;
 constexpr double clock_change_share = 0.55;  // a short program may draw no change
+constexpr double input_share = 0.6;          // programs that use the input side
 
 struct run_plan {
     program_shape shape = program_shape::regular;
@@ -103,6 +105,7 @@ struct run_plan {
     std::uint64_t probe_horizon = 3000;  // ticks searched ahead for the next wrap
     std::uint64_t max_gap = 200;         // most ticks between two operations placed freely
     bool clock_changes = false;
+    bool inputs = false;  // the program drives inputs and sets up the input side
     bool long_run() const { return shape != program_shape::regular; }
 };
 
@@ -121,6 +124,7 @@ run_plan random_plan(dice& d) {
         r.op_budget = static_cast<std::size_t>(d.range(10, 120));
     }
     r.clock_changes = d.chance(clock_change_share);
+    r.inputs = d.chance(input_share);
     return r;
 }
 
@@ -140,6 +144,11 @@ models::timer_config random_config(const run_plan& plan, dice& d) {
     cfg.dead_time_max = static_cast<unsigned>(d.pick(std::vector<std::uint64_t>{0, 3, 15, 1023}));
     cfg.dead_time_scaled = d.chance(0.5);
     cfg.compare_latency = static_cast<unsigned>(d.range(0, 2));
+    cfg.input_sync_ticks = static_cast<unsigned>(d.range(1, 3));
+    cfg.filter_lengths = d.pick(std::vector<std::vector<unsigned>>{
+        {1, 2, 4, 8}, {1}, {3, 1, 5}, {1, 2, 3, 4, 5, 6, 7, 8, 12, 16}, {2, 7}});
+    cfg.capture_read_clears_flag = d.chance(0.7);
+    cfg.chain_latency = static_cast<unsigned>(d.range(0, 3));
     return cfg;
 }
 
@@ -162,10 +171,19 @@ std::uint32_t random_action(dice& d) {
 }
 
 std::uint32_t valid_flags(const models::timer_config& cfg) {
-    std::uint32_t bits = models::flag_reload;
-    for (unsigned c = 0; c < cfg.channels; ++c) bits |= models::flag_channel(c);
+    std::uint32_t bits = models::flag_reload | models::flag_trigger;
+    for (unsigned c = 0; c < cfg.channels; ++c)
+        bits |= models::flag_channel(c) | models::flag_overcapture(c);
     if (cfg.complementary) bits |= models::flag_fault;
     return bits;
+}
+
+// A random input of the instance: a channel's input pin or the trigger pin; mostly the inputs of
+// channels 0 and 1, which also feed the trigger and the encoder.
+unsigned random_input(const models::timer_config& cfg, dice& d) {
+    if (d.chance(0.2)) return models::trigger_pin_input;
+    const unsigned last = d.chance(0.7) ? std::min(cfg.channels, 2u) - 1 : cfg.channels - 1;
+    return models::input_of_channel(static_cast<unsigned>(d.range(0, last)));
 }
 
 std::uint32_t low_bits(unsigned bits) { return bits >= 32 ? 0xffff'ffffu : (1u << bits) - 1; }
@@ -324,6 +342,22 @@ std::uint32_t random_value(timer_field f, const models::timer_config& cfg, const
             return small_or_edge(period);
         case timer_field::action:
             return random_action(d);
+        case timer_field::channel_role:
+            return static_cast<std::uint32_t>(d.chance(0.97) ? d.range(0, 2) : 3);
+        case timer_field::capture_edge:
+            return static_cast<std::uint32_t>(d.chance(0.97) ? d.range(0, 2) : 3);
+        case timer_field::capture_prescaler:
+        case timer_field::filter_divider:
+        case timer_field::count_source:
+        case timer_field::trigger_action:
+        case timer_field::trigger_source:
+            return static_cast<std::uint32_t>(d.range(0, 3));
+        case timer_field::trigger_edge:
+            return d.chance(0.5) ? 1 : 0;
+        case timer_field::input_filter:
+        case timer_field::trigger_filter:  // sometimes an index beyond the list: reserved
+            return static_cast<std::uint32_t>(
+                d.range(0, cfg.filter_lengths.size() - (d.chance(0.95) ? 1 : 0)));
         default:
             return d.chance(0.5) ? 1 : 0;  // single-bit fields
     }
@@ -336,11 +370,15 @@ const std::vector<timer_field> global_fields = {
     timer_field::counter,         timer_field::wrap_skip,      timer_field::dead_time,
     timer_field::dead_time_scale, timer_field::fault_enable,   timer_field::fault_latency,
     timer_field::rearm,           timer_field::irq_enable,     timer_field::trigger_select,
+    timer_field::filter_divider,  timer_field::count_source,   timer_field::trigger_action,
+    timer_field::trigger_source,  timer_field::trigger_edge,   timer_field::trigger_filter,
 };
 const std::vector<timer_field> channel_fields = {
     timer_field::compare,         timer_field::compare_preload, timer_field::action,
     timer_field::main_enable,     timer_field::main_active_low, timer_field::comp_enable,
     timer_field::comp_active_low, timer_field::main_safe_level, timer_field::comp_safe_level,
+    timer_field::channel_role,    timer_field::capture_edge,    timer_field::capture_prescaler,
+    timer_field::input_filter,
 };
 // Fields that make the counter and pins move; written more often.
 const std::vector<timer_field> hot_fields = {
@@ -446,6 +484,16 @@ write_range classify_write(const models::timer_config& cfg, const program_op& op
         case timer_field::reload_policy:
         case timer_field::trigger_select:
         case timer_field::action:
+        case timer_field::channel_role:
+        case timer_field::capture_edge:
+        case timer_field::capture_prescaler:
+        case timer_field::filter_divider:
+        case timer_field::count_source:
+        case timer_field::trigger_action:
+        case timer_field::trigger_source:
+        case timer_field::trigger_edge:
+        case timer_field::input_filter:
+        case timer_field::trigger_filter:
             return models::is_defined_value(cfg, op.field, op.value) ? write_range::in_range
                                                                      : write_range::reserved_value;
         case timer_field::irq_enable:
@@ -489,6 +537,15 @@ std::uint32_t apply_op(models::timer_core_if& model, sim::clock_domain& domain,
             apply_clock_change(domain, op);
             model.clock_changed(op.at);
             break;
+        case op_kind::input_edge:
+            model.set_input(op.channel, op.value != 0, op.at);
+            break;
+        case op_kind::initial_input:
+            model.set_initial_input(op.channel, op.value != 0);
+            break;
+        case op_kind::chained_pulse:
+            model.chained_pulse(op.at);
+            break;
     }
     return 0;
 }
@@ -518,6 +575,16 @@ timer_program generate_program(std::uint64_t seed) {
     auto write = [&](timer_field f, unsigned ch, std::uint32_t v, sim::time_ps at) {
         emit(program_op{at, op_kind::write, f, ch, v});
     };
+
+    // Inputs that are high from before time 0.
+    std::array<bool, models::input_count> level{};
+    if (plan.inputs) {
+        for (unsigned c = 0; c < cfg.channels; ++c)
+            if (d.chance(0.3)) level[models::input_of_channel(c)] = true;
+        if (d.chance(0.3)) level[models::trigger_pin_input] = true;
+        for (unsigned i = 0; i < models::input_count; ++i)
+            if (level[i]) emit(program_op{0, op_kind::initial_input, timer_field::enable, i, 1});
+    }
 
     // Set-up at a random early instant: small period and prescaler so that many wraps happen.
     const sim::time_ps start = d.range(0, 3) * tick_ps();
@@ -589,7 +656,43 @@ timer_program generate_program(std::uint64_t seed) {
             write(timer_field::force_reload, 0, 1, start);
             break;
     }
+    // The input side: captures on some channels, filters, a counting source and a trigger.
+    bool encoder = false;
+    if (plan.inputs) {
+        write(timer_field::filter_divider, 0, static_cast<std::uint32_t>(d.range(0, 3)), start);
+        for (unsigned c = 0; c < cfg.channels; ++c) {
+            if (d.chance(0.5))
+                write(timer_field::channel_role, c, static_cast<std::uint32_t>(d.range(1, 2)),
+                      start);
+            write(timer_field::capture_edge, c, static_cast<std::uint32_t>(d.range(0, 2)), start);
+            write(timer_field::capture_prescaler, c,
+                  static_cast<std::uint32_t>(d.chance(0.6) ? 0 : d.range(1, 3)), start);
+            write(timer_field::input_filter, c,
+                  static_cast<std::uint32_t>(d.range(0, cfg.filter_lengths.size() - 1)), start);
+        }
+        write(timer_field::trigger_filter, 0,
+              static_cast<std::uint32_t>(d.range(0, cfg.filter_lengths.size() - 1)), start);
+        write(timer_field::trigger_source, 0, static_cast<std::uint32_t>(d.range(0, 3)), start);
+        write(timer_field::trigger_edge, 0, d.chance(0.3), start);
+        write(timer_field::trigger_action, 0,
+              static_cast<std::uint32_t>(d.chance(0.4) ? 0 : d.range(1, 3)), start);
+        const auto source = d.range(0, 9);
+        const std::uint32_t count = source < 6 ? 0 : source < 7 ? 1 : source < 9 ? 3 : 2;
+        encoder = count >= 2;
+        write(timer_field::count_source, 0, count, start);
+    }
     write(timer_field::enable, 0, 1, start);
+
+    // The filter length and sampling period of input i, in ticks, as the model stands.
+    auto filter_ticks = [&](unsigned i, sim::time_ps t) -> std::uint64_t {
+        const std::uint32_t index = i == models::trigger_pin_input
+                                        ? model.read(timer_field::trigger_filter, 0, t)
+                                        : model.read(timer_field::input_filter, i, t);
+        return std::uint64_t{cfg.filter_lengths[index]}
+               << model.read(timer_field::filter_divider, 0, t);
+    };
+    // Quadrature state of inputs 0 (A) and 1 (B), stepped forwards or backwards.
+    bool encoder_forward = true;
 
     bool fault_level = false;
     bool stopped = false;
@@ -661,6 +764,38 @@ timer_program generate_program(std::uint64_t seed) {
             op.value = fault_level;
         } else if (what < 36) {
             op = out_of_range_write(cfg, plan, model, std::max(at, now), d);
+        } else if (plan.inputs && what < 62) {
+            const auto kind = d.range(0, 9);
+            if (encoder && cfg.channels >= 2 && kind < 4) {
+                // One quadrature step: A, B = 00 -> 10 -> 11 -> 01 -> 00 forwards.
+                if (d.chance(0.1)) encoder_forward = !encoder_forward;
+                const bool a = level[0], b = level[1];
+                const bool move_a = (a == b) == encoder_forward;
+                op.kind = op_kind::input_edge;
+                op.channel = move_a ? 0 : 1;
+            } else if (kind < 8) {
+                op.kind = op_kind::input_edge;
+                op.channel = random_input(cfg, d);
+                if (kind >= 6 && !stopped) {
+                    // A glitch around the filter's length: there and back again within about
+                    // N sampling periods.
+                    const unsigned i = op.channel;
+                    const std::uint64_t ticks = filter_ticks(i, std::max(at, now));
+                    const auto delta = static_cast<std::int64_t>(d.range(0, 4)) - 2;
+                    const std::uint64_t width = static_cast<std::uint64_t>(
+                        std::max<std::int64_t>(0, static_cast<std::int64_t>(ticks) + delta));
+                    level[i] = !level[i];
+                    emit(program_op{at, op_kind::input_edge, timer_field::enable, i, level[i]});
+                    op.at =
+                        now + width * tick_ps() + (d.chance(0.5) ? 0 : d.range(0, tick_ps() - 1));
+                }
+            } else {
+                op.kind = op_kind::chained_pulse;
+            }
+            if (op.kind == op_kind::input_edge) {
+                level[op.channel] = !level[op.channel];
+                op.value = level[op.channel];
+            }
         } else {
             op.kind = op_kind::write;
             const auto r = d.range(0, 9);
@@ -714,6 +849,18 @@ std::string describe(const program_op& op) {
             else
                 s << "timer clock -> " << op.value << " Hz";
             break;
+        case op_kind::input_edge:
+        case op_kind::initial_input:
+            s << (op.kind == op_kind::initial_input ? "initial " : "") << "input ";
+            if (op.channel == models::trigger_pin_input)
+                s << "trigger";
+            else
+                s << op.channel;
+            s << " = " << op.value;
+            break;
+        case op_kind::chained_pulse:
+            s << "chained pulse";
+            break;
     }
     return s.str();
 }
@@ -725,7 +872,11 @@ std::string describe(const timer_program& p) {
       << c.channels << ", prescaler_bits " << c.prescaler_bits << ", wrap_skip_bits "
       << c.wrap_skip_bits << ", prescaler_shadowed " << c.prescaler_shadowed << ", complementary "
       << c.complementary << ", dead_time_max " << c.dead_time_max << ", compare_latency "
-      << c.compare_latency << "; timer clock " << p.clock_hz << " Hz from 0 ps; end " << p.end
+      << c.compare_latency << ", input_sync_ticks " << c.input_sync_ticks << ", filter_lengths [";
+    for (std::size_t i = 0; i < c.filter_lengths.size(); ++i)
+        s << (i ? " " : "") << c.filter_lengths[i];
+    s << "], capture_read_clears_flag " << c.capture_read_clears_flag << ", chain_latency "
+      << c.chain_latency << "; timer clock " << p.clock_hz << " Hz from 0 ps; end " << p.end
       << " ps; " << p.ops.size() << " operations\n";
     sim::clock_domain domain(sim::frequency::hz(p.clock_hz));
     for (const program_op& op : p.ops) {

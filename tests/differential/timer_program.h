@@ -8,7 +8,9 @@
 // tick-exact reference on the program built so far and probing a copy of it forwards. Half the
 // programs change the timer clock (stops and restarts too), one in eight runs long (many wraps, a
 // wide counter near its wrap, a large prescaler), and every program writes some values the
-// specification calls out of range. timer_program_test measures these shares.
+// specification calls out of range. Most programs use the input side: input edges (glitches around
+// the filter's length among them), chained pulses, quadrature sequences that reverse, captures,
+// counting sources and trigger actions. timer_program_test measures these shares.
 
 #include "models/timer/timer_types.h"
 #include "sim/clock_domain.h"
@@ -19,9 +21,20 @@
 
 namespace tickbench::differential {
 
-enum class op_kind : std::uint32_t { write, read, clear_flags, fault_input, clock_change };
+enum class op_kind : std::uint32_t {
+    write,
+    read,
+    clear_flags,
+    fault_input,
+    clock_change,
+    input_edge,     // input `channel` (an input index) goes to level `value`
+    initial_input,  // input `channel` starts at level `value` (only before every other op)
+    chained_pulse,  // a trigger pulse from another timer reaches the chained input
+};
 
 // One timed operation. For clock_change, value is the new timer clock frequency in Hz (0: stop).
+// For input_edge and initial_input, channel is the input (models::input_of_channel(c) or
+// models::trigger_pin_input) and value its level.
 struct program_op {
     sim::time_ps at = 0;
     op_kind kind = op_kind::write;
