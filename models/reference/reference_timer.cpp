@@ -48,10 +48,27 @@ const reference_timer::channel_state& reference_timer::channel_at(unsigned c) co
 }
 
 std::uint32_t reference_timer::valid_flag_bits() const {
-    std::uint32_t bits = flag_reload;
-    for (unsigned c = 0; c < cfg_.channels; ++c) bits |= flag_channel(c);
+    std::uint32_t bits = flag_reload | flag_trigger;
+    for (unsigned c = 0; c < cfg_.channels; ++c) bits |= flag_channel(c) | flag_overcapture(c);
     if (cfg_.complementary) bits |= flag_fault;
     return bits;
+}
+
+unsigned reference_timer::filter_length_of(unsigned input) const {
+    const std::uint32_t index =
+        input == trigger_pin_input ? trigger_filter_ : channels_[input].input_filter;
+    return cfg_.filter_lengths[index];
+}
+
+void reference_timer::check_pin_input(unsigned input, const char* call) const {
+    if ((input < cfg_.channels) || input == trigger_pin_input) return;
+    std::string accepted = "the channel inputs 0";
+    if (cfg_.channels > 1) accepted += " to " + std::to_string(cfg_.channels - 1);
+    accepted += " and the trigger pin " + std::to_string(trigger_pin_input);
+    if (input == fault_input) accepted += " (the fault input changes by set_fault_input)";
+    throw std::invalid_argument(std::string("reference_timer: ") + call + " of input " +
+                                std::to_string(input) +
+                                ", which this timer lacks; accepted: " + accepted);
 }
 
 // ---- time ----
@@ -62,7 +79,7 @@ void reference_timer::advance_to(time_ps t) {
         if (!edge || edge->at > t) return;
         started_ = true;
         last_tick_at_ = edge->at;
-        tick(edge->at);
+        tick(*edge);
     }
 }
 
@@ -77,7 +94,8 @@ void reference_timer::clock_changed(time_ps) {}
 
 // ---- one timer clock tick ----
 
-void reference_timer::tick(time_ps at) {
+void reference_timer::tick(const sim::clock_edge& edge) {
+    const time_ps at = edge.at;
     ++ticks_;
     // 0. What register accesses since the last tick asked for: the flag and trigger pulse of a
     // forced reload.
@@ -108,22 +126,144 @@ void reference_timer::tick(time_ps at) {
             --fault_ticks_left_;
         }
     }
-    // 3. Prescaler.
-    bool stepped = false;
-    if (enable_) {
-        const std::uint64_t factor = std::uint64_t{prescaler_} + 1;
-        if (pcount_ + 1 >= factor) {
-            pcount_ = 0;
-            stepped = true;
-        } else {
-            pcount_ += 1;
+    // 3. Inputs: every synchroniser samples; at a sampling tick (index a multiple of the divider)
+    // every filter updates. This gives the tick's filtered edges.
+    const bool sampling_tick = edge.tick % (std::uint64_t{1} << filter_divider_) == 0;
+    for (unsigned i = 0; i < pin_inputs; ++i)
+        update_input(inputs_[i], filter_length_of(i), sampling_tick);
+    // 4. Trigger: the accepted trigger of this tick and whether the trigger is active. Chained
+    // pulses travel whatever the trigger source; one that lands while another source is chosen is
+    // lost.
+    bool chained_lands = false;
+    while (!chained_pending_.empty() && chained_pending_.front() == 0) {
+        chained_pending_.pop_front();
+        chained_lands = true;
+    }
+    for (std::uint32_t& left : chained_pending_) --left;
+    bool accepted = false;
+    bool active = false;
+    if (trigger_source_ == models::trigger_source::chained) {
+        accepted = chained_lands;  // the chained input has no level: never active
+    } else {
+        unsigned source = trigger_pin_input;
+        if (trigger_source_ == models::trigger_source::channel_0_input)
+            source = input_of_channel(0);
+        if (trigger_source_ == models::trigger_source::channel_1_input)
+            source = input_of_channel(1);
+        const input_state& in = inputs_[source];
+        accepted = trigger_falling_ ? in.fell : in.rose;
+        active = in.filtered != trigger_falling_;
+    }
+    if (accepted) set_flags(flag_trigger, at);
+    // 5. Prescaler, at a counting event; in the encoder sources each filtered encoder edge is a
+    // step (A first), and steps 6 to 9 run once per step.
+    switch (count_source_) {
+        case models::count_source::timer_clock:
+        case models::count_source::trigger_edges: {
+            bool event = enable_;
+            if (count_source_ == models::count_source::trigger_edges) event = event && accepted;
+            if (trigger_action_ == models::trigger_action::gate &&
+                count_source_ == models::count_source::timer_clock)
+                event = event && active;
+            if (!event) break;
+            const std::uint64_t factor = std::uint64_t{prescaler_} + 1;
+            if (pcount_ + 1 >= factor) {
+                pcount_ = 0;
+                run_step(at, false, false);  // 6. to 9.
+            } else {
+                pcount_ += 1;
+            }
+            break;
+        }
+        case models::count_source::encoder_x2:
+        case models::count_source::encoder_x4: {
+            if (!enable_) break;
+            const input_state& a = inputs_[input_of_channel(0)];
+            const input_state& b = inputs_[input_of_channel(1)];
+            const bool b_edge = b.rose || b.fell;
+            const bool b_before = b_edge ? !b.filtered : b.filtered;
+            const bool a_edge = a.rose || a.fell;
+            const bool b_steps = count_source_ == models::count_source::encoder_x4 && b_edge;
+            // A's edge: up if A differs from B (before this tick's B edge) after it.
+            if (a_edge) run_step(at, true, a.filtered != b_before);  // 6. to 9.
+            // B's edge: up if A equals B after it.
+            if (b_steps) run_step(at, true, a.filtered == b.filtered);  // 6. to 9.
+            break;
         }
     }
-    // 4. Counter step.
+    // 10. Captures: each capture channel counts its source's taken edges and captures at every
+    // 2^capture_prescaler-th, the counter being the one after this tick's steps.
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        channel_state& c = channels_[i];
+        if (c.role == models::channel_role::compare) continue;
+        const input_state& src =
+            inputs_[c.role == models::channel_role::capture_own ? i : (i ^ 1u)];
+        bool taken = false;
+        switch (c.edge) {
+            case models::capture_edge::rising:
+                taken = src.rose;
+                break;
+            case models::capture_edge::falling:
+                taken = src.fell;
+                break;
+            case models::capture_edge::both:
+                taken = src.rose || src.fell;
+                break;
+        }
+        if (!taken) continue;
+        c.capture_count += 1;
+        if (c.capture_count < (1u << c.capture_prescaler)) continue;
+        c.capture_count = 0;
+        capture(i, at);
+    }
+    // 11. Trigger action, after this tick's captures.
+    if (accepted) {
+        if (trigger_action_ == models::trigger_action::restart) {
+            const reload_outputs sent = forced_reload();
+            set_flags(sent.flags, at);
+            if (sent.trigger) send_trigger(at);
+        } else if (trigger_action_ == models::trigger_action::start) {
+            enable_ = true;  // counting from the next tick
+        }
+    }
+    // 12. Levels.
+    evaluate_levels();
+    // 13. Pins, and the interrupt line.
+    update_outputs(at);
+    update_irq(at);
+}
+
+void reference_timer::update_input(input_state& in, unsigned filter_length, bool sampling_tick) {
+    in.rose = false;
+    in.fell = false;
+    // The synchroniser: the sample of this tick enters, the one taken S - 1 ticks ago leaves.
+    for (unsigned s = cfg_.input_sync_ticks - 1; s > 0; --s) in.stages[s] = in.stages[s - 1];
+    in.stages[0] = in.level;
+    const bool synchronised = in.stages[cfg_.input_sync_ticks - 1];
+    if (!sampling_tick) return;
+    if (synchronised == in.filtered) {
+        in.filter_count = 0;
+        return;
+    }
+    in.filter_count += 1;
+    if (in.filter_count < filter_length) return;
+    in.filter_count = 0;
+    in.filtered = synchronised;
+    in.rose = synchronised;
+    in.fell = !synchronised;
+}
+
+void reference_timer::run_step(time_ps at, bool encoder, bool up) {
+    // 6. Counter step.
+    bool stepped = true;
     bool wrapped = false;
-    bool slope_down = false;
-    if (stepped) step_counter(stepped, wrapped, slope_down);
-    // 5. Wrap -> reload event (6. inside reload_event_from_wrap).
+    bool slope_down = !up;
+    if (encoder)
+        encoder_step(up, wrapped);
+    else
+        step_counter(stepped, wrapped, slope_down);
+    if (!stepped) return;
+    // 7. Wrap -> reload event (8. inside reload_event_from_wrap).
     if (wrapped) {
         ++wraps_;
         if (policy_ != reload_policy::held) {
@@ -135,39 +275,51 @@ void reference_timer::tick(time_ps at) {
             }
         }
     }
-    // 7. Matches.
-    if (stepped) {
-        bool slope_allowed = true;
-        if (mode_ == count_mode::center) {
-            slope_allowed = slope_ == match_slope::both ||
-                            (slope_ == match_slope::up && !slope_down) ||
-                            (slope_ == match_slope::down && slope_down);
+    // 9. Matches, of compare channels only.
+    bool slope_allowed = true;
+    if (mode_ == count_mode::center) {
+        slope_allowed = slope_ == match_slope::both || (slope_ == match_slope::up && !slope_down) ||
+                        (slope_ == match_slope::down && slope_down);
+    }
+    for (unsigned i = 0; i < cfg_.channels; ++i) {
+        channel_state& c = channels_[i];
+        if (c.role != models::channel_role::compare) continue;
+        if (!slope_allowed || counter_ != c.compare) continue;
+        set_flags(flag_channel(i), at);
+        switch (c.action) {
+            case output_action::set_on_match:
+                c.ref = true;
+                break;
+            case output_action::clear_on_match:
+                c.ref = false;
+                break;
+            case output_action::toggle_on_match:
+                c.ref = !c.ref;
+                break;
+            default:
+                break;
         }
-        for (unsigned i = 0; i < cfg_.channels; ++i) {
-            channel_state& c = channels_[i];
-            if (!slope_allowed || counter_ != c.compare) continue;
-            set_flags(flag_channel(i), at);
-            switch (c.action) {
-                case output_action::set_on_match:
-                    c.ref = true;
-                    break;
-                case output_action::clear_on_match:
-                    c.ref = false;
-                    break;
-                case output_action::toggle_on_match:
-                    c.ref = !c.ref;
-                    break;
-                default:
-                    break;
-            }
-            if (trigger_select_ == trigger_on_match(i)) send_trigger(at);
+        if (trigger_select_ == trigger_on_match(i)) send_trigger(at);
+    }
+}
+
+void reference_timer::encoder_step(bool up, bool& wrapped) {
+    down_ = !up;  // direction reads the direction of the last encoder step
+    if (up) {
+        if (counter_ == period_ || counter_ == max_) {
+            counter_ = 0;
+            wrapped = true;
+        } else {
+            counter_ += 1;
+        }
+    } else {
+        if (counter_ == 0) {
+            counter_ = period_;
+            wrapped = true;
+        } else {
+            counter_ -= 1;
         }
     }
-    // 8. Levels.
-    evaluate_levels();
-    // 9. Pins, and the interrupt line.
-    update_outputs(at);
-    update_irq(at);
 }
 
 void reference_timer::step_counter(bool& stepped, bool& wrapped, bool& slope_down) {
@@ -246,16 +398,28 @@ void reference_timer::reload_event_from_wrap(time_ps at) {
     if (one_pulse_) enable_ = false;
 }
 
-void reference_timer::forced_reload() {
+reference_timer::reload_outputs reference_timer::forced_reload() {
     ++reload_events_;
     if (policy_ != reload_policy::held) load_shadows();
     counter_ = mode_ == count_mode::down ? period_ : 0;
     if (mode_ == count_mode::center) down_ = false;
     pcount_ = 0;
     skip_count_ = wrap_skip_;
-    // The flag and the trigger pulse show at the next tick, like every effect of an access.
-    if (policy_ == reload_policy::every) access_flags_ |= flag_reload;
-    if (trigger_select_ == trigger_on_reload) access_trigger_ = true;
+    reload_outputs sent;
+    if (policy_ == reload_policy::every) sent.flags = flag_reload;
+    sent.trigger = trigger_select_ == trigger_on_reload;
+    return sent;
+}
+
+void reference_timer::capture(unsigned i, time_ps at) {
+    channel_state& c = channels_[i];
+    // The captured value is the register: what a read gives and, should the channel become a
+    // compare channel again, its active value. Nothing written earlier may still land on it.
+    c.compare_written = c.compare = counter_;
+    c.waiting = false;
+    c.pending.clear();
+    const bool already = (flags_ & flag_channel(i)) != 0;
+    set_flags(flag_channel(i) | (already ? flag_overcapture(i) : 0u), at);
 }
 
 // ---- levels and pins ----
@@ -268,6 +432,7 @@ bool reference_timer::below(const channel_state& c) const {
 void reference_timer::evaluate_levels() {
     for (unsigned i = 0; i < cfg_.channels; ++i) {
         channel_state& c = channels_[i];
+        if (c.role != models::channel_role::compare) continue;  // a capture channel's level holds
         switch (c.action) {
             case output_action::pwm_below:
                 c.ref = below(c);
@@ -380,10 +545,10 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             break;
         case timer_field::mode:
             if (value > 2) break;  // not a mode: ignored
-            if (static_cast<count_mode>(value) != mode_) {
-                mode_ = static_cast<count_mode>(value);
-                down_ = mode_ == count_mode::down;
-            }
+            // Up and down modes set the direction at every write; center mode only on entering.
+            if (static_cast<count_mode>(value) != count_mode::center || mode_ != count_mode::center)
+                down_ = static_cast<count_mode>(value) == count_mode::down;
+            mode_ = static_cast<count_mode>(value);
             break;
         case timer_field::slope:
             if (value <= 2) slope_ = static_cast<match_slope>(value);
@@ -399,7 +564,13 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             if (value <= 2) policy_ = static_cast<reload_policy>(value);
             break;
         case timer_field::force_reload:
-            if (bit) forced_reload();
+            if (bit) {
+                // The flag and the trigger pulse show at the next tick, like every effect of an
+                // access.
+                const reload_outputs sent = forced_reload();
+                access_flags_ |= sent.flags;
+                access_trigger_ = access_trigger_ || sent.trigger;
+            }
             break;
         case timer_field::prescaler:
             prescaler_written_ = mask_bits(value, cfg_.prescaler_bits);
@@ -445,6 +616,7 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             break;
         case timer_field::compare: {
             channel_state& c = channel_at(channel);
+            if (c.role != models::channel_role::compare) break;  // a capture channel's: ignored
             c.compare_written = value & max_;
             c.waiting = c.compare_preload;
             if (!c.compare_preload) {
@@ -480,6 +652,63 @@ void reference_timer::write(timer_field f, unsigned channel, std::uint32_t value
             break;
         case timer_field::comp_safe_level:
             channel_at(channel).comp_safe_level = bit;
+            break;
+        case timer_field::filter_divider:
+            if (value > 3) break;  // dividers 1, 2, 4, 8 only: ignored
+            filter_divider_ = value;
+            for (input_state& in : inputs_) in.filter_count = 0;
+            break;
+        case timer_field::count_source: {
+            if (value > 3) break;  // not a counting source: ignored
+            const auto source = static_cast<models::count_source>(value);
+            const auto is_encoder = [](models::count_source s) {
+                return s == models::count_source::encoder_x2 ||
+                       s == models::count_source::encoder_x4;
+            };
+            // Leaving the encoder: the direction is the mode's again.
+            if (is_encoder(count_source_) && !is_encoder(source)) down_ = mode_ == count_mode::down;
+            count_source_ = source;
+            break;
+        }
+        case timer_field::trigger_action:
+            if (value <= 3) trigger_action_ = static_cast<models::trigger_action>(value);
+            break;
+        case timer_field::trigger_source:
+            if (value <= 3) trigger_source_ = static_cast<models::trigger_source>(value);
+            break;
+        case timer_field::trigger_edge:
+            if (value <= 1) trigger_falling_ = value == 1;
+            break;
+        case timer_field::trigger_filter:
+            if (value >= cfg_.filter_lengths.size()) break;  // no such filter length: ignored
+            trigger_filter_ = value;
+            inputs_[trigger_pin_input].filter_count = 0;
+            break;
+        case timer_field::channel_role: {
+            if (value > 2) break;  // not a role: ignored
+            channel_state& c = channel_at(channel);
+            c.role = static_cast<models::channel_role>(value);
+            c.capture_count = 0;
+            break;
+        }
+        case timer_field::capture_edge: {
+            if (value > 2) break;  // not an edge kind: ignored
+            channel_state& c = channel_at(channel);
+            c.edge = static_cast<models::capture_edge>(value);
+            c.capture_count = 0;
+            break;
+        }
+        case timer_field::capture_prescaler: {
+            if (value > 3) break;  // every 1st, 2nd, 4th or 8th edge only: ignored
+            channel_state& c = channel_at(channel);
+            c.capture_prescaler = value;
+            c.capture_count = 0;
+            break;
+        }
+        case timer_field::input_filter:
+            if (value >= cfg_.filter_lengths.size()) break;  // no such filter length: ignored
+            channel_at(channel).input_filter = value;
+            inputs_[input_of_channel(channel)].filter_count = 0;
             break;
     }
 }
@@ -529,8 +758,13 @@ std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) 
             return irq_enable_;
         case timer_field::trigger_select:
             return trigger_select_;
-        case timer_field::compare:
-            return channel_at(channel).compare_written;
+        case timer_field::compare: {
+            const channel_state& c = channel_at(channel);
+            // Reading a captured value clears the capture flag (the line follows at the next tick).
+            if (c.role != models::channel_role::compare && cfg_.capture_read_clears_flag)
+                flags_ &= ~flag_channel(channel);
+            return c.compare_written;
+        }
         case timer_field::compare_preload:
             return channel_at(channel).compare_preload;
         case timer_field::action:
@@ -547,6 +781,26 @@ std::uint32_t reference_timer::read(timer_field f, unsigned channel, time_ps t) 
             return channel_at(channel).main_safe_level;
         case timer_field::comp_safe_level:
             return channel_at(channel).comp_safe_level;
+        case timer_field::filter_divider:
+            return filter_divider_;
+        case timer_field::count_source:
+            return static_cast<std::uint32_t>(count_source_);
+        case timer_field::trigger_action:
+            return static_cast<std::uint32_t>(trigger_action_);
+        case timer_field::trigger_source:
+            return static_cast<std::uint32_t>(trigger_source_);
+        case timer_field::trigger_edge:
+            return trigger_falling_ ? 1 : 0;
+        case timer_field::trigger_filter:
+            return trigger_filter_;
+        case timer_field::channel_role:
+            return static_cast<std::uint32_t>(channel_at(channel).role);
+        case timer_field::capture_edge:
+            return static_cast<std::uint32_t>(channel_at(channel).edge);
+        case timer_field::capture_prescaler:
+            return channel_at(channel).capture_prescaler;
+        case timer_field::input_filter:
+            return channel_at(channel).input_filter;
     }
     return 0;
 }
@@ -566,15 +820,28 @@ void reference_timer::set_fault_input(bool level, time_ps t) {
     }
 }
 
-// The input side is being built (docs/timer-model.md, "Inputs").
-void reference_timer::set_input(unsigned, bool, time_ps) {
-    throw std::logic_error("reference_timer: inputs are not implemented yet");
+void reference_timer::set_input(unsigned input, bool level, time_ps t) {
+    check_pin_input(input, "set_input");
+    advance_to(t);
+    inputs_[input].level = level;  // sampled from the next tick on
 }
-void reference_timer::set_initial_input(unsigned, bool) {
-    throw std::logic_error("reference_timer: inputs are not implemented yet");
+
+void reference_timer::set_initial_input(unsigned input, bool level) {
+    check_pin_input(input, "set_initial_input");
+    if (started_)
+        throw std::logic_error("reference_timer: set_initial_input of input " +
+                               std::to_string(input) +
+                               " after the first timer clock tick; it gives the level held since "
+                               "before time 0, so call it before anything else");
+    input_state& in = inputs_[input];
+    in.level = in.filtered = level;
+    in.stages.fill(level);
 }
-void reference_timer::chained_pulse(time_ps) {
-    throw std::logic_error("reference_timer: inputs are not implemented yet");
+
+void reference_timer::chained_pulse(time_ps t) {
+    advance_to(t);
+    // An accepted trigger at tick n + chain latency, n being the first tick after t.
+    chained_pending_.push_back(cfg_.chain_latency);
 }
 
 }  // namespace models::reference
