@@ -221,11 +221,12 @@ void timer_core::on_wrap(time_ps at) {
 }
 
 void timer_core::evaluate_levels() {
-    // Only the PWM actions follow the counter; forced levels are set when the action is written,
-    // the others hold.
+    // The PWM actions follow the counter, the forced ones set their level; the others hold, and so
+    // does every capture channel.
     const bool center_down = mode_ == count_mode::center && down_;
     const std::uint32_t pwm = pwm_channels_ & ~capture_channels_;
-    std::uint32_t refs = refs_ & ~pwm;
+    std::uint32_t refs = (refs_ & ~pwm & ~(forced_low_channels_ & ~capture_channels_)) |
+                         (forced_high_channels_ & ~capture_channels_);
     for (std::uint32_t m = pwm; m != 0; m &= m - 1) {
         const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
         const std::uint32_t compare = ch_[i].compare;
@@ -303,28 +304,48 @@ std::uint64_t timer_core::filter_length(unsigned i) const {
     return cfg_.filter_lengths[index];
 }
 
+std::uint64_t timer_core::first_sample(std::uint64_t from) const {
+    const std::uint64_t d = std::uint64_t{1} << filter_divider_;
+    return from + (d - from % d) % d;
+}
+
 void timer_core::schedule_run(unsigned i, std::uint64_t from) {
     // The first sampling tick at or after `from`, then N - 1 sampling periods on.
-    const std::uint64_t d = std::uint64_t{1} << filter_divider_;
-    const std::uint64_t first = from + (d - from % d) % d;
-    inputs_[i].accept_at = first + (filter_length(i) - 1) * d;
+    input_state& in = inputs_[i];
+    in.run_visible_at = from;
+    in.run_flip_at =
+        first_sample(from) + (filter_length(i) - 1) * (std::uint64_t{1} << filter_divider_);
+    in.returned = false;
+    in.accept_at = in.run_flip_at;
     pending_inputs_ |= 1u << i;
+}
+
+void timer_core::schedule_return(unsigned i) {
+    // Only a sample that sees the level back at the output ends the run; an edge back that no
+    // sample sees before the next edge away is invisible to the filter.
+    input_state& in = inputs_[i];
+    const std::uint64_t seen = first_sample(std::max(in.raw_visible_at, next_tick_));
+    in.returned = seen <= in.run_flip_at;
+    in.accept_at = in.returned ? seen : in.run_flip_at;
+}
+
+void timer_core::end_run(unsigned i) {
+    input_state& in = inputs_[i];
+    in.accept_at = in.run_flip_at = never;
+    in.returned = false;
+    pending_inputs_ &= ~(1u << i);
 }
 
 void timer_core::restart_filter(unsigned i) {
     input_state& in = inputs_[i];
-    if (in.accept_at == never) return;
+    if (in.run_flip_at == never) return;
     schedule_run(i, std::max(in.run_visible_at, next_tick_));
-    // An edge back to the output that shows before the new flip tick now ends the run.
-    if (in.raw == in.out && in.raw_visible_at <= in.accept_at) {
-        in.accept_at = never;
-        pending_inputs_ &= ~(1u << i);
-    }
+    if (in.raw == in.out) schedule_return(i);
 }
 
 int timer_core::capture_source(unsigned c) const {
-    const unsigned src = ch_[c].role == channel_role::capture_own ? c : (c ^ 1u);
-    return src < cfg_.channels ? static_cast<int>(src) : -1;
+    // A neighbour the instance lacks has no pin: its input stays low and never has an edge.
+    return static_cast<int>(ch_[c].role == channel_role::capture_own ? c : (c ^ 1u));
 }
 
 int timer_core::trigger_input() const {
@@ -332,7 +353,7 @@ int timer_core::trigger_input() const {
         case trigger_source::channel_0_input:
             return 0;
         case trigger_source::channel_1_input:
-            return cfg_.channels > 1 ? 1 : -1;
+            return 1;  // on a one-channel instance, an input with no pin: low for ever
         case trigger_source::trigger_pin:
             return static_cast<int>(trigger_pin_input);
         case trigger_source::chained:
@@ -366,7 +387,9 @@ void timer_core::raise_matches(bool slope_down, time_ps at) {
 }
 
 void timer_core::encoder_step(bool up, time_ps at) {
-    encoder_down_ = !up;
+    // The step's direction is the counter's direction: `direction` reads it, a center-mode slope
+    // filters the step's matches and the PWM levels use it.
+    down_ = !up;
     bool wrapped = false;
     if (up) {
         if (counter_ == period_ || counter_ == max_) {
@@ -407,6 +430,10 @@ void timer_core::take_capture_edge(unsigned c, time_ps at) {
     if (++ch.capture_count < (1u << ch.capture_prescaler)) return;
     ch.capture_count = 0;
     ch.compare = ch.compare_shadow = counter_;
+    // A compare value still waiting (preloaded, or within the compare latency) is dropped.
+    ch.waiting = false;
+    pending_compares_ -= static_cast<unsigned>(ch.pending.size());
+    ch.pending.clear();
     if (flags_ & flag_channel(c)) set_flags(flag_overcapture(c), at);
     set_flags(flag_channel(c), at);
 }
@@ -418,8 +445,7 @@ void timer_core::update_capture_mask() {
 }
 
 void timer_core::set_input(unsigned i, bool level, time_ps t) {
-    if (i == fault_input) return set_fault_input(level, t);
-    if (i >= pin_inputs || (i < max_channels && i >= cfg_.channels)) return;
+    check_input(i);
     catch_up(t);
     invalidate();
     input_state& in = inputs_[i];
@@ -428,25 +454,31 @@ void timer_core::set_input(unsigned i, bool level, time_ps t) {
     // Sampled first at the first tick after t, synchronised S - 1 ticks later.
     const std::uint64_t visible = next_tick_ + cfg_.input_sync_ticks - 1;
     in.raw_visible_at = visible;
-    if (in.accept_at == never) {
-        if (level != in.out) {
-            in.run_visible_at = visible;
-            schedule_run(i, visible);
-        }
-    } else if (level == in.out && visible <= in.accept_at) {
-        // Back to the output level before the filter accepted the run: the run ends.
-        in.accept_at = never;
-        pending_inputs_ &= ~(1u << i);
-    }
+    if (in.run_flip_at == never)
+        schedule_run(i, visible);  // with no run pending the raw level was the output level
+    else if (level == in.out)
+        schedule_return(i);
+    else if (in.returned && in.accept_at < visible)
+        schedule_run(i, visible);  // a sample saw the level back: that run ended, a new one starts
+    else
+        in.returned = false, in.accept_at = in.run_flip_at;  // no sample saw the edge back
 }
 
 void timer_core::set_initial_input(unsigned i, bool level) {
-    if (i == fault_input) {
-        fault_input_ = level;
-        return;
-    }
-    if (i >= pin_inputs) return;
+    check_input(i);
+    if (next_tick_ != 0 || ticks_processed_ != 0)
+        throw std::logic_error(name_ + ": set_initial_input after the run began");
     inputs_[i].raw = inputs_[i].out = level;
+}
+
+void timer_core::check_input(unsigned i) const {
+    if (i == fault_input)
+        throw std::invalid_argument(name_ + ": the fault input changes by set_fault_input");
+    if (i >= pin_inputs || (i < max_channels && i >= cfg_.channels))
+        throw std::invalid_argument(name_ + ": no input " + std::to_string(i) +
+                                    "; accepted: " + "the inputs of channels 0 to " +
+                                    std::to_string(cfg_.channels - 1) + " and the trigger pin (" +
+                                    std::to_string(trigger_pin_input) + ")");
 }
 
 void timer_core::chained_pulse(time_ps t) {
@@ -464,8 +496,10 @@ void timer_core::set_action(unsigned i, std::uint32_t code) {
     pwm_channels_ = pwm ? pwm_channels_ | bit : pwm_channels_ & ~bit;
     pwm_above_channels_ = c.action == output_action::pwm_at_or_above ? pwm_above_channels_ | bit
                                                                      : pwm_above_channels_ & ~bit;
-    if (c.action == output_action::force_low) refs_ &= ~bit;
-    if (c.action == output_action::force_high) refs_ |= bit;
+    forced_low_channels_ = c.action == output_action::force_low ? forced_low_channels_ | bit
+                                                                : forced_low_channels_ & ~bit;
+    forced_high_channels_ = c.action == output_action::force_high ? forced_high_channels_ | bit
+                                                                  : forced_high_channels_ & ~bit;
 }
 
 void timer_core::update_irq(time_ps at) {
@@ -530,13 +564,17 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
         const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
         input_state& in = inputs_[i];
         if (in.accept_at != n) continue;
+        if (in.returned) {
+            end_run(i);  // this sample sees the output level: the run ends unseen
+            continue;
+        }
         in.out = !in.out;
         edges |= 1u << i;
         if (in.out) rising |= 1u << i;
         if (in.raw != in.out)
             schedule_run(i, std::max(in.raw_visible_at, n + 1));
         else
-            in.accept_at = never, pending_inputs_ &= ~(1u << i);
+            end_run(i);
     }
     // The trigger: an accepted trigger at this tick.
     bool triggered = false;
@@ -723,9 +761,17 @@ void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, t
             trigger_filter_ = v;
             restart_filter(trigger_pin_input);
             break;
-        case timer_field::count_source:
-            if (is_defined_value(cfg_, f, v)) count_source_ = static_cast<count_source>(v);
+        case timer_field::count_source: {
+            if (!is_defined_value(cfg_, f, v)) break;
+            const auto was = count_source_;
+            count_source_ = static_cast<count_source>(v);
+            const auto encoder = [](count_source s) {
+                return s == count_source::encoder_x2 || s == count_source::encoder_x4;
+            };
+            // Leaving the encoder, the direction becomes what the mode wants.
+            if (encoder(was) && !encoder(count_source_)) down_ = mode_ == count_mode::down;
             break;
+        }
         case timer_field::trigger_action:
             if (is_defined_value(cfg_, f, v)) trigger_action_ = static_cast<trigger_action>(v);
             break;
@@ -834,7 +880,7 @@ std::uint32_t timer_core::read(timer_field f, unsigned channel_index, time_ps t)
         case timer_field::direction:
             if (count_source_ == count_source::encoder_x2 ||
                 count_source_ == count_source::encoder_x4)
-                return encoder_down_ ? 1 : 0;
+                return down_ ? 1 : 0;
             return mode_ == count_mode::down || (mode_ == count_mode::center && down_) ? 1 : 0;
         case timer_field::dead_time:
             return dead_time_;

@@ -79,11 +79,13 @@ private:
     // edge that began it becomes visible, and the output flips at the N-th sampling tick of the run
     // unless an edge back becomes visible first.
     struct input_state {
-        bool raw = false;                  // level after every edge given so far
-        bool out = false;                  // filtered level after the processed ticks
-        std::uint64_t raw_visible_at = 0;  // first synchronised tick of the last raw change
-        std::uint64_t run_visible_at = 0;  // first synchronised tick of the pending run
-        std::uint64_t accept_at = never;   // tick at which `out` flips, or never
+        bool raw = false;                   // level after every edge given so far
+        bool out = false;                   // filtered level after the processed ticks
+        std::uint64_t raw_visible_at = 0;   // first synchronised tick of the last raw change
+        std::uint64_t run_visible_at = 0;   // first synchronised tick of the pending run
+        std::uint64_t run_flip_at = never;  // tick at which the pending run flips `out`, or never
+        bool returned = false;  // the raw level is back at `out` and a sample sees it at accept_at
+        std::uint64_t accept_at = never;  // next tick that settles the run (flip or end), or never
     };
     struct pin_state {
         bool active = false;            // after dead time
@@ -141,6 +143,13 @@ private:
     // Sets input i's flip tick for a run whose synchronised levels differ from the output from tick
     // `from` on.
     void schedule_run(unsigned i, std::uint64_t from);
+    // The first sampling tick at or after tick `from`.
+    std::uint64_t first_sample(std::uint64_t from) const;
+    // Input i's raw level went back to its output level during a run: the run ends at the first
+    // sample that sees it, unless the run flips first.
+    void schedule_return(unsigned i);
+    // Input i has no run pending any more.
+    void end_run(unsigned i);
     // A filter setting changed: input i's count restarts from the first tick not yet processed.
     void restart_filter(unsigned i);
     // The filtered input a capture channel c takes edges from, or -1.
@@ -159,6 +168,8 @@ private:
     // Counts a taken edge of channel c and captures when the prescaler says so.
     void take_capture_edge(unsigned c, time_ps at);
     void update_capture_mask();
+    // Throws std::invalid_argument unless i is a pin input of this instance.
+    void check_input(unsigned i) const;
 
     timer_config cfg_;
     const sim::clock_domain& clock_;
@@ -205,16 +216,17 @@ private:
     bool trigger_falling_ = false;
     std::deque<std::uint64_t> chained_ticks_;  // ticks at which chained pulses land, in order
     std::uint32_t capture_channels_ = 0;       // bit c: channel c captures
-    bool encoder_down_ = false;                // direction of the last encoder step
 
     std::array<pin_state, 2 * max_channels> pins_{};
     bool irq_ = false;
     std::uint32_t rise_channels_ = 0;  // bit c: a pin of channel c has a dead-time rise scheduled
     std::uint32_t all_channels_ = 0;   // bit c for every channel of the instance
     std::uint32_t pwm_channels_ = 0;   // bit c: channel c's action is a PWM action
-    std::uint32_t pwm_above_channels_ = 0;  // bit c: ... and it is pwm_at_or_above
-    std::uint32_t refs_ = 0;                // reference levels: bit c is channel c's
-    unsigned pending_compares_ = 0;         // compare writes waiting out the compare latency
+    std::uint32_t pwm_above_channels_ = 0;    // bit c: ... and it is pwm_at_or_above
+    std::uint32_t forced_low_channels_ = 0;   // bit c: channel c's action is force_low
+    std::uint32_t forced_high_channels_ = 0;  // bit c: channel c's action is force_high
+    std::uint32_t refs_ = 0;                  // reference levels: bit c is channel c's
+    unsigned pending_compares_ = 0;           // compare writes waiting out the compare latency
     mutable bool cache_valid_ = false;
     mutable std::uint64_t cached_tick_ = never;
     mutable std::optional<time_ps> cached_time_;

@@ -53,13 +53,30 @@ program_trace trace(const timer_program& p) {
         }
     };
     for (const program_op& op : p.ops) {
-        step_to(op.at);
+        // Initial levels hold from before time 0, so they go in before the tick at 0.
+        if (op.kind != op_kind::initial_input) step_to(op.at);
         now = std::max(now, op.at);
         apply_op(model, t.domain, op);
     }
     step_to(p.end);
     t.ticks = model.ticks();
     return t;
+}
+
+// Whether the program counts something other than timer clock ticks (input edges, triggers, an
+// encoder): such counters wrap only where the inputs take them, so searching for wraps rarely
+// finds one and the ratios below leave them out.
+bool counts_inputs(const timer_program& p) {
+    return std::any_of(p.ops.begin(), p.ops.end(), [](const program_op& op) {
+        return op.kind == op_kind::write && op.field == timer_field::count_source && op.value != 0;
+    });
+}
+
+// The time of the program's set-up writes (its first write).
+sim::time_ps set_up_time(const timer_program& p) {
+    for (const program_op& op : p.ops)
+        if (op.kind == op_kind::write) return op.at;
+    return 0;
 }
 
 // The wrap within 2 ticks of an operation at time `at`, if any.
@@ -78,9 +95,10 @@ TEST(timer_program_test, writes_around_wraps_in_every_mode) {
     std::set<std::uint32_t> modes_near_wrap;
     for (std::uint64_t seed = 1; seed <= 150; ++seed) {
         const timer_program p = generate_program(seed);
+        if (counts_inputs(p)) continue;
         const program_trace t = trace(p);
         for (const program_op& op : p.ops) {
-            if (op.kind != op_kind::write || op.at == p.ops.front().at) continue;
+            if (op.kind != op_kind::write || op.at == set_up_time(p)) continue;
             ++writes;
             if (const auto w = wrap_near(t, op.at)) {
                 ++near_wrap;
@@ -101,11 +119,12 @@ TEST(timer_program_test, half_the_programs_change_the_clock_around_wraps_and_sto
         const timer_program p = generate_program(seed);
         const program_trace t = trace(p);
         bool changed = false, stopped = false;
+        const bool counts_ticks = !counts_inputs(p);
         for (const program_op& op : p.ops) {
             if (op.kind != op_kind::clock_change) continue;
             changed = true;
-            ++changes;
-            const bool near = wrap_near(t, op.at).has_value();
+            changes += counts_ticks;
+            const bool near = counts_ticks && wrap_near(t, op.at).has_value();
             changes_near_wrap += near;
             if (op.value != 0) continue;
             stopped = true;

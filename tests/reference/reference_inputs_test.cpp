@@ -118,12 +118,12 @@ void watch_channel_0_input(reference_fixture& fx, std::uint32_t filter_index,
 }
 
 struct filter_case {
-    std::uint32_t divider;       // filter_divider: D = 2^divider
-    std::uint32_t index;         // into the default lengths {1, 2, 4, 8}
-    std::uint64_t first;         // first high sample of both pulses
-    std::uint64_t glitch_last;   // last high sample of a pulse one sampling tick too short
-    std::uint64_t pass_last;     // last high sample of a pulse exactly long enough
-    std::uint64_t rise, fall;    // the long enough pulse's filtered edges
+    std::uint32_t divider;      // filter_divider: D = 2^divider
+    std::uint32_t index;        // into the default lengths {1, 2, 4, 8}
+    std::uint64_t first;        // first high sample of both pulses
+    std::uint64_t glitch_last;  // last high sample of a pulse one sampling tick too short
+    std::uint64_t pass_last;    // last high sample of a pulse exactly long enough
+    std::uint64_t rise, fall;   // the long enough pulse's filtered edges
 };
 
 class filter_test : public ::testing::TestWithParam<filter_case> {};
@@ -202,7 +202,7 @@ TEST(reference_inputs_test, a_filter_write_restarts_the_filter_count) {
 TEST(reference_inputs_test, the_trigger_pin_has_its_own_filter) {
     reference_fixture fx(input_config());
     trigger_pulse_per_accepted_trigger(fx, trigger_source::trigger_pin);
-    fx.write(0, timer_field::trigger_filter, 1);  // N = 2
+    fx.write(0, timer_field::trigger_filter, 1);   // N = 2
     fx.write(0, timer_field::input_filter, 3, 0);  // channel 0's filter: not this input's
     // S = 2: the pulse sampled at 10 only is synchronised at 11 only: count 1, then 0.
     pulse(fx, trigger_pin_input, 10, 10);
@@ -706,11 +706,11 @@ TEST(reference_inputs_test, reserved_values_are_ignored_and_reset_no_count) {
     };
     // Four filter lengths (indices 0..3); roles and edge kinds 0..2; the rest 0..3, the edge 0..1.
     const reserved writes[] = {
-        {timer_field::channel_role, 3, 1},  {timer_field::capture_edge, 3, 1},
+        {timer_field::channel_role, 3, 1},      {timer_field::capture_edge, 3, 1},
         {timer_field::capture_prescaler, 4, 1}, {timer_field::input_filter, 4, 2},
-        {timer_field::filter_divider, 4, 1},   {timer_field::count_source, 4, 1},
-        {timer_field::trigger_action, 7, 2},   {timer_field::trigger_source, 4, 2},
-        {timer_field::trigger_edge, 2, 1},     {timer_field::trigger_filter, 4, 3},
+        {timer_field::filter_divider, 4, 1},    {timer_field::count_source, 4, 1},
+        {timer_field::trigger_action, 7, 2},    {timer_field::trigger_source, 4, 2},
+        {timer_field::trigger_edge, 2, 1},      {timer_field::trigger_filter, 4, 3},
     };
     for (const reserved& r : writes) {
         fx.write(1, r.f, r.value, 2);
