@@ -1,5 +1,5 @@
-#include "sim/stimulus/glitch_overlay.h"
 #include "sim/stimulus/pulse_list.h"
+#include "sim/stimulus/glitch_overlay.h"
 
 #include "tests/support/edge_list.h"
 
@@ -53,7 +53,8 @@ TEST(glitch_overlay_test, a_glitch_inverts_the_level_for_its_width) {
     EXPECT_EQ(edges_until(o, 10'000 * us), want);
 }
 
-TEST(glitch_overlay_test, a_base_edge_inside_a_glitch_shows_at_its_end_and_coinciding_edges_cancel) {
+TEST(glitch_overlay_test,
+     a_base_edge_inside_a_glitch_shows_at_its_end_and_coinciding_edges_cancel) {
     glitch_settings g;
     g.width = 100'000;
     g.at = {1000 * us};

@@ -28,8 +28,8 @@ TEST(quadrature_encoder_test, a_leads_b_a_quarter_line_apart_when_turning_forwar
     quadrature_encoder a(e, encoder_output::a), b(e, encoder_output::b);
     EXPECT_FALSE(a.initial_level());
     EXPECT_FALSE(b.initial_level());
-    const std::vector<edge> want_a = {{2'500'000'000, true}, {7'500'000'000, false},
-                                      {12'500'000'000, true}};
+    const std::vector<edge> want_a = {
+        {2'500'000'000, true}, {7'500'000'000, false}, {12'500'000'000, true}};
     const std::vector<edge> want_b = {{5'000'000'000, true}, {10 * ms, false}, {15 * ms, true}};
     EXPECT_EQ(edges_until(a, 15 * ms), want_a);
     EXPECT_EQ(edges_until(b, 15 * ms), want_b);
@@ -46,9 +46,9 @@ TEST(quadrature_encoder_test, counts_four_times_the_lines_per_turn) {
 }
 
 TEST(quadrature_encoder_test, a_ramp_is_integrated_exactly) {
-    // From 0 to 60 rpm over a second: the shaft has turned t^2 / 2 turns after t seconds, so 200 t^2
-    // quarter lines with 100 lines. Quarter line 2 is crossed at exactly 0.1 s; quarter line 1 at
-    // sqrt(0.005) s = 70710678118.6547... ps, the edge at the next whole picosecond.
+    // From 0 to 60 rpm over a second: the shaft has turned t^2 / 2 turns after t seconds, so 200
+    // t^2 quarter lines with 100 lines. Quarter line 2 is crossed at exactly 0.1 s; quarter line 1
+    // at sqrt(0.005) s = 70710678118.6547... ps, the edge at the next whole picosecond.
     const auto e = encoder({{0, 0}, {s1, 60}});
     quadrature_encoder a(e, encoder_output::a), b(e, encoder_output::b);
     EXPECT_EQ(a.next_edge(0), (edge{70'710'678'119, true}));

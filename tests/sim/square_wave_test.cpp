@@ -24,8 +24,8 @@ TEST(square_wave_test, starts_high_at_its_start_and_toggles_every_half_period) {
     s.duty_ppb = 250'000'000;  // 25 %: high 250 us of every 1 ms
     square_wave w(s);
     EXPECT_FALSE(w.initial_level());
-    const std::vector<edge> want = {{0, true}, {250 * us, false}, {1000 * us, true},
-                                    {1250 * us, false}, {2000 * us, true}};
+    const std::vector<edge> want = {
+        {0, true}, {250 * us, false}, {1000 * us, true}, {1250 * us, false}, {2000 * us, true}};
     EXPECT_EQ(edges_until(w, 2000 * us), want);
 }
 
@@ -79,8 +79,8 @@ TEST(square_wave_test, stops_at_its_idle_level) {
     square_settings s = khz();
     s.stop = 1200 * us;
     square_wave w(s);
-    const std::vector<edge> want = {{0, true}, {500 * us, false}, {1000 * us, true},
-                                    {1200 * us, false}};
+    const std::vector<edge> want = {
+        {0, true}, {500 * us, false}, {1000 * us, true}, {1200 * us, false}};
     EXPECT_EQ(edges_until(w, 10'000 * us), want);
     // Stopping while low needs no edge; an idle-high wave falls at its start and rises at its
     // stop.
@@ -92,8 +92,8 @@ TEST(square_wave_test, stops_at_its_idle_level) {
     s.phase_udeg = 180'000'000;
     square_wave idle_high(s);
     EXPECT_TRUE(idle_high.initial_level());
-    const std::vector<edge> want_high = {{200 * us, false}, {700 * us, true}, {1200 * us, false},
-                                         {1700 * us, true}};
+    const std::vector<edge> want_high = {
+        {200 * us, false}, {700 * us, true}, {1200 * us, false}, {1700 * us, true}};
     EXPECT_EQ(edges_until(idle_high, 10'000 * us), want_high);
 }
 
