@@ -104,8 +104,9 @@ void timer_inputs::flush(time_ps t) {
         feed* best = nullptr;
         time_ps at = t;
         for (feed& f : feeds_) {
-            const sim::stimulus::edge* head =
-                f.source ? (f.next ? &*f.next : nullptr) : (f.queue.empty() ? nullptr : &f.queue.front());
+            const sim::stimulus::edge* head = f.source
+                                                  ? (f.next ? &*f.next : nullptr)
+                                                  : (f.queue.empty() ? nullptr : &f.queue.front());
             if (head && head->at <= at && (!best || head->at < at)) {
                 best = &f;
                 at = head->at;
@@ -181,8 +182,9 @@ void timer_inputs::set_initial_input(unsigned input, bool level) {
 }
 void timer_inputs::chained_pulse(time_ps t) {
     if (chained_)
-        throw std::logic_error("the chained input follows another timer; it cannot be pulsed from "
-                               "outside");
+        throw std::logic_error(
+            "the chained input follows another timer; it cannot be pulsed from "
+            "outside");
     bring_inputs_to(t);
     timer_.chained_pulse(t);
 }

@@ -19,13 +19,12 @@ std::vector<std::string> glitch_problems(const glitch_settings& s) {
         if (s.rate->is_zero()) {
             p.push_back("the rate must be above 0 Hz");
         } else {
-            const u128 mean = (2 * static_cast<u128>(ps_per_second) * s.rate->den() +
-                               s.rate->num()) /
-                              (2 * static_cast<u128>(s.rate->num()));
+            const u128 mean =
+                (2 * static_cast<u128>(ps_per_second) * s.rate->den() + s.rate->num()) /
+                (2 * static_cast<u128>(s.rate->num()));
             if (mean < static_cast<u128>(s.width) + 1)
                 p.push_back("the rate is too high for the width: the mean time between glitches (" +
-                            format_time(static_cast<time_ps>(mean)) +
-                            ") must exceed the width");
+                            format_time(static_cast<time_ps>(mean)) + ") must exceed the width");
         }
     }
     if (s.stop && *s.stop <= s.start) p.push_back("stop must come after start");

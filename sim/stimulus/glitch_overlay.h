@@ -21,11 +21,11 @@
 namespace sim::stimulus {
 
 struct glitch_settings {
-    time_ps width = 0;             // above 0
-    std::vector<time_ps> at;       // listed glitch starts, each after the previous one's end
+    time_ps width = 0;              // above 0
+    std::vector<time_ps> at;        // listed glitch starts, each after the previous one's end
     std::optional<frequency> rate;  // or: random glitches at this mean rate
-    std::uint64_t seed = 0;        // seeds the random starts
-    time_ps start = 0;             // random glitches begin after this
+    std::uint64_t seed = 0;         // seeds the random starts
+    time_ps start = 0;              // random glitches begin after this
     std::optional<time_ps> stop;    // and none starts at or after this
 };
 
@@ -52,7 +52,7 @@ private:
     bool base_level_;
     bool inside_ = false;
     bool level_;
-    std::uint64_t index_ = 0;           // the next glitch to start (or the one inside)
+    std::uint64_t index_ = 0;            // the next glitch to start (or the one inside)
     std::optional<time_ps> next_start_;  // its start, when known
     bool next_known_ = false;
     std::optional<edge> last_;  // the last edge returned, for a repeated question

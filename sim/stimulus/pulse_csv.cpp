@@ -28,7 +28,8 @@ std::vector<std::pair<std::string, std::uint32_t>> fields(const std::string& lin
     std::size_t start = 0;
     for (;;) {
         const auto comma = line.find(',', start);
-        const std::string raw = line.substr(start, comma == std::string::npos ? comma : comma - start);
+        const std::string raw =
+            line.substr(start, comma == std::string::npos ? comma : comma - start);
         const auto lead = raw.find_first_not_of(" \t");
         out.emplace_back(trim(raw), static_cast<std::uint32_t>(
                                         start + 1 + (lead == std::string::npos ? 0 : lead)));
@@ -58,12 +59,12 @@ std::vector<pulse_point> parse_pulse_csv(const std::string& text, const std::str
         const auto f = fields(line);
         if (unit.empty()) {
             const std::string& h = f[0].first;
-            const bool ok_unit = h.rfind("time_", 0) == 0 &&
-                                 (h == "time_ps" || h == "time_ns" || h == "time_us" ||
-                                  h == "time_ms" || h == "time_s");
+            const bool ok_unit =
+                h.rfind("time_", 0) == 0 && (h == "time_ps" || h == "time_ns" || h == "time_us" ||
+                                             h == "time_ms" || h == "time_s");
             if (!ok_unit || f.size() > 2 || (f.size() == 2 && f[1].first != "level")) {
-                fail(number, f[0].second, "expected " + std::string(header_words) + ", got \"" +
-                                              t + "\"");
+                fail(number, f[0].second,
+                     "expected " + std::string(header_words) + ", got \"" + t + "\"");
                 break;
             }
             unit = h.substr(5);
@@ -80,11 +81,13 @@ std::vector<pulse_point> parse_pulse_csv(const std::string& text, const std::str
         pulse_point p;
         try {
             if (f[0].first.empty() || f[0].first.find_first_of(" \t") != std::string::npos)
-                throw quantity_error("\"" + f[0].first + "\" is not a number");
+                throw quantity_error(f[0].first);
             p.at = parse_time(f[0].first + " " + unit);
-        } catch (const quantity_error& e) {
+        } catch (const quantity_error&) {
             fail(number, f[0].second,
-                 std::string("time: ") + e.what() + "; accepted: " + line_words);
+                 "time: expected a decimal number of " + unit +
+                     " that is a whole number of picoseconds, got \"" + f[0].first +
+                     "\"; accepted: " + line_words);
             continue;
         }
         if (with_level) {
@@ -94,8 +97,7 @@ std::vector<pulse_point> parse_pulse_csv(const std::string& text, const std::str
             else if (l == "0" || l == "low")
                 p.level = false;
             else {
-                fail(number, f[1].second,
-                     "level: expected 0, 1, low or high, got \"" + l + "\"");
+                fail(number, f[1].second, "level: expected 0, 1, low or high, got \"" + l + "\"");
                 continue;
             }
         }

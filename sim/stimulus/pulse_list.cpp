@@ -10,8 +10,8 @@ std::vector<edge> edges_from_points(const std::vector<pulse_point>& points, bool
     for (std::size_t i = 0; i < points.size(); ++i) {
         const pulse_point& p = points[i];
         if (i > 0 && p.at <= points[i - 1].at)
-            throw std::invalid_argument("point " + std::to_string(i) + " at " +
-                                        format_time(p.at) + " does not come after the one before (" +
+            throw std::invalid_argument("point " + std::to_string(i) + " at " + format_time(p.at) +
+                                        " does not come after the one before (" +
                                         format_time(points[i - 1].at) + ")");
         const bool next = p.level ? *p.level : !level;
         if (next == level) continue;

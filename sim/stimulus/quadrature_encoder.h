@@ -30,8 +30,8 @@ struct speed_point {
 };
 
 struct encoder_settings {
-    std::uint32_t lines = 0;          // lines per revolution, 1..1000000
-    std::vector<speed_point> speed;   // at least one point, times strictly increasing
+    std::uint32_t lines = 0;         // lines per revolution, 1..1000000
+    std::vector<speed_point> speed;  // at least one point, times strictly increasing
 };
 
 // What is wrong with `s`, one sentence each; empty when fine.
@@ -54,11 +54,11 @@ public:
 
 private:
     struct segment {
-        i128 t0 = 0;       // start time, ps
-        i128 length = 0;   // T in ps; 0: holds on for ever (constant speed)
-        i128 r0 = 0;       // rpm at t0
-        i128 slope = 0;    // r1 - r0 (0 for a constant segment)
-        i128 p0 = 0;       // position at t0, in 1/(120e12) quarter lines
+        i128 t0 = 0;      // start time, ps
+        i128 length = 0;  // T in ps; 0: holds on for ever (constant speed)
+        i128 r0 = 0;      // rpm at t0
+        i128 slope = 0;   // r1 - r0 (0 for a constant segment)
+        i128 p0 = 0;      // position at t0, in 1/(120e12) quarter lines
     };
     bool level_of(std::int64_t count) const;
     // Whether position(t0 + tau) >= x in segment s.

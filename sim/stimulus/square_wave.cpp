@@ -61,8 +61,8 @@ square_wave::square_wave(const square_settings& s) : s_(s) {
     const i128 min_half = static_cast<i128>((s.jitter + 1) * pd_);
     if (high_units_ < min_half || low_units < min_half)
         throw std::invalid_argument(
-            "square wave: the high and low times must each be at least one picosecond longer "
-            "than the jitter");
+            "square wave: the jitter must be shorter than the high time and the low time, by at "
+            "least 1 ps; accepted: a smaller jitter, or a duty cycle nearer 50 %");
     // The level the wave has at `start`: the last edge at or before it, from an edge surely
     // before it (two periods back).
     const i128 start = static_cast<i128>(s.start);
@@ -96,7 +96,8 @@ std::int64_t square_wave::first_at_or_after(i128 x) const {
 
 std::optional<edge> square_wave::next_edge(time_ps from) {
     const i128 start = static_cast<i128>(s_.start);
-    if (from <= s_.start && level_at_start_ != s_.idle_level) return edge{s_.start, level_at_start_};
+    if (from <= s_.start && level_at_start_ != s_.idle_level)
+        return edge{s_.start, level_at_start_};
     if (s_.stop && from > *s_.stop) return std::nullopt;
     const i128 x = std::max(static_cast<i128>(from), start + 1);
     const std::int64_t j = first_at_or_after(x);

@@ -59,9 +59,9 @@ private:
     std::int64_t first_at_or_after(i128 x) const;
 
     square_settings s_;
-    u128 pn_ = 0, pd_ = 1;   // period = pn / pd ps
-    i128 phase_units_ = 0;   // phase in 1/pd ps, reduced to one period
-    i128 high_units_ = 0;    // high time in 1/pd ps
+    u128 pn_ = 0, pd_ = 1;  // period = pn / pd ps
+    i128 phase_units_ = 0;  // phase in 1/pd ps, reduced to one period
+    i128 high_units_ = 0;   // high time in 1/pd ps
     bool level_at_start_ = false;
 };
 

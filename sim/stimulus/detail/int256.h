@@ -40,8 +40,10 @@ inline i256 multiply(i128 a, i128 b) {
     const bool negative = (a < 0) != (b < 0);
     const u128 x = static_cast<u128>(a < 0 ? -a : a);
     const u128 y = static_cast<u128>(b < 0 ? -b : b);
-    const std::uint64_t xl = static_cast<std::uint64_t>(x), xh = static_cast<std::uint64_t>(x >> 64);
-    const std::uint64_t yl = static_cast<std::uint64_t>(y), yh = static_cast<std::uint64_t>(y >> 64);
+    const std::uint64_t xl = static_cast<std::uint64_t>(x),
+                        xh = static_cast<std::uint64_t>(x >> 64);
+    const std::uint64_t yl = static_cast<std::uint64_t>(y),
+                        yh = static_cast<std::uint64_t>(y >> 64);
     i256 r;
     const u128 ll = static_cast<u128>(xl) * yl;
     const u128 lh = static_cast<u128>(xl) * yh;
