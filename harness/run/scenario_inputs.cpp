@@ -137,11 +137,12 @@ void read_pulses(reading& c, table_reader& r, source_spec& spec) {
             sim::stimulus::pulse_point p;
             if (const toml::array* pair = e.as_array()) {
                 const toml::node* lv = pair->size() == 2 ? pair->get(1) : nullptr;
-                const bool lv_ok = lv && lv->is_string() &&
-                                   (lv->as_string()->get() == "low" ||
-                                    lv->as_string()->get() == "high");
+                const bool lv_ok =
+                    lv && lv->is_string() &&
+                    (lv->as_string()->get() == "low" || lv->as_string()->get() == "high");
                 if (pair->size() != 2 || !lv_ok) {
-                    r.wrong(e, key, "a pair [time, level] with a level " + std::string(level_words));
+                    r.wrong(e, key,
+                            "a pair [time, level] with a level " + std::string(level_words));
                     ok = false;
                     continue;
                 }
@@ -176,8 +177,8 @@ void read_pulses(reading& c, table_reader& r, source_spec& spec) {
         try {
             points = sim::stimulus::read_pulse_csv(p.lexically_normal().string(), *f);
         } catch (const sim::scenario_error& e) {
-            r.report("file", "pulse file " + in_quotes(*f) +
-                                 " has mistakes (listed after this file's)");
+            r.report("file",
+                     "pulse file " + in_quotes(*f) + " has mistakes (listed after this file's)");
             c.out.add_foreign(e.findings());
             ok = false;
         }
@@ -251,10 +252,10 @@ void read_glitches(reading& c, table_reader& r, source_spec& spec, std::uint64_t
     g.settings.stop = r.time("stop");
     for (const std::string& p : sim::stimulus::glitch_problems(g.settings)) {
         const std::string key = p.find("rate") != std::string::npos && r.has("rate") ? "rate"
-                                : p.find("stop") != std::string::npos          ? "stop"
-                                : p.find("width") != std::string::npos          ? "width"
-                                : r.has("at")                                   ? "at"
-                                                                                : "";
+                                : p.find("stop") != std::string::npos                ? "stop"
+                                : p.find("width") != std::string::npos               ? "width"
+                                : r.has("at")                                        ? "at"
+                                                                                     : "";
         r.report(key, p + "; accepted: at = [times] or rate = a frequency, glitches that do not "
                           "overlap");
     }
@@ -297,9 +298,8 @@ void read_sources(reading& c, const toml::table& root, const std::set<std::strin
         table_reader r(c.out, *entry.table, "stimulus." + entry.name);
         if (timer_names.count(entry.name)) {
             c.out.add(entry.key->source(), "stimulus." + entry.name,
-                      "a source named like timer " + in_quotes(entry.name) +
-                          " would make \"" + entry.name +
-                          ".…\" ambiguous in [inputs]; accepted: a name no timer has");
+                      "a source named like timer " + in_quotes(entry.name) + " would make \"" +
+                          entry.name + ".…\" ambiguous in [inputs]; accepted: a name no timer has");
             continue;
         }
         auto kind = r.choice("kind", kinds, true);
@@ -359,8 +359,9 @@ std::optional<sim::stimulus::source_ref> resolve(const reading& c, const std::st
     sim::stimulus::source_ref ref{it->second, sim::stimulus::encoder_output::a};
     if (encoder) {
         if (!n.output || (*n.output != "a" && *n.output != "b")) {
-            error = "encoder " + in_quotes(n.name) + " has two outputs; accepted: " +
-                    in_quotes(n.name + ".a") + " or " + in_quotes(n.name + ".b");
+            error = "encoder " + in_quotes(n.name) +
+                    " has two outputs; accepted: " + in_quotes(n.name + ".a") + " or " +
+                    in_quotes(n.name + ".b");
             return std::nullopt;
         }
         if (*n.output == "b") ref.output = sim::stimulus::encoder_output::b;
@@ -393,7 +394,8 @@ void tie_glitches(reading& c) {
             if (!g) break;
             at = nullptr;
             for (const reading::pending_base& o : c.bases)
-                if (g == std::get_if<sim::stimulus::glitch_spec>(&c.sources.at(o.glitches)->settings)) {
+                if (g ==
+                    std::get_if<sim::stimulus::glitch_spec>(&c.sources.at(o.glitches)->settings)) {
                     std::string ignored;
                     if (auto oref = resolve(c, o.base, ignored)) at = oref->spec.get();
                 }
@@ -453,7 +455,8 @@ std::vector<input_wiring> read_inputs(sim::findings_list& out, const toml::table
         if (dot == std::string::npos) {
             out.add(k.source(), "inputs." + key,
                     "expected a timer input \"TIMER.INPUT\" as the key (\"fan.input1\", "
-                    "\"fan.trigger\", \"fan.fault\", \"fan.chain\"), got " + in_quotes(key));
+                    "\"fan.trigger\", \"fan.fault\", \"fan.chain\"), got " +
+                        in_quotes(key));
             continue;
         }
         keys.push_back({key.substr(0, dot), key.substr(dot + 1), &v, &k});
@@ -469,9 +472,9 @@ std::vector<input_wiring> read_inputs(sim::findings_list& out, const toml::table
         const auto ts = std::find_if(timers.begin(), timers.end(),
                                      [&](const timer_spec& x) { return x.name == ik.timer; });
         if (ts == timers.end()) {
-            out.add(ik.key->source(), path,
-                    unknown_name("timer", ik.timer, timer_list,
-                                 "none (the scenario has no timers)"));
+            out.add(
+                ik.key->source(), path,
+                unknown_name("timer", ik.timer, timer_list, "none (the scenario has no timers)"));
             continue;
         }
         const unsigned channels = ts->layout.instance.channels;
@@ -506,8 +509,8 @@ std::vector<input_wiring> read_inputs(sim::findings_list& out, const toml::table
             const auto p = std::find_if(timers.begin(), timers.end(),
                                         [&](const timer_spec& x) { return x.name == text; });
             if (p == timers.end()) {
-                report(*ik.value, unknown_name("timer", text, timer_list) + " (" + source_words +
-                                      ")");
+                report(*ik.value,
+                       unknown_name("timer", text, timer_list) + " (" + source_words + ")");
                 continue;
             }
             w.kind = input_wiring::source_kind::chain;
@@ -589,7 +592,8 @@ std::vector<input_wiring> read_inputs(sim::findings_list& out, const toml::table
                        "wiring loop: timer " + in_quotes(w.timer) + " would depend on its own " +
                            "outputs through " + w.label +
                            " (a timer's input would wait for the timer itself); accepted: a source "
-                           "that does not depend on timer " + in_quotes(w.timer));
+                           "that does not depend on timer " +
+                           in_quotes(w.timer));
                 continue;
             }
         }

@@ -6,6 +6,8 @@
  *          firmware with tick_input_set(), rising every 100 us (4800 ticks);
  *   wheel  counts a quadrature encoder x4 (22 quarter lines forward by 6 ms, 14 by 12 ms);
  *   tally  counts the gen timer's reload trigger pulses on its chained input (10 in 400 us).
+ * With the parameter misuse=1 the firmware instead asks for meter.input1, which the square wave
+ * drives: the run must end with a report.
  */
 #include <tickbench/firmware.h>
 
@@ -30,15 +32,19 @@ static void wait_until_ps(uint64_t t) {
 }
 
 void tick_firmware_main(void) {
+    if (tick_param("misuse", "0")[0] == '1') {
+        tick_input("meter.input1");
+        return;
+    }
     /* gen: 25 kHz PWM on channel 2 (index 1), a trigger pulse at every reload. */
     tick_write16(GEN + Q16_LIMIT, 1919);
     tick_write16(GEN + Q16_MATCH(1), 960);
-    tick_write16(GEN + Q16_SHAPE_AB,
-                 Q16_SHAPE_BYTE(1, Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) | Q16_SHAPE_MAIN_ENABLE));
+    tick_write16(GEN + Q16_SHAPE_AB, Q16_SHAPE_BYTE(1, Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) |
+                                                           Q16_SHAPE_MAIN_ENABLE));
     /* meter: channels 1 to 3 capture their own inputs' rising edges; the counter free-runs. */
-    tick_write16(METER + Q16_SENSE,
-                 Q16_SENSE_ROLE(0, DEMO_ROLE_CAPTURE_OWN) | Q16_SENSE_ROLE(1, DEMO_ROLE_CAPTURE_OWN) |
-                     Q16_SENSE_ROLE(2, DEMO_ROLE_CAPTURE_OWN));
+    tick_write16(METER + Q16_SENSE, Q16_SENSE_ROLE(0, DEMO_ROLE_CAPTURE_OWN) |
+                                        Q16_SENSE_ROLE(1, DEMO_ROLE_CAPTURE_OWN) |
+                                        Q16_SENSE_ROLE(2, DEMO_ROLE_CAPTURE_OWN));
     tick_write16(METER + Q16_RUN, Q16_RUN_ENABLE);
     /* wheel: an x4 encoder counter. */
     tick_write16(WHEEL + Q16_LINK, DEMO_COUNT_ENCODER_X4);
