@@ -17,6 +17,13 @@ std::unique_ptr<pulse_list> pulses(std::vector<edge> e, bool initial = false) {
     return std::make_unique<pulse_list>(std::move(e), initial);
 }
 
+// The wrapped timer's next event as the inputs announce it, or nothing.
+std::optional<models::time_ps> next_event_of(const timer_inputs& in) {
+    models::time_ps at = 0;
+    if (!in.next_event(at)) return std::nullopt;
+    return at;
+}
+
 struct recorder : models::input_observer {
     std::vector<std::string> seen;
     void on_input(unsigned input, bool level, models::time_ps at) override {
@@ -33,9 +40,7 @@ TEST(timer_inputs_test, delivers_edges_in_time_order_before_the_call_that_passes
     in.drive(models::input_of_channel(0), pulses({{10, true}, {30, false}}));
     in.drive(models::trigger_pin_input, pulses({{20, false}, {40, true}}, true));
     EXPECT_EQ(t.calls, (std::vector<std::string>{"initial 6=1"}));
-    models::time_ps next = 0;
-    ASSERT_TRUE(in.next_event(next));
-    EXPECT_EQ(next, 10u);
+    EXPECT_EQ(next_event_of(in), models::time_ps{10});
     in.read(models::timer_field::counter, 0, 25);
     in.advance_to(40);
     const std::vector<std::string> want = {"initial 6=1", "input 0=1 @10", "input 6=0 @20",
@@ -43,7 +48,7 @@ TEST(timer_inputs_test, delivers_edges_in_time_order_before_the_call_that_passes
                                            "advance 40"};
     EXPECT_EQ(t.calls, want);
     EXPECT_EQ(r.seen, (std::vector<std::string>{"0=1 @10", "6=0 @20", "0=0 @30", "6=1 @40"}));
-    EXPECT_FALSE(in.next_event(next));
+    EXPECT_EQ(next_event_of(in), std::nullopt);
 }
 
 TEST(timer_inputs_test, a_square_wave_is_asked_only_as_far_as_the_timer_goes) {
@@ -55,9 +60,7 @@ TEST(timer_inputs_test, a_square_wave_is_asked_only_as_far_as_the_timer_goes) {
     in.advance_to(1000);
     // Edges at 0, 500 and 1000 ps, nothing beyond; the next one is announced.
     EXPECT_EQ(t.calls.size(), 4u);
-    models::time_ps next = 0;
-    ASSERT_TRUE(in.next_event(next));
-    EXPECT_EQ(next, 1500u);
+    EXPECT_EQ(next_event_of(in), models::time_ps{1500});
 }
 
 TEST(timer_inputs_test, a_loopback_brings_its_producer_along_first) {
@@ -66,9 +69,7 @@ TEST(timer_inputs_test, a_loopback_brings_its_producer_along_first) {
     producer.script = {{100, 2, true}, {250, 2, false}, {260, 4, true}, {400, 2, true}};
     producer.observers.push_back(&in.follow_pin(models::input_of_channel(0), producer, 2));
     // The producer's next event counts among the consumer's: it may become an input edge.
-    models::time_ps next = 0;
-    ASSERT_TRUE(in.next_event(next));
-    EXPECT_EQ(next, 100u);
+    EXPECT_EQ(next_event_of(in), models::time_ps{100});
     in.write(models::timer_field::enable, 0, 1, 300);
     const std::vector<std::string> want = {"input 0=1 @100", "input 0=0 @250", "write @300"};
     EXPECT_EQ(consumer.calls, want);
@@ -86,9 +87,7 @@ TEST(timer_inputs_test, a_producer_run_ahead_keeps_its_edges_until_the_consumer_
     producer.advance_to(500);  // firmware touched the producer at 500 already
     in.advance_to(150);
     EXPECT_EQ(consumer.calls, (std::vector<std::string>{"input 6=1 @100", "advance 150"}));
-    models::time_ps next = 0;
-    ASSERT_TRUE(in.next_event(next));
-    EXPECT_EQ(next, 200u);
+    EXPECT_EQ(next_event_of(in), models::time_ps{200});
 }
 
 TEST(timer_inputs_test, chained_pulses_reach_the_consumer_at_their_times) {
