@@ -323,6 +323,34 @@ void cpu::set_handler(unsigned line, void (*handler)()) {
     handlers_[line] = handler;
 }
 
+int cpu::find_input(const std::string& name) {
+    for (std::size_t i = 0; i < inputs_.size(); ++i) {
+        if (inputs_[i].name != name) continue;
+        if (!inputs_[i].driven_by.empty())
+            fail("firmware asked to drive input '" + name + "', which [inputs] connects to " +
+                 inputs_[i].driven_by +
+                 "; firmware may drive only inputs that no stimulus, loopback or timer drives");
+        return static_cast<int>(i);
+    }
+    return -1;
+}
+
+void cpu::set_input(int handle, bool level) {
+    beat();
+    if (handle < 0 || static_cast<std::size_t>(handle) >= inputs_.size()) {
+        fail("firmware set input handle " + std::to_string(handle) +
+             ", which tick_input() did not give (the part has " + std::to_string(inputs_.size()) +
+             " inputs)");
+        return;
+    }
+    // The input changes at the firmware's time: every peripheral first gets there, so that the
+    // change reaches waveforms and checks in order.
+    bring_models_to(local_);
+    const named_input& in = inputs_[static_cast<std::size_t>(handle)];
+    in.timer->set_input(in.input, level, local_);
+    forget_horizons();
+}
+
 std::vector<access_record> cpu::last_accesses() const {
     std::vector<access_record> v;
     const std::uint64_t n = std::min<std::uint64_t>(accesses_, ring_.size());

@@ -68,6 +68,13 @@ public:
     // Peripherals whose state firmware can see: brought up to the cpu's local time before each
     // access, so that their interrupt requests are known in time.
     void watch(models::timer_core_if& peripheral) { peripherals_.push_back({&peripheral, 0}); }
+    // An input firmware may find by `name` ("fan.input1") and set: input `input` of `timer`.
+    // `driven_by` names its source when one drives it ("stimulus \"tach\""; empty: none), in
+    // which case firmware is refused it.
+    void add_input(std::string name, models::timer_core_if& timer, unsigned input,
+                   std::string driven_by) {
+        inputs_.push_back({std::move(name), &timer, input, std::move(driven_by)});
+    }
     // Called with an error text when firmware fails (a bus error with the error policy, an
     // unknown line...). The platform ends the run with a report.
     void on_failure(std::function<void(const std::string&)> f) { on_failure_ = std::move(f); }
@@ -87,6 +94,12 @@ public:
     void irq_enable();
     void irq_line_enable(unsigned line, bool enable);
     void set_handler(unsigned line, void (*handler)());
+    // The handle of the input named `name`, or -1 when there is none; an input a source drives
+    // fails the run.
+    int find_input(const std::string& name);
+    // Sets input `handle` (from find_input) to `level` at the local time; an unknown handle fails
+    // the run.
+    void set_input(int handle, bool level);
     // Local simulated time of the firmware (never after the run's end).
     time_ps now() const { return local_; }
     // The cpu whose firmware is running (set while its thread runs).
@@ -143,6 +156,13 @@ private:
     std::function<void()> entry_;
     std::function<void(const std::string&)> on_failure_;
     std::vector<watched> peripherals_;
+    struct named_input {
+        std::string name;
+        models::timer_core_if* timer;
+        unsigned input;
+        std::string driven_by;
+    };
+    std::vector<named_input> inputs_;
     std::array<void (*)(), 64> handlers_{};
 
     time_ps local_ = 0;

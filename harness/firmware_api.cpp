@@ -58,6 +58,11 @@ int tick_irq_line(const char* name) {
     }
 }
 
+int tick_input(const char* name) {
+    return harness::running().find_input(name == nullptr ? "" : name);
+}
+void tick_input_set(int handle, int level) { harness::running().set_input(handle, level != 0); }
+
 uint64_t tick_now_ps(void) { return harness::running().now(); }
 
 const char* tick_param(const char* name, const char* fallback) {

@@ -6,6 +6,7 @@
 #include <spdlog/spdlog.h>
 
 #include <unistd.h>
+#include <algorithm>
 #include <atomic>
 #include <chrono>
 #include <condition_variable>
@@ -135,6 +136,12 @@ void advance_in_order(const std::vector<models::timer_core_if*>& models, time_ps
     for (models::timer_core_if* m : models) m->advance_to(t);
 }
 
+std::string input_name(unsigned input) {
+    if (input == models::trigger_pin_input) return "trigger";
+    if (input == models::fault_input) return "fault";
+    return "input" + std::to_string(input + 1);
+}
+
 platform::platform() = default;
 platform::~platform() = default;
 
@@ -157,14 +164,20 @@ void platform::build() {
         lines.push_back({t->spec.name, t->spec.irq_priority, t->spec.irq_extra_delay});
     irqs_ = std::make_unique<interrupt_controller>(lines);
     std::vector<models::address_range> ranges;
+    for (auto& t : timers_) {
+        t->module = std::make_unique<models::timer_module>(
+            t->spec.name.c_str(), t->spec.layout.instance, clocks_, t->spec.clock);
+        for (models::timer_observer* o : t->spec.observers) t->module->add_observer(o);
+        for (models::input_observer* o : t->spec.input_observers)
+            t->module->inputs().add_observer(o);
+    }
+    // Inputs take their initial levels before the reset values are written.
+    wire_inputs();
     for (std::size_t i = 0; i < timers_.size(); ++i) {
         timer_slot& t = *timers_[i];
         const models::timer_config& cfg = t.spec.layout.instance;
-        t.module =
-            std::make_unique<models::timer_module>(t.spec.name.c_str(), cfg, clocks_, t.spec.clock);
         t.irq.irqs = irqs_.get();
         t.irq.line = static_cast<unsigned>(i);
-        for (models::timer_observer* o : t.spec.observers) t.module->add_observer(o);
         t.module->add_observer(&t.irq);
         t.registers = std::make_unique<models::register_file>(t.spec.layout, *t.module, cfg,
                                                               t.spec.name, policy_, t.spec.base);
@@ -180,7 +193,25 @@ void platform::build() {
     for (auto& t : timers_) router_->initiator_socket.bind(t->target->socket);
     if (cpu_cfg_) {
         cpu_ = std::make_unique<harness::cpu>("cpu", *cpu_cfg_, clocks_, *irqs_, entry_);
-        for (auto& t : timers_) cpu_->watch(*t->module);
+        for (auto& t : timers_) {
+            cpu_->watch(*t->module);
+            // Every level input by name, for tick_input(); the driven ones say by what.
+            const models::timer_config& cfg = t->spec.layout.instance;
+            std::vector<unsigned> levels;
+            for (unsigned c = 0; c < cfg.channels; ++c)
+                levels.push_back(models::input_of_channel(c));
+            levels.push_back(models::trigger_pin_input);
+            levels.push_back(models::fault_input);
+            for (unsigned in : levels) {
+                std::string driver;
+                for (const input_wiring& w : inputs_)
+                    if (w.timer == t->spec.name && w.input == in &&
+                        w.kind != input_wiring::source_kind::chain &&
+                        w.kind != input_wiring::source_kind::firmware)
+                        driver = w.label;
+                cpu_->add_input(t->spec.name + "." + input_name(in), *t->module, in, driver);
+            }
+        }
         cpu_->socket.bind(router_->target_socket);
         cpu_->on_failure([this](const std::string& why) {
             fail(why.rfind("firmware hang", 0) == 0 ? run_outcome::hung : run_outcome::failed, why);
@@ -196,6 +227,58 @@ void platform::build() {
         idle_->socket.bind(router_->target_socket);
     }
     built_ = true;
+}
+
+void platform::wire_inputs() {
+    const auto slot = [this](const std::string& name) -> timer_slot& {
+        for (auto& t : timers_)
+            if (t->spec.name == name) return *t;
+        throw std::invalid_argument("input wiring names no timer '" + name + "'");
+    };
+    // A consumer is brought along by its producers: refuse any timer that depends on itself.
+    const auto depends = [this](const std::string& from) {
+        std::vector<std::string> path = {from};
+        std::vector<std::string> todo = {from};
+        std::vector<std::string> seen;
+        while (!todo.empty()) {
+            const std::string t = todo.back();
+            todo.pop_back();
+            for (const input_wiring& w : inputs_) {
+                if (w.timer != t || w.producer.empty()) continue;
+                if (w.producer == from)
+                    throw std::invalid_argument("wiring loop: timer '" + from +
+                                                "' depends on its own outputs through '" + t + "." +
+                                                input_name(w.input) + "' (" + w.label +
+                                                "); accepted: wiring in which no timer feeds "
+                                                "itself, directly or through others");
+                if (std::find(seen.begin(), seen.end(), w.producer) == seen.end()) {
+                    seen.push_back(w.producer);
+                    todo.push_back(w.producer);
+                }
+            }
+        }
+    };
+    for (auto& t : timers_) depends(t->spec.name);
+    for (const input_wiring& w : inputs_) {
+        models::timer_inputs& in = slot(w.timer).module->inputs();
+        switch (w.kind) {
+            case input_wiring::source_kind::stimulus:
+                in.drive(w.input, sim::stimulus::make_source(w.stimulus));
+                break;
+            case input_wiring::source_kind::loopback: {
+                models::timer_module& p = *slot(w.producer).module;
+                p.add_observer(&in.follow_pin(w.input, p, w.pin));
+                break;
+            }
+            case input_wiring::source_kind::chain: {
+                models::timer_module& p = *slot(w.producer).module;
+                p.add_observer(&in.follow_triggers(p));
+                break;
+            }
+            case input_wiring::source_kind::firmware:
+                break;
+        }
+    }
 }
 
 void platform::start_watchdog() {

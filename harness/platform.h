@@ -14,6 +14,7 @@
 #include "models/layout/register_layout.h"
 #include "models/timer/timer_module.h"
 #include "sim/clock_tree.h"
+#include "sim/stimulus/source_spec.h"
 
 #include <functional>
 #include <memory>
@@ -37,7 +38,30 @@ struct timer_spec {
     // Watchers of the timer's outputs (waveform and check probes), attached before the reset
     // values are applied so they see every output change from time 0. They must outlive the run.
     std::vector<models::timer_observer*> observers;
+    // Watchers of the timer's inputs (the same probes), told of every level an input takes.
+    std::vector<models::input_observer*> input_observers;
 };
+
+// What drives one input of a timer (docs/scenario.md, "Inputs"; docs/architecture.md, "Input
+// stimulus").
+struct input_wiring {
+    enum class source_kind {
+        stimulus,  // a described source, computed lazily
+        loopback,  // another timer's output pin
+        chain,     // another timer's trigger pulses, on the chained input
+        firmware,  // set by the firmware with tick_input_set()
+    };
+    std::string timer;   // the timer whose input this is
+    unsigned input = 0;  // input_of_channel(c), trigger_pin_input or fault_input (not for chain)
+    source_kind kind = source_kind::stimulus;
+    sim::stimulus::source_ref stimulus;  // stimulus
+    std::string producer;                // loopback, chain: the timer that produces
+    unsigned pin = 0;                    // loopback: the producer's output pin
+    std::string label;                   // for messages: "stimulus \"tach\"", "fan.channel2"
+};
+
+// The name of input `input` of a timer: "input1" (channel 0's), ..., "trigger", "fault".
+std::string input_name(unsigned input);
 
 // Brings every model up to time t, always advancing the one whose next event is earliest, so that
 // what they report reaches shared observers (waveforms, checks) in time order.
@@ -70,6 +94,9 @@ public:
     // The clock tree, to fill before build().
     sim::clock_tree& clocks() { return clocks_; }
     void add_timer(timer_spec spec);
+    // Drives a timer input (before build()). build() throws std::invalid_argument for an unknown
+    // timer, an input driven twice, or wiring in which a timer depends on itself.
+    void add_input(input_wiring w) { inputs_.push_back(std::move(w)); }
     // The firmware and its processor. Without it the part runs on its own.
     void set_firmware(const cpu_config& cfg, std::function<void()> entry);
     void set_unmapped_policy(models::unmapped_policy p) { policy_ = p; }
@@ -105,9 +132,11 @@ private:
     struct timer_slot;
     struct idle_initiator;
     void start_watchdog();
+    void wire_inputs();
 
     sim::clock_tree clocks_;
     std::vector<std::unique_ptr<timer_slot>> timers_;
+    std::vector<input_wiring> inputs_;
     std::optional<cpu_config> cpu_cfg_;
     std::function<void()> entry_;
     models::unmapped_policy policy_ = models::unmapped_policy::warn;

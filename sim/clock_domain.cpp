@@ -1,5 +1,7 @@
 #include "sim/clock_domain.h"
 
+#include "sim/seeded_hash.h"
+
 #include <algorithm>
 #include <string>
 
@@ -7,14 +9,6 @@ namespace sim {
 
 namespace {
 constexpr u128 u64_max = std::numeric_limits<std::uint64_t>::max();
-
-// splitmix64: a fast, well-mixed hash giving each (seed, edge) pair its own jitter draw.
-std::uint64_t mix(std::uint64_t x) {
-    x += 0x9e3779b97f4a7c15ULL;
-    x = (x ^ (x >> 30)) * 0xbf58476d1ce4e5b9ULL;
-    x = (x ^ (x >> 27)) * 0x94d049bb133111ebULL;
-    return x ^ (x >> 31);
-}
 
 [[noreturn]] void throw_limit(const char* what) { throw_time_limit(what); }
 }  // namespace
@@ -125,7 +119,7 @@ bool clock_segment::continues(const clock_segment& prev) const {
 time_ps clock_segment::jittered_time_of(std::uint64_t k) const {
     const time_ps t = nominal_time_of(k);
     const std::uint64_t idx = jitter_base_ + (k - first_tick_) * jitter_step_;
-    const time_ps d = mix(jitter_seed_ ^ mix(idx)) % (jitter_ + 1);
+    const time_ps d = seeded_draw(jitter_seed_, idx) % (jitter_ + 1);
     if (t > max_time_ps - d) throw_limit("clock edge");
     return t + d;
 }

@@ -61,6 +61,8 @@ public:
     // Findings of another file (a timer's register layout), kept after this file's own.
     void add_foreign(const std::vector<scenario_finding>& f);
     bool empty() const { return own_.empty() && foreign_.empty(); }
+    // How many findings so far (a reader compares counts to know whether a table read cleanly).
+    std::size_t count() const { return own_.size() + foreign_.size(); }
     // Throws scenario_error with every finding, this file's in file order, then the others.
     void raise_if_any();
 

@@ -9,6 +9,7 @@
 #include "harness/cpu.h"
 #include "harness/platform.h"
 #include "models/layout/unmapped_access.h"
+#include "models/timer/timer_probe.h"
 #include "sim/checks/check_spec.h"
 #include "sim/clock_tree.h"
 
@@ -59,9 +60,15 @@ struct scenario {
     run_settings run;
     wave_settings waves;
     std::vector<sim::check_spec> checks;
+    // [inputs]: what drives each timer input, sources resolved ([stimulus.NAME]).
+    std::vector<input_wiring> inputs;
 
-    // Every signal the timers' probes declare, in id order ("fan.channel1", ..., "fan.irq").
+    // Every signal the timers' probes declare, in id order ("fan.channel1", ..., "fan.irq",
+    // "fan.input1", ...).
     std::vector<std::string> signal_names() const;
+    // The inputs timer `timer`'s probe shows: each input with a level that [inputs] wires (not the
+    // chained input), in input order, with its level at time 0.
+    std::vector<models::shown_input> shown_inputs(const std::string& timer) const;
 };
 
 // Command-line settings that replace the file's.
@@ -81,6 +88,7 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree,
 // The signals a timer named `timer` with instance `cfg` shows, in the order its probe declares
 // them.
 std::vector<std::string> timer_signal_names(const std::string& timer,
-                                            const models::timer_config& cfg);
+                                            const models::timer_config& cfg,
+                                            const std::vector<models::shown_input>& inputs = {});
 
 }  // namespace harness::run

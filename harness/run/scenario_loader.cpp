@@ -8,6 +8,8 @@
 
 #include "harness/run/scenario.h"
 
+#include "harness/run/scenario_inputs.h"
+
 #include "models/layout/register_layout.h"
 #include "sim/checks/check_spec_text.h"
 #include "sim/checks/condition.h"
@@ -37,9 +39,6 @@ namespace fs = std::filesystem;
 
 constexpr std::int64_t int64_max = std::numeric_limits<std::int64_t>::max();
 constexpr std::int64_t max_cycles = 1'000'000'000;
-const char* const stimulus_message =
-    "not supported yet (reserved for input stimulus, which a later version adds); remove this "
-    "table";
 
 std::string hex(std::uint64_t v) {
     char b[24];
@@ -790,20 +789,36 @@ void read_checks(context& c, const toml::table& root, const std::vector<std::str
 }  // namespace
 
 std::vector<std::string> timer_signal_names(const std::string& timer,
-                                            const models::timer_config& cfg) {
+                                            const models::timer_config& cfg,
+                                            const std::vector<models::shown_input>& inputs) {
     std::vector<std::string> v;
     for (unsigned ch = 1; ch <= cfg.channels; ++ch) {
         v.push_back(timer + ".channel" + std::to_string(ch));
         if (cfg.complementary) v.push_back(timer + ".channel" + std::to_string(ch) + "_complement");
     }
     v.push_back(timer + ".irq");
+    for (const models::shown_input& in : inputs) v.push_back(timer + "." + in.name);
+    return v;
+}
+
+std::vector<models::shown_input> scenario::shown_inputs(const std::string& timer) const {
+    std::vector<models::shown_input> v;
+    for (const input_wiring& w : inputs) {
+        if (w.timer != timer || w.kind == input_wiring::source_kind::chain) continue;
+        const bool initial = w.kind == input_wiring::source_kind::stimulus &&
+                             sim::stimulus::make_source(w.stimulus)->initial_level();
+        v.push_back({w.input, input_name(w.input), initial});
+    }
+    std::sort(v.begin(), v.end(), [](const models::shown_input& a, const models::shown_input& b) {
+        return a.input < b.input;
+    });
     return v;
 }
 
 std::vector<std::string> scenario::signal_names() const {
     std::vector<std::string> v;
     for (const timer_spec& t : timers) {
-        const auto names = timer_signal_names(t.name, t.layout.instance);
+        const auto names = timer_signal_names(t.name, t.layout.instance, shown_inputs(t.name));
         v.insert(v.end(), names.begin(), names.end());
     }
     return v;
@@ -818,14 +833,12 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree,
     findings_list out(path);
     context c{out, path, fs::path(path).parent_path(), tree, false, s, {}};
 
-    const std::vector<std::string> tables = {"clocks", "timers", "cpu",   "firmware",
-                                             "run",    "waves",  "checks"};
+    const std::vector<std::string> tables = {"clocks", "timers", "cpu",      "firmware", "run",
+                                             "waves",  "checks", "stimulus", "inputs"};
     for (auto&& [k, v] : root) {
         (void)v;
         const std::string key(k.str());
-        if (key == "stimulus" || key == "inputs") {
-            out.add(k.source(), key, "[" + key + "] is " + stimulus_message);
-        } else if (std::find(tables.begin(), tables.end(), key) == tables.end()) {
+        if (std::find(tables.begin(), tables.end(), key) == tables.end()) {
             out.add(k.source(), key,
                     "unknown table " + in_quotes(key) + hint(key, tables) +
                         "; accepted: " + join(tables));
@@ -837,6 +850,7 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree,
     if (ov.seed) s.run.seed = *ov.seed;
     read_clocks(c, root, s.run.seed);
     read_timers(c, root);
+    s.inputs = read_inputs(out, root, c.dir, s.timers, c.broken_timers, s.run.seed);
     read_cpu(c, root);
     if (s.cpu && ov.start_offset_cycles) s.cpu->start_offset_cycles = *ov.start_offset_cycles;
     read_firmware(c, root, ov);

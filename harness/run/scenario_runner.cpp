@@ -183,11 +183,13 @@ void start_run(platform& part, run_state& state, const std::string& path,
     sim::signal_id id = 0;
     for (timer_spec spec : s.timers) {
         state.probes.push_back(std::make_unique<models::timer_probe>(
-            spec.name, spec.layout.instance, state.fanout, id));
+            spec.name, spec.layout.instance, state.fanout, id, nullptr, s.shown_inputs(spec.name)));
         id = state.probes.back()->end_id();
         spec.observers.push_back(state.probes.back().get());
+        spec.input_observers.push_back(state.probes.back().get());
         part.add_timer(std::move(spec));
     }
+    for (const input_wiring& w : s.inputs) part.add_input(w);
     part.set_unmapped_policy(s.run.unmapped);
     part.set_hang_wall_seconds(s.run.hang_wall_seconds);
     if (s.firmware) {
@@ -284,8 +286,12 @@ void check_scenario(const std::string& path, std::ostream& out) {
     if (fw)
         out << "firmware " << fw->path() << ": loads, entry " << s.firmware->entry << " found\n";
     if (!s.run.duration) out << "no [run] duration: `tickbench run` needs --duration\n";
+    for (const input_wiring& w : s.inputs)
+        out << "input " << w.timer << "."
+            << (w.kind == input_wiring::source_kind::chain ? "chain" : input_name(w.input)) << ": "
+            << w.label << "\n";
     out << path << ": ok, " << rows.size() << " clocks, " << s.timers.size() << " timers, "
-        << s.checks.size() << " checks\n";
+        << s.inputs.size() << " inputs, " << s.checks.size() << " checks\n";
 }
 
 }  // namespace harness::run

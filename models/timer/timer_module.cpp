@@ -49,7 +49,7 @@ void timer_module::wake() {
     wake_now_ = now;
     in_wake_ = true;
     drive(now);
-    core_.advance_to(now);
+    inputs_.advance_to(now);
     in_wake_ = false;
     drive(now);
     reschedule();
@@ -85,7 +85,7 @@ void timer_module::reschedule() {
     const time_ps now = now_ps();
     time_ps next = sim::max_time_ps;
     time_ps core_next;
-    if (core_.next_event(core_next)) next = core_next;
+    if (inputs_.next_event(core_next)) next = core_next;
     if (!queue_.empty()) next = std::min(next, queue_.front().at);
     if (!trigger_times_.empty()) next = std::min(next, trigger_times_.front());
     if (next == sim::max_time_ps || next == scheduled_) return;
@@ -124,40 +124,40 @@ void timer_module::on_trigger(time_ps at) {
 }
 
 void timer_module::advance_to(time_ps t) {
-    core_.advance_to(t);
+    inputs_.advance_to(t);
     reschedule();
 }
 void timer_module::write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) {
-    core_.write(f, channel, value, t);
+    inputs_.write(f, channel, value, t);
     reschedule();
 }
 std::uint32_t timer_module::read(timer_field f, unsigned channel, time_ps t) {
-    const std::uint32_t v = core_.read(f, channel, t);
+    const std::uint32_t v = inputs_.read(f, channel, t);
     reschedule();
     return v;
 }
 void timer_module::clear_flags(std::uint32_t mask, time_ps t) {
-    core_.clear_flags(mask, t);
+    inputs_.clear_flags(mask, t);
     reschedule();
 }
 void timer_module::set_input(unsigned input, bool level, time_ps t) {
-    core_.set_input(input, level, t);
+    inputs_.set_input(input, level, t);
     reschedule();
 }
 void timer_module::set_initial_input(unsigned input, bool level) {
-    core_.set_initial_input(input, level);
+    inputs_.set_initial_input(input, level);
 }
 void timer_module::chained_pulse(time_ps t) {
-    core_.chained_pulse(t);
+    inputs_.chained_pulse(t);
     reschedule();
 }
 void timer_module::set_fault_input(bool level, time_ps t) {
-    core_.set_fault_input(level, t);
+    inputs_.set_fault_input(level, t);
     reschedule();
 }
-bool timer_module::next_event(time_ps& at) const { return core_.next_event(at); }
+bool timer_module::next_event(time_ps& at) const { return inputs_.next_event(at); }
 void timer_module::clock_changed(time_ps t) {
-    core_.clock_changed(t);
+    inputs_.clock_changed(t);
     scheduled_ = sim::max_time_ps;  // the next event's time may have moved either way
     reschedule();
 }

@@ -3,7 +3,8 @@
 // signal, the trigger event and the one kernel event that wakes the timer at the next instant that
 // matters. All behaviour is in timer_core; this module only forwards, schedules and drives signals.
 //
-// The module is itself a timer_core_if: a bus target (models/bus/) calls it, each access lands in
+// The module is itself a timer_core_if, with the timer's inputs in front of the core
+// (timer_inputs.h): a bus target (models/bus/) calls it, each access lands in
 // the core at its exact time, and the module reschedules its wake-up. Accesses may come ahead of
 // the kernel's time (temporal decoupling); what the core reports for such times is queued and
 // driven on the signals when the kernel reaches them.
@@ -15,6 +16,7 @@
 // at the end of a run).
 
 #include "models/timer/timer_core.h"
+#include "models/timer/timer_inputs.h"
 #include "sim/clock_tree.h"
 
 #include <systemc>
@@ -64,6 +66,9 @@ public:
     // Extra observer (a checker, a recorder) told of everything the core reports, at report time.
     void add_observer(timer_observer* o) { observers_.push_back(o); }
     timer_core& core() { return core_; }
+    // The timer's inputs: give them their sources (during elaboration, before any other call).
+    // Every call on the module goes through them, so input edges reach the core in time.
+    timer_inputs& inputs() { return inputs_; }
 
     // timer_core_if: forwards to the core and reschedules.
     void advance_to(time_ps t) override;
@@ -97,6 +102,7 @@ private:
     sim::clock_tree& tree_;
     std::string clock_node_;
     timer_core core_;
+    timer_inputs inputs_{core_};
     std::vector<std::unique_ptr<sc_core::sc_signal<bool>>> pins_;
     std::vector<bool> driven_;
     bool irq_driven_ = false;

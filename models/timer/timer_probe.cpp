@@ -5,8 +5,9 @@
 namespace models {
 
 timer_probe::timer_probe(const std::string& timer_name, const timer_config& cfg,
-                         sim::signal_sink& sink, sim::signal_id first_id, timer_observer* next)
-    : sink_(sink), next_(next), pin_ids_(2 * cfg.channels, none_) {
+                         sim::signal_sink& sink, sim::signal_id first_id, timer_observer* next,
+                         const std::vector<shown_input>& inputs)
+    : sink_(sink), next_(next), pin_ids_(2 * cfg.channels, none_), input_ids_(input_count, none_) {
     sim::signal_id id = first_id;
     for (unsigned c = 0; c < cfg.channels; ++c) {
         const std::string name = "channel" + std::to_string(c + 1);
@@ -19,6 +20,10 @@ timer_probe::timer_probe(const std::string& timer_name, const timer_config& cfg,
     }
     irq_id_ = id;
     sink_.declare(id++, sim::signal_info{timer_name, "irq", false});
+    for (const shown_input& in : inputs) {
+        input_ids_.at(in.input) = id;
+        sink_.declare(id++, sim::signal_info{timer_name, in.name, in.initial});
+    }
     end_id_ = id;
 }
 
@@ -41,6 +46,11 @@ void timer_probe::on_flags_set(std::uint32_t bits, time_ps at) {
 void timer_probe::on_irq(bool level, time_ps at) {
     sink_.change(irq_id_, level, at);
     if (next_ != nullptr) next_->on_irq(level, at);
+}
+
+void timer_probe::on_input(unsigned input, bool level, time_ps at) {
+    if (input < input_ids_.size() && input_ids_[input] != none_)
+        sink_.change(input_ids_[input], level, at);
 }
 
 void timer_probe::on_trigger(time_ps at) {

@@ -41,6 +41,14 @@ void tick_irq_set_handler(unsigned line, tick_irq_handler_fn handler);
 /* Line number of an interrupt line by name (the peripheral's name); -1 if there is none. */
 int tick_irq_line(const char* name);
 
+/* A handle for the timer input named `name` ("fan.input1", "fan.trigger", "fan.fault") that the
+ * firmware drives itself, as a test bench would; -1 when the part has no such input. An input that
+ * the scenario's [inputs] already drives ends the run. No cost. */
+int tick_input(const char* name);
+/* Sets input `handle` (from tick_input) to `level` (0 low, else high) at the firmware's time now.
+ * No cost. */
+void tick_input_set(int handle, int level);
+
 /* Simulated time now, in picoseconds (for logs and checks, not for timing decisions). */
 uint64_t tick_now_ps(void);
 /* Firmware parameter from the scenario, or `fallback` when absent. */
