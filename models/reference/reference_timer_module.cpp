@@ -41,6 +41,12 @@ void reference_timer_module::clear_flags(std::uint32_t mask) { core_.clear_flags
 
 void reference_timer_module::set_fault_input(bool level) { core_.set_fault_input(level, now_ps()); }
 
+void reference_timer_module::set_input(unsigned input, bool level) {
+    core_.set_input(input, level, now_ps());
+}
+
+void reference_timer_module::chained_pulse() { core_.chained_pulse(now_ps()); }
+
 void reference_timer_module::signal_observer::on_pin(unsigned pin, bool level, time_ps at) {
     owner_.pins[pin].write(level);
     if (extra_) extra_->on_pin(pin, level, at);

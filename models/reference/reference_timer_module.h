@@ -44,6 +44,11 @@ public:
     void clear_flags(std::uint32_t mask);
     // Fault input change at the current simulation time.
     void set_fault_input(bool level);
+    // Input `input` (models::input_of_channel(c) or trigger_pin_input) changes at the current
+    // simulation time.
+    void set_input(unsigned input, bool level);
+    // A pulse on the chained input at the current simulation time.
+    void chained_pulse();
     // The plain model inside.
     reference_timer& core() { return core_; }
 

@@ -161,7 +161,9 @@ struct timer_config {
 };
 
 // Whether a write of `value` to field f means something in this instance. Enumerated fields (mode,
-// slope, reload_policy, action, trigger_select) have reserved values, which both models ignore
+// slope, reload_policy, action, trigger_select, and on the input side channel_role, capture_edge,
+// capture_prescaler, filter_divider, count_source, trigger_action, trigger_source, trigger_edge,
+// trigger_filter, input_filter) have reserved values, which both models ignore
 // (docs/timer-model.md, "Out-of-range writes"); every other field takes any value.
 bool is_defined_value(const timer_config& cfg, timer_field f, std::uint32_t value);
 

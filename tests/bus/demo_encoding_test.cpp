@@ -271,6 +271,25 @@ struct layout_rig {
     models::register_file regs;
 };
 
+TEST(demo_encoding_test, a_partial_write_of_a_capture_register_clears_its_flag_by_its_read) {
+    // docs/register-layouts.md, "Fields covered in part": the merge read is a read.
+    layout_rig rig("timer16_quad");
+    rig.set(timer_field::channel_role, DEMO_ROLE_CAPTURE_OWN, 0);
+    rig.set(timer_field::enable, 1, 0);
+    rig.timer.set_input(models::input_of_channel(0), true, 10'500'000);
+    rig.timer.advance_to(20'000'000);
+    ASSERT_NE(rig.timer.read(timer_field::flags, 0, 20'000'000) & models::flag_channel(0), 0u);
+    std::uint32_t captured = 0;
+    rig.regs.read(Q16_MATCH(0), 2, captured, 20'000'000);
+    rig.timer.set_input(models::input_of_channel(0), false, 21'500'000);
+    rig.timer.set_input(models::input_of_channel(0), true, 22'500'000);
+    rig.timer.advance_to(30'000'000);
+    ASSERT_NE(rig.timer.read(timer_field::flags, 0, 30'000'000) & models::flag_channel(0), 0u);
+    rig.regs.write(Q16_MATCH(0) + 1, 1, 0xff, 30'000'000);  // ignored, but merged through a read
+    EXPECT_EQ(rig.timer.read(timer_field::flags, 0, 30'000'000) & models::flag_channel(0), 0u);
+    EXPECT_GT(rig.timer.read(timer_field::compare, 0, 30'000'000), captured);
+}
+
 TEST(demo_encoding_test, every_documented_action_code_does_what_the_table_says) {
     const auto actions = documented_actions();
     ASSERT_EQ(actions.size(), 8u) << "the action table of docs/timer-model.md was not found whole";

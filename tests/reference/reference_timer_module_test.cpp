@@ -44,5 +44,36 @@ TEST(reference_timer_module_test, drives_pins_from_clock_edges) {
     EXPECT_EQ(timer.read(timer_field::counter), 0u);
 }
 
+TEST(reference_timer_module_test, forwards_input_edges_and_chained_pulses) {
+    sim::clock_domain domain(sim::frequency::hz(1'000'000'000));
+    sc_core::sc_clock clk("clk", sc_core::sc_time(1, sc_core::SC_NS));
+    models::timer_config cfg;
+    cfg.channels = 2;
+    models::reference::reference_timer_module timer("timer", cfg, domain);
+    timer.clock(clk);
+    timer.write(timer_field::period, 0, 0xffff);
+    timer.write(timer_field::channel_role, 1,
+                static_cast<std::uint32_t>(models::channel_role::capture_own));
+    timer.write(timer_field::trigger_source, 0,
+                static_cast<std::uint32_t>(models::trigger_source::chained));
+    timer.write(timer_field::enable, 0, 1);
+
+    // An input edge between two ticks: the capture comes 2 ticks later (synchroniser depth 2,
+    // filter length 1), with the counter as it stands after that tick.
+    sc_core::sc_start(sc_core::sc_time(250'500, sc_core::SC_PS));
+    timer.set_input(models::input_of_channel(1), true);
+    sc_core::sc_start(sc_core::sc_time(2, sc_core::SC_NS));
+    const std::uint32_t at_capture = timer.read(timer_field::counter);
+    sc_core::sc_start(sc_core::sc_time(10, sc_core::SC_NS));
+    EXPECT_NE(timer.read(timer_field::flags) & models::flag_channel(1), 0u);
+    EXPECT_GT(at_capture, 200u);
+    EXPECT_EQ(timer.read(timer_field::compare, 1), at_capture);  // (the read clears the flag)
+
+    EXPECT_EQ(timer.read(timer_field::flags) & models::flag_trigger, 0u);
+    timer.chained_pulse();
+    sc_core::sc_start(sc_core::sc_time(2, sc_core::SC_NS));
+    EXPECT_NE(timer.read(timer_field::flags) & models::flag_trigger, 0u);
+}
+
 }  // namespace
 }  // namespace tickbench::test_reference
