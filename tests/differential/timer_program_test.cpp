@@ -13,6 +13,7 @@
 #include <algorithm>
 #include <array>
 #include <cstdint>
+#include <map>
 #include <optional>
 #include <set>
 #include <vector>
@@ -31,8 +32,17 @@ struct program_trace {
         std::uint32_t prescaler;       // the prescaler register then
     };
     std::vector<wrap> wraps;
-    std::uint64_t ticks = 0;   // ticks of the whole run
-    sim::clock_domain domain;  // the timer clock with every change of the program
+    // Each input edge: its time, the input, its filter's length in ticks and the prescaler then.
+    struct input_edge {
+        sim::time_ps at;
+        unsigned input;
+        std::uint64_t filter_ticks;
+        std::uint32_t prescaler;
+    };
+    std::vector<input_edge> input_edges;
+    std::vector<std::uint64_t> steps;  // indices of the ticks at which the counter moved
+    std::uint64_t ticks = 0;           // ticks of the whole run
+    sim::clock_domain domain;          // the timer clock with every change of the program
 };
 
 program_trace trace(const timer_program& p) {
@@ -47,6 +57,8 @@ program_trace trace(const timer_program& p) {
             const std::uint32_t before = model.read(timer_field::counter, 0, now);
             model.advance_to(next);
             now = next;
+            if (model.read(timer_field::counter, 0, now) != before)
+                t.steps.push_back(t.domain.tick_at(next));
             if (model.wraps() == w) continue;
             t.wraps.push_back({t.domain.tick_at(next), model.read(timer_field::mode, 0, now),
                                before, model.read(timer_field::prescaler, 0, now)});
@@ -56,6 +68,16 @@ program_trace trace(const timer_program& p) {
         // Initial levels hold from before time 0, so they go in before the tick at 0.
         if (op.kind != op_kind::initial_input) step_to(op.at);
         now = std::max(now, op.at);
+        if (op.kind == op_kind::input_edge) {
+            const std::uint32_t index =
+                op.channel == models::trigger_pin_input
+                    ? model.read(timer_field::trigger_filter, 0, now)
+                    : model.read(timer_field::input_filter, op.channel, now);
+            t.input_edges.push_back({op.at, op.channel,
+                                     std::uint64_t{p.config.filter_lengths[index]}
+                                         << model.read(timer_field::filter_divider, 0, now),
+                                     model.read(timer_field::prescaler, 0, now)});
+        }
         apply_op(model, t.domain, op);
     }
     step_to(p.end);
@@ -161,6 +183,38 @@ TEST(timer_program_test, long_programs_wrap_often_near_wide_maxima_and_slowly) {
     EXPECT_GE(many_wraps, 6u);
     EXPECT_GE(wide_max_wraps, 10u);
     EXPECT_GE(slow_wraps, 15u);
+}
+
+TEST(timer_program_test, input_edges_land_near_wraps_filter_lengths_and_prescaler_steps) {
+    const std::uint64_t programs = 300;
+    std::uint64_t edges = 0, near_wrap = 0, around_filter = 0, near_step = 0;
+    for (std::uint64_t seed = 1; seed <= programs; ++seed) {
+        const timer_program p = generate_program(seed);
+        const program_trace t = trace(p);
+        std::map<unsigned, sim::time_ps> last_edge;
+        for (const program_trace::input_edge& e : t.input_edges) {
+            ++edges;
+            near_wrap += !counts_inputs(p) && wrap_near(t, e.at).has_value();
+            // A pulse whose width lies within two ticks of the filter's length: it passes or is
+            // swallowed depending on where the sampling ticks fall.
+            if (const auto it = last_edge.find(e.input); it != last_edge.end()) {
+                const std::uint64_t width =
+                    t.domain.tick_at(e.at + 1) - t.domain.tick_at(it->second + 1);
+                around_filter += width + 2 >= e.filter_ticks && width <= e.filter_ticks + 2;
+            }
+            last_edge[e.input] = e.at;
+            // With a prescaler, within a tick of a counter step: the edge meets the prescaler's
+            // boundary.
+            if (e.prescaler == 0) continue;
+            const std::uint64_t k = t.domain.tick_at(e.at + 1);
+            const auto s = std::lower_bound(t.steps.begin(), t.steps.end(), k > 1 ? k - 1 : 0);
+            near_step += s != t.steps.end() && *s <= k + 1;
+        }
+    }
+    EXPECT_GT(edges, 1500u);
+    EXPECT_GE(near_wrap * 100, edges * 10) << near_wrap << " of " << edges;
+    EXPECT_GE(around_filter * 100, edges * 12) << around_filter << " of " << edges;
+    EXPECT_GE(near_step * 100, edges * 10) << near_step << " of " << edges;
 }
 
 TEST(timer_program_test, writes_out_of_range_values_of_every_kind) {
