@@ -86,7 +86,12 @@ std::string layout_json(const register_layout& layout) {
                   {"prescaler_shadowed", c.prescaler_shadowed},
                   {"complementary", c.complementary},
                   {"dead_time_max", c.dead_time_max},
-                  {"compare_latency", c.compare_latency}}}};
+                  {"dead_time_scaled", c.dead_time_scaled},
+                  {"compare_latency", c.compare_latency},
+                  {"input_sync_ticks", c.input_sync_ticks},
+                  {"filter_lengths", c.filter_lengths},
+                  {"capture_read_clears_flag", c.capture_read_clears_flag},
+                  {"chain_latency", c.chain_latency}}}};
     json registers = json::array();
     for (const register_map& r : layout.registers) {
         json fields = json::array();

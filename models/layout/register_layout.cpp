@@ -64,12 +64,14 @@ void read_instance(table_reader& top, timer_config& cfg) {
         top.sub_table("instance", true,
                       "counter_bits, channels and the optional prescaler_bits, wrap_skip_bits, "
                       "prescaler_shadowed, complementary, dead_time_max, dead_time_scaled, "
-                      "compare_latency");
+                      "compare_latency, input_sync_ticks, filter_lengths, "
+                      "capture_read_clears_flag, chain_latency");
     if (t == nullptr) return;
     table_reader r(top.findings(), *t, "instance");
     r.reject_unknown_keys(
         {"counter_bits", "channels", "prescaler_bits", "wrap_skip_bits", "prescaler_shadowed",
-         "complementary", "dead_time_max", "dead_time_scaled", "compare_latency"},
+         "complementary", "dead_time_max", "dead_time_scaled", "compare_latency",
+         "input_sync_ticks", "filter_lengths", "capture_read_clears_flag", "chain_latency"},
         "the timer instance");
     if (auto v = r.integer("counter_bits", 8, 32, true)) cfg.counter_bits = unsigned(*v);
     if (auto v = r.integer("channels", 1, 6, true)) cfg.channels = unsigned(*v);
@@ -80,6 +82,27 @@ void read_instance(table_reader& top, timer_config& cfg) {
     if (auto v = r.integer("dead_time_max", 0, 0xffff'ffffLL)) cfg.dead_time_max = unsigned(*v);
     if (auto v = r.boolean("dead_time_scaled")) cfg.dead_time_scaled = *v;
     if (auto v = r.integer("compare_latency", 0, 2)) cfg.compare_latency = unsigned(*v);
+    if (auto v = r.integer("input_sync_ticks", 1, 3)) cfg.input_sync_ticks = unsigned(*v);
+    if (const toml::node* n = r.get("filter_lengths", false, "")) {
+        const toml::array* a = n->as_array();
+        if (a == nullptr || a->empty() || a->size() > 16) {
+            r.wrong(*n, "filter_lengths",
+                    "a list of 1 to 16 filter lengths in samples, such as [1, 2, 4, 8]");
+        } else {
+            std::vector<unsigned> lengths;
+            for (std::size_t i = 0; i < a->size(); ++i) {
+                const toml::node& e = *a->get(i);
+                if (e.is_integer() && e.as_integer()->get() >= 1 && e.as_integer()->get() <= 255)
+                    lengths.push_back(unsigned(e.as_integer()->get()));
+                else
+                    r.wrong(e, "filter_lengths[" + std::to_string(i) + "]",
+                            "a whole number of samples from 1 to 255");
+            }
+            if (lengths.size() == a->size()) cfg.filter_lengths = lengths;
+        }
+    }
+    if (auto v = r.boolean("capture_read_clears_flag")) cfg.capture_read_clears_flag = *v;
+    if (auto v = r.integer("chain_latency", 0, 3)) cfg.chain_latency = unsigned(*v);
 }
 
 // Reads `bits`, the node `n` of the field table `r`: a bit number (3) or a range "lo..hi".

@@ -10,9 +10,11 @@
 // which is a whole number at every segment's end, so positions never accumulate rounding. The
 // outputs at picosecond t are the quadrature state of floor(position(t) / quarter line): state 0
 // has A and B low, 1 A high, 2 both high, 3 B high. An edge is thus placed at the first picosecond
-// at or after the exact instant the position crosses a quarter line (never early, less than 1 ps
-// late). Crossings are found by bisection on the position, each step an exact sign test in 256-bit
-// integers, so the result is exact whatever the profile's length.
+// at which the floor has changed: going forward, at or after the exact instant the position reaches
+// a quarter line (less than 1 ps late); going backward, where the position is below it (1 ps after
+// an exact instant that is a whole picosecond). Never early. Crossings are found by bisection on
+// the position, each step an exact sign test in 256-bit integers, so the result is exact whatever
+// the profile's length.
 
 #include "sim/stimulus/edge_source.h"
 #include "sim/wide_int.h"

@@ -9,6 +9,7 @@
 #include <set>
 #include <sstream>
 #include <string>
+#include <vector>
 
 namespace {
 
@@ -58,6 +59,34 @@ TEST(register_layout_test, loads_timer32_dual) {
     for (const auto& r : l.registers) EXPECT_EQ(r.width, 32u) << r.name;
     ASSERT_NE(l.find("take"), nullptr);
     EXPECT_EQ(l.find("take")->fields.at(0).access, models::access_kind::clear_on_read);
+}
+
+TEST(register_layout_test, reads_the_input_side_of_the_instance) {
+    const auto defaults = models::load_register_layout_file(layouts_dir + "timer16_quad.toml");
+    EXPECT_EQ(defaults.instance.input_sync_ticks, 2u);
+    EXPECT_EQ(defaults.instance.filter_lengths, (std::vector<unsigned>{1, 2, 4, 8}));
+    EXPECT_TRUE(defaults.instance.capture_read_clears_flag);
+    EXPECT_EQ(defaults.instance.chain_latency, 0u);
+    const auto l = models::load_register_layout_text(R"(
+kind = "timer"
+size = 4
+[instance]
+counter_bits = 16
+channels = 1
+input_sync_ticks = 3
+filter_lengths = [1, 3, 255]
+capture_read_clears_flag = false
+chain_latency = 2
+[registers.count]
+offset = 0
+width = 16
+fields = [ { field = "counter", bits = "0..15", access = "read-write" } ]
+)",
+                                                     "inputs.toml");
+    EXPECT_EQ(l.instance.input_sync_ticks, 3u);
+    EXPECT_EQ(l.instance.filter_lengths, (std::vector<unsigned>{1, 3, 255}));
+    EXPECT_FALSE(l.instance.capture_read_clears_flag);
+    EXPECT_EQ(l.instance.chain_latency, 2u);
 }
 
 TEST(register_layout_test, reports_unmapped_fields_of_an_incomplete_layout) {

@@ -1,68 +1,22 @@
-# Runs `tickbench run` on a PWM scenario and checks that sigrok-cli's PWM decoder, reading the
+# Runs `tickbench run` on a scenario and checks that sigrok-cli's PWM decoder, reading the
 # waves.vcd it wrote, measures the same periods and duty cycles as the run's own checks in
-# checks.jsonl (run by CTest, see CMakeLists.txt). Variables:
+# checks.jsonl, signal by signal: timer outputs or the inputs a source drives (run by CTest, see
+# CMakeLists.txt). Variables:
 #   EXE       the tickbench binary
-#   SCENARIO  the scenario (scenarios/pwm_10ns.toml.in): a `period` and a `duty_cycle` check without
-#             `from`/`until` on each channel named in CHANNELS, and a timescale sigrok reads as it is
-#   CHANNELS  the signals to compare, separated by "|" (pwm.channel1|pwm.channel2)
+#   SCENARIO  the scenario (scenarios/pwm_10ns.toml.in, scenarios/sigrok_inputs.toml.in): a `period`
+#             and a `duty_cycle` check without `from`/`until` on each signal named in CHANNELS, and
+#             a timescale at which every edge is exact
+#   CHANNELS  the signals to compare, separated by "|" (pwm.channel1|pwm.channel2); their names
+#             without the timer's (channel1, input1) must differ
 #   OUT       the output folder (emptied first)
 # sigrok's VCD input turns each unit of the timescale into one sample, so a sample is one unit and
 # the decoder's period, in samples between two active edges, is exact. Its duty cycle comes only as
 # text with six decimals of a percent, so duty cycles are compared at that precision.
 cmake_minimum_required(VERSION 3.25)
+include(${CMAKE_CURRENT_LIST_DIR}/sigrok_support.cmake)
 
 # outside tool: sigrok-cli 0.7 pwm decoder (Debian package sigrok-cli)
-find_program(SIGROK sigrok-cli)
-if(NOT SIGROK)
-  message(FATAL_ERROR "sigrok-cli not found: install the Debian package sigrok-cli "
-                      "(scripts/lib/setup.sh lists it; scripts/test installs it)")
-endif()
-
-# Sets `out` to `text` (a JSON or printf number: "25.0", "1.92e-05", "19.3") times 10^`shift`,
-# rounded to the nearest whole number (halves away from zero).
-function(decimal_to_whole text shift out)
-  if(NOT text MATCHES "^(-?)([0-9]+)(\\.([0-9]*))?([eE]([-+]?[0-9]+))?$")
-    message(FATAL_ERROR "\"${text}\" is not a decimal number")
-  endif()
-  set(sign "${CMAKE_MATCH_1}")
-  set(digits "${CMAKE_MATCH_2}${CMAKE_MATCH_4}")
-  string(LENGTH "${CMAKE_MATCH_4}" fraction_digits)
-  set(exponent 0)
-  if(NOT "${CMAKE_MATCH_6}" STREQUAL "")
-    set(exponent "${CMAKE_MATCH_6}")
-  endif()
-  math(EXPR exponent "${exponent} + ${shift} - ${fraction_digits}")
-  if(exponent GREATER_EQUAL 0)
-    string(REPEAT "0" ${exponent} zeros)
-    set(kept "${digits}${zeros}")
-    set(round_up 0)
-  else()
-    math(EXPR dropped "-(${exponent})")
-    string(LENGTH "${digits}" length)
-    if(dropped GREATER length)
-      set(kept "0")
-      set(round_up 0)
-    else()
-      math(EXPR keep "${length} - ${dropped}")
-      string(SUBSTRING "${digits}" 0 ${keep} kept)
-      string(SUBSTRING "${digits}" ${keep} 1 first_dropped)
-      set(round_up 0)
-      if(first_dropped GREATER_EQUAL 5)
-        set(round_up 1)
-      endif()
-    endif()
-  endif()
-  string(REGEX REPLACE "^0+" "" kept "${kept}")
-  string(LENGTH "${kept}" length)
-  if(length GREATER 18)
-    message(FATAL_ERROR "\"${text}\" x 10^${shift} does not fit 64 bits")
-  endif()
-  if(kept STREQUAL "")
-    set(kept 0)
-  endif()
-  math(EXPR value "${sign}(${kept} + ${round_up})")
-  set(${out} ${value} PARENT_SCOPE)
-endfunction()
+find_sigrok()
 
 # Sets `out` to `sum` / `count` rounded to the nearest whole number (both positive).
 function(rounded_mean sum count out)
@@ -70,29 +24,8 @@ function(rounded_mean sum count out)
   set(${out} ${value} PARENT_SCOPE)
 endfunction()
 
-file(REMOVE_RECURSE "${OUT}")
-execute_process(COMMAND "${EXE}" run "${SCENARIO}" --out "${OUT}"
-                RESULT_VARIABLE code OUTPUT_VARIABLE out ERROR_VARIABLE err)
-if(NOT code EQUAL 0)
-  message(FATAL_ERROR "tickbench run: exit ${code}, expected 0\nstdout:\n${out}\nstderr:\n${err}")
-endif()
-# An edge moved to the nearest unit would make sigrok and the checks measure different waveforms.
-string(FIND "${err}" "changes moved to the nearest" at)
-if(NOT at EQUAL -1)
-  message(FATAL_ERROR "the scenario's edges are not exact at its timescale:\n${err}")
-endif()
-
-# Picoseconds per sample, from the VCD's own timescale.
-file(READ "${OUT}/waves.vcd" header LIMIT 4096)
-if(NOT header MATCHES "\\$timescale[ \t\n]+(1|10|100) *(ps|ns|us|ms|s)[ \t\n]+\\$end")
-  message(FATAL_ERROR "waves.vcd: no \$timescale in its header:\n${header}")
-endif()
-set(ps_per_unit_ps 1)
-set(ps_per_unit_ns 1000)
-set(ps_per_unit_us 1000000)
-set(ps_per_unit_ms 1000000000)
-set(ps_per_unit_s 1000000000000)
-math(EXPR ps_per_sample "${CMAKE_MATCH_1} * ${ps_per_unit_${CMAKE_MATCH_2}}")
+run_tickbench("${EXE}" "${SCENARIO}" "${OUT}")
+vcd_ps_per_sample("${OUT}/waves.vcd" ps_per_sample)
 
 # The run's measurements: ours_<kind>__<signal> = min;mean;max;count, periods in whole picoseconds and
 # duty cycles in millionths of a percent. checks.jsonl holds doubles (CMake reads them back with 17

@@ -14,22 +14,12 @@
 #include <stdint.h>
 
 #include "demo_timers.h"
+#include "input_support.h"
 
 #define GEN 0x50000400u
 #define METER 0x50000800u
 #define WHEEL 0x50000c00u
 #define TALLY 0x50001000u
-
-/* The next capture of channel c of the meter (its flag set, then the captured value read). */
-static uint16_t next_capture(unsigned c) {
-    tick_write16(METER + Q16_STATUS_CLEAR, DEMO_FLAG_CHANNEL(c));
-    while ((tick_read16(METER + Q16_STATUS) & DEMO_FLAG_CHANNEL(c)) == 0) tick_cycles(10);
-    return tick_read16(METER + Q16_MATCH(c));
-}
-
-static void wait_until_ps(uint64_t t) {
-    while (tick_now_ps() < t) tick_cycles(480);
-}
 
 void tick_firmware_main(void) {
     if (tick_param("misuse", "0")[0] == '1') {
@@ -54,11 +44,11 @@ void tick_firmware_main(void) {
     tick_write16(TALLY + Q16_RUN, Q16_RUN_ENABLE);
     tick_write16(GEN + Q16_RUN, Q16_RUN_ENABLE | Q16_RUN_TRIGGER(DEMO_TRIGGER_ON_RELOAD));
 
-    uint16_t a = next_capture(0);
-    uint16_t b = next_capture(0);
+    uint16_t a = q16_next_capture(METER, 0);
+    uint16_t b = q16_next_capture(METER, 0);
     tick_log("tach period %u", (unsigned)(uint16_t)(b - a));
-    a = next_capture(1);
-    b = next_capture(1);
+    a = q16_next_capture(METER, 1);
+    b = q16_next_capture(METER, 1);
     tick_log("loopback period %u", (unsigned)(uint16_t)(b - a));
 
     const int in = tick_input("meter.input3");
