@@ -309,38 +309,48 @@ std::uint64_t timer_core::first_sample(std::uint64_t from) const {
     return from + (d - from % d) % d;
 }
 
-void timer_core::schedule_run(unsigned i, std::uint64_t from) {
-    // The first sampling tick at or after `from`, then N - 1 sampling periods on.
+void timer_core::settle(unsigned i) {
+    // The filter as arithmetic over the pending changes: a run of the level away from the output
+    // starts at a change and flips the output N sampling periods after its first sample, unless a
+    // sample sees the level back first. A change back that no sample sees before the next change
+    // away (both between two samples) is invisible. Runs that ended before the first tick not yet
+    // processed are final and leave the list.
     input_state& in = inputs_[i];
-    in.run_visible_at = from;
-    in.run_flip_at =
-        first_sample(from) + (filter_length(i) - 1) * (std::uint64_t{1} << filter_divider_);
-    in.returned = false;
-    in.accept_at = in.run_flip_at;
-    pending_inputs_ |= 1u << i;
-}
-
-void timer_core::schedule_return(unsigned i) {
-    // Only a sample that sees the level back at the output ends the run; an edge back that no
-    // sample sees before the next edge away is invisible to the filter.
-    input_state& in = inputs_[i];
-    const std::uint64_t seen = first_sample(std::max(in.raw_visible_at, next_tick_));
-    in.returned = seen <= in.run_flip_at;
-    in.accept_at = in.returned ? seen : in.run_flip_at;
-}
-
-void timer_core::end_run(unsigned i) {
-    input_state& in = inputs_[i];
-    in.accept_at = in.run_flip_at = never;
-    in.returned = false;
+    std::deque<std::uint64_t>& q = in.changes;
+    const std::uint64_t span = (filter_length(i) - 1) * (std::uint64_t{1} << filter_divider_);
+    std::size_t s = 0;  // the run's first change
+    while (s < q.size()) {
+        const std::uint64_t flip = first_sample(std::max(q[s], in.count_from)) + span;
+        std::uint64_t ended = never;
+        std::size_t j = s + 1;
+        while (j < q.size()) {
+            const std::uint64_t seen = first_sample(std::max(q[j], in.count_from));
+            if (seen > flip) break;
+            if (j + 1 < q.size() && q[j + 1] <= seen) {
+                j += 2;  // away again before a sample saw the way back
+                continue;
+            }
+            ended = seen;
+            break;
+        }
+        if (ended == never) {
+            in.accept_at = flip;
+            pending_inputs_ |= 1u << i;
+            return;
+        }
+        if (s == 0 && ended < next_tick_) {
+            q.erase(q.begin(), q.begin() + static_cast<std::ptrdiff_t>(j + 1));
+        } else {
+            s = j + 1;
+        }
+    }
+    in.accept_at = never;
     pending_inputs_ &= ~(1u << i);
 }
 
 void timer_core::restart_filter(unsigned i) {
-    input_state& in = inputs_[i];
-    if (in.run_flip_at == never) return;
-    schedule_run(i, std::max(in.run_visible_at, next_tick_));
-    if (in.raw == in.out) schedule_return(i);
+    inputs_[i].count_from = next_tick_;
+    settle(i);
 }
 
 int timer_core::capture_source(unsigned c) const {
@@ -451,17 +461,14 @@ void timer_core::set_input(unsigned i, bool level, time_ps t) {
     input_state& in = inputs_[i];
     if (level == in.raw) return;
     in.raw = level;
-    // Sampled first at the first tick after t, synchronised S - 1 ticks later.
+    // Sampled first at the first tick after t, synchronised S - 1 ticks later; a change visible at
+    // the same tick as the previous one undoes it.
     const std::uint64_t visible = next_tick_ + cfg_.input_sync_ticks - 1;
-    in.raw_visible_at = visible;
-    if (in.run_flip_at == never)
-        schedule_run(i, visible);  // with no run pending the raw level was the output level
-    else if (level == in.out)
-        schedule_return(i);
-    else if (in.returned && in.accept_at < visible)
-        schedule_run(i, visible);  // a sample saw the level back: that run ended, a new one starts
+    if (!in.changes.empty() && in.changes.back() == visible)
+        in.changes.pop_back();
     else
-        in.returned = false, in.accept_at = in.run_flip_at;  // no sample saw the edge back
+        in.changes.push_back(visible);
+    settle(i);
 }
 
 void timer_core::set_initial_input(unsigned i, bool level) {
@@ -469,6 +476,7 @@ void timer_core::set_initial_input(unsigned i, bool level) {
     if (next_tick_ != 0 || ticks_processed_ != 0)
         throw std::logic_error(name_ + ": set_initial_input after the run began");
     inputs_[i].raw = inputs_[i].out = level;
+    inputs_[i].changes.clear();
 }
 
 void timer_core::check_input(unsigned i) const {
@@ -564,17 +572,12 @@ void timer_core::process_tick(std::uint64_t n, time_ps at) {
         const unsigned i = static_cast<unsigned>(__builtin_ctz(m));
         input_state& in = inputs_[i];
         if (in.accept_at != n) continue;
-        if (in.returned) {
-            end_run(i);  // this sample sees the output level: the run ends unseen
-            continue;
-        }
         in.out = !in.out;
         edges |= 1u << i;
         if (in.out) rising |= 1u << i;
-        if (in.raw != in.out)
-            schedule_run(i, std::max(in.raw_visible_at, n + 1));
-        else
-            end_run(i);
+        // The changes up to this tick are in the output now; the next one (if any) leads away.
+        while (!in.changes.empty() && in.changes.front() <= n) in.changes.pop_front();
+        settle(i);
     }
     // The trigger: an accepted trigger at this tick.
     bool triggered = false;
@@ -675,6 +678,10 @@ void timer_core::clock_changed(time_ps) {
 void timer_core::write(timer_field f, unsigned channel_index, std::uint32_t v, time_ps t) {
     catch_up(t);
     invalidate();
+    // Runs that samples already ended went by the old filter settings: settle them first.
+    if (f == timer_field::filter_divider || f == timer_field::trigger_filter ||
+        f == timer_field::input_filter)
+        for (unsigned i = 0; i < pin_inputs; ++i) settle(i);
     const bool bit = (v & 1u) != 0;
     switch (f) {
         case timer_field::enable:

@@ -79,13 +79,13 @@ private:
     // edge that began it becomes visible, and the output flips at the N-th sampling tick of the run
     // unless an edge back becomes visible first.
     struct input_state {
-        bool raw = false;                   // level after every edge given so far
-        bool out = false;                   // filtered level after the processed ticks
-        std::uint64_t raw_visible_at = 0;   // first synchronised tick of the last raw change
-        std::uint64_t run_visible_at = 0;   // first synchronised tick of the pending run
-        std::uint64_t run_flip_at = never;  // tick at which the pending run flips `out`, or never
-        bool returned = false;  // the raw level is back at `out` and a sample sees it at accept_at
-        std::uint64_t accept_at = never;  // next tick that settles the run (flip or end), or never
+        bool raw = false;  // level after every edge given so far
+        bool out = false;  // filtered level after the processed ticks
+        // Synchronised ticks of the raw changes the output has not taken yet, in order; levels
+        // alternate, the first one leading away from `out`.
+        std::deque<std::uint64_t> changes;
+        std::uint64_t count_from = 0;     // a filter setting changed: counting restarts here
+        std::uint64_t accept_at = never;  // tick at which `out` flips, or never
     };
     struct pin_state {
         bool active = false;            // after dead time
@@ -140,16 +140,10 @@ private:
     bool clock_counting() const;
     // Filter length of input i (samples).
     std::uint64_t filter_length(unsigned i) const;
-    // Sets input i's flip tick for a run whose synchronised levels differ from the output from tick
-    // `from` on.
-    void schedule_run(unsigned i, std::uint64_t from);
     // The first sampling tick at or after tick `from`.
     std::uint64_t first_sample(std::uint64_t from) const;
-    // Input i's raw level went back to its output level during a run: the run ends at the first
-    // sample that sees it, unless the run flips first.
-    void schedule_return(unsigned i);
-    // Input i has no run pending any more.
-    void end_run(unsigned i);
+    // Input i's next output flip from its pending changes (and whether it has one).
+    void settle(unsigned i);
     // A filter setting changed: input i's count restarts from the first tick not yet processed.
     void restart_filter(unsigned i);
     // The filtered input a capture channel c takes edges from, or -1.

@@ -7,12 +7,10 @@
  * microseconds of work, with interrupts globally disabled when the parameter handler is "late"
  * (a critical section longer than the input period: a second capture lands before the handler
  * reads the first) and enabled when it is "prompt"; then it takes captures until `total` were
- * handled and logs "N captures handled, over-captures seen: M". Entry `overcapture_main`. Parameters:
- *   base       address of the timer's window (default 0x50000800)
- *   irq        the timer's interrupt line name (default "meter")
- *   handler    "late" or "prompt" (default "prompt")
- *   before     captures handled before the stretch (default 3)
- *   total      captures handled in all (default 6)
+ * handled and logs "N captures handled, over-captures seen: M". Entry `overcapture_main`.
+ * Parameters: base       address of the timer's window (default 0x50000800) irq        the timer's
+ * interrupt line name (default "meter") handler    "late" or "prompt" (default "prompt") before
+ * captures handled before the stretch (default 3) total      captures handled in all (default 6)
  *   masked_us  the stretch's length in microseconds (default 120)
  */
 #include <tickbench/firmware.h>
@@ -68,5 +66,6 @@ void overcapture_main(void) {
     wait_until_ps(tick_now_ps() + (uint64_t)param_number("masked_us", 120) * 1000000u);
     if (late) tick_irq_enable();
     wait_for_captures(param_number("total", 6));
-    tick_log("%u captures handled, over-captures seen: %u", (unsigned)handled, (unsigned)overcaptures);
+    tick_log("%u captures handled, over-captures seen: %u", (unsigned)handled,
+             (unsigned)overcaptures);
 }
