@@ -22,6 +22,8 @@ inline constexpr int exit_bad_input = 2;
 inline constexpr int exit_firmware_failed = 3;
 // An unexpected failure inside tickbench (a bug): reported, never a verdict on the input.
 inline constexpr int exit_internal = 4;
+// `run`: a watchdog reset the part and the scenario did not expect it (harness::exit_code_of).
+inline constexpr int exit_watchdog_reset = 5;
 
 struct clocks_options {
     std::string file;
