@@ -61,7 +61,8 @@ struct run_command_options {
 };
 
 // `tickbench run`: runs the scenario and writes its outputs; returns exit_ok or exit_check_failed.
-// A firmware failure ends the process with exit_firmware_failed. Throws on bad input.
+// A firmware failure ends the process with exit_firmware_failed (exit_watchdog_reset for an
+// unexpected watchdog reset). Throws on bad input.
 int run_scenario_command(const run_command_options& options, std::ostream& out);
 
 struct plan_options {

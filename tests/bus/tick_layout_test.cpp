@@ -96,8 +96,8 @@ TEST(tick_layout_test, reading_control_clears_the_flag_and_writing_count_now_cle
 }
 
 TEST(tick_layout_test, a_timer_layout_needs_a_timer_model) {
-    const auto l = models::load_register_layout_file(source_dir +
-                                                     "/models/layouts/timer32_dual.toml");
+    const auto l =
+        models::load_register_layout_file(source_dir + "/models/layouts/timer32_dual.toml");
     sim::clock_domain clock(sim::frequency::hz(1000));
     models::tick_timer_core core(models::tick_config{}, clock);
     EXPECT_THROW(models::register_file(l, core, "x"), std::invalid_argument);

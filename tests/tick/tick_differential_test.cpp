@@ -47,8 +47,8 @@ std::string run_program(std::uint64_t seed) {
         const auto what = pick(0, 9);
         if (what <= 3) {
             const auto f = static_cast<tick_field>(pick(0, models::tick_field_count - 1));
-            const auto v = static_cast<std::uint32_t>(
-                pick(0, 1) ? pick(0, cfg.counter_max()) : pick(0, 0xffff'ffffu));
+            const auto v = static_cast<std::uint32_t>(pick(0, 1) ? pick(0, cfg.counter_max())
+                                                                 : pick(0, 0xffff'ffffu));
             trace << "write " << to_string(f) << "=" << v << " @" << t << "\n";
             fast.write(f, v, t);
             ref.write(f, v, t);
@@ -73,8 +73,8 @@ std::string run_program(std::uint64_t seed) {
             const auto f = static_cast<tick_field>(i);
             const auto a = fast.read(f, t), b = ref.read(f, t);
             if (a != b)
-                return trace.str() + "read " + to_string(f) + " @" + std::to_string(t) +
-                       ": fast " + std::to_string(a) + ", reference " + std::to_string(b);
+                return trace.str() + "read " + to_string(f) + " @" + std::to_string(t) + ": fast " +
+                       std::to_string(a) + ", reference " + std::to_string(b);
         }
         if (fast_log.events != ref_log.events)
             return trace.str() + "reports differ after " + std::to_string(op) + " steps";

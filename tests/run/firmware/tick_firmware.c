@@ -29,7 +29,7 @@ static void on_tick(void) {
 static void tick_start(uint32_t counts_per_tick) {
     tick_write32(base + TK_CONTROL, 0);
     tick_write32(base + TK_START_VALUE, counts_per_tick - 1u); /* N + 1 counts per tick */
-    tick_write32(base + TK_COUNT_NOW, 0); /* any value: clears the counter */
+    tick_write32(base + TK_COUNT_NOW, 0);                      /* any value: clears the counter */
     tick_write32(base + TK_CONTROL, TK_CONTROL_ENABLE | TK_CONTROL_DIVIDED | TK_CONTROL_NOTIFY);
 }
 

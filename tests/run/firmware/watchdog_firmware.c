@@ -50,8 +50,9 @@ void tick_firmware_main(void) {
         /* The margin: counter steps left before a timeout when the refresh comes. */
         TICK_ASSERT(left >= min_margin);
         watchdog_refresh();
-        if (n % 4 == 0) tick_log("refresh %u, %u steps left, least %u", (unsigned)n,
-                                 (unsigned)left, (unsigned)least);
+        if (n % 4 == 0)
+            tick_log("refresh %u, %u steps left, least %u", (unsigned)n, (unsigned)left,
+                     (unsigned)least);
     }
     tick_log("refreshing stops after %u", (unsigned)refreshes);
     for (;;) wait_ms(1);
