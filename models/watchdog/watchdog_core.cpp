@@ -46,14 +46,23 @@ std::uint64_t watchdog_core::timeout_edge() const {
     return origin_ + steps * step_edges() - 1;
 }
 
+namespace {
+
+// Edges at or before t.
+std::uint64_t edges_through(const sim::clock_domain& clock, time_ps t) {
+    return t == sim::max_time_ps ? clock.tick_at(t) : clock.tick_at(t + 1);
+}
+
+}  // namespace
+
 std::uint32_t watchdog_core::counter_at(time_ps t) const {
-    const std::uint64_t seen = clock_.tick_at(t + 1);
+    const std::uint64_t seen = edges_through(clock_, t);
     const std::uint64_t steps = seen > origin_ ? (seen - origin_) / step_edges() : 0;
     return steps >= reload_ ? 0 : static_cast<std::uint32_t>(reload_ - steps);
 }
 
 void watchdog_core::load(time_ps t) {
-    origin_ = clock_.tick_at(t + 1);
+    origin_ = edges_through(clock_, t);
     last_refresh_ = t;
 }
 
@@ -66,7 +75,7 @@ void watchdog_core::raise(watchdog_fault why, time_ps at) {
 void watchdog_core::advance_to(time_ps t) {
     if (!running_ || fault_) return;
     const std::uint64_t k = timeout_edge();
-    if (clock_.tick_at(t + 1) > k) raise(watchdog_fault::timeout, clock_.time_of(k));
+    if (edges_through(clock_, t) > k) raise(watchdog_fault::timeout, clock_.time_of(k));
 }
 
 bool watchdog_core::next_event(time_ps& at) const {

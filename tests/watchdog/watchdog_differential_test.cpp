@@ -171,8 +171,8 @@ std::string run_program(std::uint64_t seed) {
             const auto f = static_cast<watchdog_field>(i);
             const auto a = fast.read(f, t), b = ref.read(f, t);
             if (a != b)
-                return trace.str() + "read " + to_string(f) + " @" + std::to_string(t) +
-                       ": fast " + std::to_string(a) + ", reference " + std::to_string(b);
+                return trace.str() + "read " + to_string(f) + " @" + std::to_string(t) + ": fast " +
+                       std::to_string(a) + ", reference " + std::to_string(b);
         }
         if (fast.fault() != ref.fault() || (fast.fault() && fast.fault_time() != ref.fault_at()))
             return trace.str() + "resets differ after " + std::to_string(op) + " steps";
