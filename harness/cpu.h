@@ -67,7 +67,7 @@ public:
 
     // Peripherals whose state firmware can see: brought up to the cpu's local time before each
     // access, so that their interrupt requests are known in time.
-    void watch(models::timer_core_if& peripheral) { peripherals_.push_back({&peripheral, 0}); }
+    void watch(models::event_source& peripheral) { peripherals_.push_back({&peripheral, 0}); }
     // An input firmware may find by `name` ("fan.input1") and set: input `input` of `timer`.
     // `driven_by` names its source when one drives it ("stimulus \"tach\""; empty: none), in
     // which case firmware is refused it.
@@ -120,7 +120,7 @@ public:
 private:
     // A watched peripheral and its next event (0: not known, ask it).
     struct watched {
-        models::timer_core_if* model;
+        models::event_source* model;
         time_ps next;
     };
 

@@ -33,9 +33,13 @@ const char* to_string(run_outcome o) {
             return "hung";
         case run_outcome::failed:
             return "failed";
+        case run_outcome::watchdog_reset:
+            return "watchdog-reset";
     }
     return "?";
 }
+
+int exit_code_of(run_outcome o) { return o == run_outcome::watchdog_reset ? 5 : 3; }
 
 std::string failure_report::text() const {
     std::ostringstream s;
@@ -78,6 +82,14 @@ struct irq_forwarder final : models::timer_observer {
     void on_trigger(time_ps) override {}
 };
 
+// Forwards a tick timer's interrupt request line to the interrupt controller.
+struct tick_irq_forwarder final : models::tick_observer {
+    interrupt_controller* irqs = nullptr;
+    unsigned line = 0;
+    void on_flags_set(std::uint32_t, time_ps) override {}
+    void on_irq(bool level, time_ps at) override { irqs->set_level(line, level, at); }
+};
+
 // Stands in for the cpu on the bus when a part runs without firmware.
 struct platform::idle_initiator : sc_core::sc_module {
     tlm_utils::simple_initiator_socket<idle_initiator> socket;
@@ -91,6 +103,40 @@ struct platform::timer_slot {
     std::unique_ptr<models::register_file> registers;
     std::unique_ptr<models::timer_target> target;
     irq_forwarder irq;
+};
+
+// A peripheral of another kind: no kernel shell, since nothing in the kernel listens to it; the cpu
+// brings it along in time like a timer and the run's end brings it to the end.
+struct platform::peripheral_slot {
+    // Hears a watchdog's reset: tells the spec's observers, then ends the run unless expected.
+    struct reset_watch final : models::watchdog_observer {
+        platform* owner = nullptr;
+        peripheral_slot* slot = nullptr;
+        void on_reset(models::watchdog_fault why, time_ps at) override {
+            for (models::watchdog_observer* o : slot->spec.reset_observers) o->on_reset(why, at);
+            if (slot->spec.reset_expected) return;
+            const auto last = slot->dog->last_refresh();
+            owner->fail(run_outcome::watchdog_reset,
+                        "watchdog '" + slot->spec.name + "' reset the part at " +
+                            sim::format_time(at) + ": " + models::to_string(why) +
+                            (last ? ", last refresh (or start) at " + sim::format_time(*last)
+                                  : ", never started") +
+                            " (the scenario does not expect a reset: add reset-expected = true "
+                            "and a check on " +
+                            slot->spec.name + ".reset to make it one)");
+        }
+    };
+    peripheral_spec spec;
+    std::unique_ptr<models::tick_timer_core> tick;
+    std::unique_ptr<models::watchdog_core> dog;
+    reset_watch dog_watch;
+    // The model, whichever kind it is.
+    models::event_source* model() const {
+        return tick ? static_cast<models::event_source*>(tick.get()) : dog.get();
+    }
+    std::unique_ptr<models::register_file> registers;
+    std::unique_ptr<models::timer_target> target;
+    tick_irq_forwarder irq;
 };
 
 // Wall-clock watch over firmware that stops calling into the simulator (a tight loop).
@@ -119,11 +165,11 @@ struct platform::mapped {
     std::vector<mapped_region> regions;
 };
 
-void advance_in_order(const std::vector<models::timer_core_if*>& models, time_ps t) {
+void advance_in_order(const std::vector<models::event_source*>& models, time_ps t) {
     for (;;) {
-        models::timer_core_if* first = nullptr;
+        models::event_source* first = nullptr;
         time_ps first_at = t;
-        for (models::timer_core_if* m : models) {
+        for (models::event_source* m : models) {
             time_ps e;
             if (m->next_event(e) && e <= first_at && (!first || e < first_at)) {
                 first = m;
@@ -133,7 +179,7 @@ void advance_in_order(const std::vector<models::timer_core_if*>& models, time_ps
         if (!first) break;
         first->advance_to(first_at);
     }
-    for (models::timer_core_if* m : models) m->advance_to(t);
+    for (models::event_source* m : models) m->advance_to(t);
 }
 
 std::string input_name(unsigned input) {
@@ -152,6 +198,18 @@ void platform::add_timer(timer_spec spec) {
     timers_.push_back(std::move(slot));
 }
 
+void platform::add_peripheral(peripheral_spec spec) {
+    if (built_) throw std::logic_error("platform: peripheral added after build()");
+    if (spec.layout.kind != "tick_timer" && spec.layout.kind != "watchdog")
+        throw std::invalid_argument(
+            "peripheral '" + spec.name + "': kind \"" + spec.layout.kind +
+            "\" is not one the platform builds as a peripheral; accepted: "
+            "\"tick_timer\", \"watchdog\" (timers are added with add_timer)");
+    auto slot = std::make_unique<peripheral_slot>();
+    slot->spec = std::move(spec);
+    peripherals_.push_back(std::move(slot));
+}
+
 void platform::set_firmware(const cpu_config& cfg, std::function<void()> entry) {
     cpu_cfg_ = cfg;
     entry_ = std::move(entry);
@@ -162,6 +220,8 @@ void platform::build() {
     std::vector<interrupt_line_config> lines;
     for (const auto& t : timers_)
         lines.push_back({t->spec.name, t->spec.irq_priority, t->spec.irq_extra_delay});
+    for (const auto& p : peripherals_)
+        lines.push_back({p->spec.name, p->spec.irq_priority, p->spec.irq_extra_delay});
     irqs_ = std::make_unique<interrupt_controller>(lines);
     std::vector<models::address_range> ranges;
     for (auto& t : timers_) {
@@ -189,8 +249,38 @@ void platform::build() {
                                                           *t.registers, t.spec.access_latency);
         ranges.push_back({t.spec.base, t.spec.layout.size, t.spec.name, &t.spec.layout});
     }
+    for (std::size_t i = 0; i < peripherals_.size(); ++i) {
+        peripheral_slot& p = *peripherals_[i];
+        p.irq.irqs = irqs_.get();
+        p.irq.line = static_cast<unsigned>(timers_.size() + i);
+        models::field_port* port = nullptr;
+        if (p.spec.layout.kind == "watchdog") {
+            p.dog_watch.owner = this;
+            p.dog_watch.slot = &p;
+            p.dog = std::make_unique<models::watchdog_core>(
+                p.spec.layout.watchdog, clocks_.domain(p.spec.clock), &p.dog_watch);
+            models::watchdog_core* core = p.dog.get();
+            clocks_.subscribe(p.spec.clock, p.spec.name,
+                              [core](sim::time_ps t) { core->clock_changed(t); });
+            port = core;
+        } else {
+            p.tick = std::make_unique<models::tick_timer_core>(
+                p.spec.layout.tick, clocks_.domain(p.spec.clock), &p.irq);
+            models::tick_timer_core* core = p.tick.get();
+            clocks_.subscribe(p.spec.clock, p.spec.name,
+                              [core](sim::time_ps t) { core->clock_changed(t); });
+            port = core;
+        }
+        p.registers = std::make_unique<models::register_file>(p.spec.layout, *port, p.spec.name,
+                                                              policy_, p.spec.base);
+        p.registers->apply_reset(0);
+        p.target = std::make_unique<models::timer_target>((p.spec.name + "_bus").c_str(),
+                                                          *p.registers, p.spec.access_latency);
+        ranges.push_back({p.spec.base, p.spec.layout.size, p.spec.name, &p.spec.layout});
+    }
     router_ = std::make_unique<models::address_router>("bus", ranges, policy_);
     for (auto& t : timers_) router_->initiator_socket.bind(t->target->socket);
+    for (auto& p : peripherals_) router_->initiator_socket.bind(p->target->socket);
     if (cpu_cfg_) {
         cpu_ = std::make_unique<harness::cpu>("cpu", *cpu_cfg_, clocks_, *irqs_, entry_);
         for (auto& t : timers_) {
@@ -212,6 +302,7 @@ void platform::build() {
                 cpu_->add_input(t->spec.name + "." + input_name(in), *t->module, in, driver);
             }
         }
+        for (auto& p : peripherals_) cpu_->watch(*p->model());
         cpu_->socket.bind(router_->target_socket);
         cpu_->on_failure([this](const std::string& why) {
             fail(why.rfind("firmware hang", 0) == 0 ? run_outcome::hung : run_outcome::failed, why);
@@ -319,10 +410,15 @@ void platform::run(time_ps duration) {
     trap_engine::ensure_alt_stack();
     if (map_peripherals_ && cpu_ && !mapped_) {
         mapped_ = std::make_unique<mapped>();
-        for (const auto& t : timers_) {
+        std::vector<std::pair<std::string, std::pair<std::uint64_t, std::uint32_t>>> windows;
+        for (const auto& t : timers_)
+            windows.push_back({t->spec.name, {t->spec.base, t->spec.layout.size}});
+        for (const auto& p : peripherals_)
+            windows.push_back({p->spec.name, {p->spec.base, p->spec.layout.size}});
+        for (const auto& [name, window] : windows) {
             harness::cpu* c = cpu_.get();
             mapped_->regions.push_back(trap_engine::instance().map_region(
-                t->spec.name, t->spec.base, t->spec.layout.size, [c](access& a) {
+                name, window.first, window.second, [c](access& a) {
                     // The register layouts are at most 32 bits wide: a 64-bit access is two.
                     const auto address = static_cast<std::uint32_t>(a.address);
                     const unsigned first = a.width > 4 ? 4 : a.width;
@@ -344,8 +440,9 @@ void platform::run(time_ps duration) {
         sc_core::sc_start(sc_core::sc_time::from_value(duration));
         // Timers nobody watches through the kernel advance on demand: bring every one to the end,
         // in time order across timers so that observers hear changes in order.
-        std::vector<models::timer_core_if*> cores;
+        std::vector<models::event_source*> cores;
         for (auto& t : timers_) cores.push_back(t->module.get());
+        for (auto& p : peripherals_) cores.push_back(p->model());
         advance_in_order(cores, end);
     } catch (const std::exception& e) {
         fail(run_outcome::failed, e.what());
@@ -359,6 +456,18 @@ models::timer_module& platform::timer(const std::string& name) {
     throw std::out_of_range("no timer '" + name + "'");
 }
 
+models::tick_timer_core& platform::tick_timer(const std::string& name) {
+    for (auto& p : peripherals_)
+        if (p->spec.name == name && p->tick) return *p->tick;
+    throw std::out_of_range("no tick timer '" + name + "'");
+}
+
+models::watchdog_core& platform::watchdog_timer(const std::string& name) {
+    for (auto& p : peripherals_)
+        if (p->spec.name == name && p->dog) return *p->dog;
+    throw std::out_of_range("no watchdog '" + name + "'");
+}
+
 std::vector<std::string> platform::timer_names() const {
     std::vector<std::string> v;
     for (const auto& t : timers_) v.push_back(t->spec.name);
@@ -368,6 +477,13 @@ std::vector<std::string> platform::timer_names() const {
 std::string platform::describe_address(std::uint64_t address) const {
     for (const auto& t : timers_) {
         const auto& s = t->spec;
+        if (address < s.base || address >= s.base + s.layout.size) continue;
+        if (const auto* r = s.layout.find(static_cast<std::uint32_t>(address - s.base)))
+            return s.name + "." + r->name;
+        return s.name + ".(reserved)";
+    }
+    for (const auto& p : peripherals_) {
+        const auto& s = p->spec;
         if (address < s.base || address >= s.base + s.layout.size) continue;
         if (const auto* r = s.layout.find(static_cast<std::uint32_t>(address - s.base)))
             return s.name + "." + r->name;
@@ -401,7 +517,7 @@ void platform::fail(run_outcome outcome, const std::string& message,
     spdlog::shutdown();
     std::cout.flush();
     std::cerr.flush();
-    _exit(3);
+    _exit(exit_code_of(outcome));
 }
 
 }  // namespace harness

@@ -12,7 +12,9 @@
 #include "models/bus/timer_target.h"
 #include "models/layout/register_file.h"
 #include "models/layout/register_layout.h"
+#include "models/tick/tick_timer_core.h"
 #include "models/timer/timer_module.h"
+#include "models/watchdog/watchdog_core.h"
 #include "sim/clock_tree.h"
 #include "sim/stimulus/source_spec.h"
 
@@ -42,6 +44,23 @@ struct timer_spec {
     std::vector<models::input_observer*> input_observers;
 };
 
+// One peripheral of a kind other than the timer (a tick timer, a watchdog), chosen by its layout's
+// kind.
+struct peripheral_spec {
+    std::string name;                // instance name, also its interrupt line's name
+    models::register_layout layout;  // its registers (kind and instance configuration)
+    std::string clock;               // clock-tree node it counts
+    std::uint64_t base = 0;          // bus address of its register window
+    unsigned irq_priority = 8;
+    time_ps irq_extra_delay = 0;                              // injected interrupt delivery delay
+    sc_core::sc_time access_latency = sc_core::SC_ZERO_TIME;  // added per bus access
+    // Watchdogs: a reset is expected (a check decides whether it came in time) rather than a
+    // failure that ends the run.
+    bool reset_expected = false;
+    // Watchdogs: told of the reset before the platform acts on it. They must outlive the run.
+    std::vector<models::watchdog_observer*> reset_observers;
+};
+
 // What drives one input of a timer (docs/scenario.md, "Inputs"; docs/architecture.md, "Input
 // stimulus").
 struct input_wiring {
@@ -65,12 +84,24 @@ std::string input_name(unsigned input);
 
 // Brings every model up to time t, always advancing the one whose next event is earliest, so that
 // what they report reaches shared observers (waveforms, checks) in time order.
-void advance_in_order(const std::vector<models::timer_core_if*>& models, time_ps t);
+void advance_in_order(const std::vector<models::event_source*>& models, time_ps t);
 
 // How a run ended.
-enum class run_outcome { completed, crashed, aborted, check_failed, hung, failed };
-// "completed", "crashed", "aborted", "firmware-check-failed", "hung", "failed".
+enum class run_outcome {
+    completed,
+    crashed,
+    aborted,
+    check_failed,
+    hung,
+    failed,
+    watchdog_reset,  // a watchdog whose reset the scenario did not expect reset the part
+};
+// "completed", "crashed", "aborted", "firmware-check-failed", "hung", "failed", "watchdog-reset".
 const char* to_string(run_outcome o);
+
+// The process exit code of a run that ended with `o` (other than completed): 5 for a watchdog
+// reset, 3 for the others (docs/cli.md, "Exit codes").
+int exit_code_of(run_outcome o);
 
 // The report of a run that firmware ended badly.
 struct failure_report {
@@ -94,6 +125,9 @@ public:
     // The clock tree, to fill before build().
     sim::clock_tree& clocks() { return clocks_; }
     void add_timer(timer_spec spec);
+    // Adds a peripheral of another kind (before build()); its interrupt line comes after every
+    // timer's. Throws std::invalid_argument for a kind the platform cannot build.
+    void add_peripheral(peripheral_spec spec);
     // Drives a timer input (before build()). build() throws std::invalid_argument for an unknown
     // timer, an input driven twice, or wiring in which a timer depends on itself.
     void add_input(input_wiring w) { inputs_.push_back(std::move(w)); }
@@ -119,23 +153,30 @@ public:
 
     models::timer_module& timer(const std::string& name);
     std::vector<std::string> timer_names() const;
+    // The tick timer named `name` (throws std::out_of_range if there is none).
+    models::tick_timer_core& tick_timer(const std::string& name);
+    // The watchdog named `name` (throws std::out_of_range if there is none).
+    models::watchdog_core& watchdog_timer(const std::string& name);
     harness::cpu* cpu() { return cpu_.get(); }
     interrupt_controller& interrupts() { return *irqs_; }
     // "peripheral.register" for a bus address, or the address in hex.
     std::string describe_address(std::uint64_t address) const;
 
-    // Ends the run on a firmware failure: report, closers, exit code 3. Never returns.
+    // Ends the run on a firmware failure: report, closers, exit code 3 (5 for an unexpected
+    // watchdog reset; exit_code_of()). Never returns.
     [[noreturn]] void fail(run_outcome outcome, const std::string& message,
                            std::vector<std::string> backtrace = {});
 
 private:
     struct timer_slot;
+    struct peripheral_slot;
     struct idle_initiator;
     void start_watchdog();
     void wire_inputs();
 
     sim::clock_tree clocks_;
     std::vector<std::unique_ptr<timer_slot>> timers_;
+    std::vector<std::unique_ptr<peripheral_slot>> peripherals_;
     std::vector<input_wiring> inputs_;
     std::optional<cpu_config> cpu_cfg_;
     std::function<void()> entry_;

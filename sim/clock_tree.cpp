@@ -29,6 +29,9 @@ const char* to_string(clock_kind k) {
 
 namespace {
 constexpr std::int64_t ppb_limit = 100'000'000;  // 10 %: past this a "ppm" offset is a typo
+// An RC oscillator's band is tens of percent on many parts (a low-speed one for a watchdog is
+// often +-30 % or more: fact of the trade, no source), so it may run up to 50 % off nominal.
+constexpr std::int64_t rc_ppb_limit = 500'000'000;
 
 struct settings {
     crystal_params crystal;
@@ -186,7 +189,7 @@ std::vector<frequency> settled(const std::vector<std::size_t>& topo,
                 break;
             case clock_kind::rc_oscillator: {
                 const std::int64_t ppb = c.rc.deviation_ppb + c.rc.trim * c.rc.trim_step_ppb;
-                if (!c.rc.nominal.is_zero() && std::llabs(ppb) < ppb_limit)
+                if (!c.rc.nominal.is_zero() && std::llabs(ppb) < rc_ppb_limit)
                     f[id] = c.rc.nominal.offset_ppb(ppb);
                 break;
             }

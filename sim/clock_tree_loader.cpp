@@ -30,9 +30,9 @@ constexpr std::int64_t min_celsius = -273;
 constexpr std::int64_t max_celsius = 1000;
 constexpr std::int64_t max_ratio_ppb = 1'000'000'000;  // 100 %
 constexpr std::int64_t max_tempco_ppb = 1'000'000;     // 1000 ppm/C2
-// The clock tree treats an RC oscillator trimmed 10 % or more off nominal as stopped (its
-// ppb_limit); the loader refuses such a setting instead of letting it pass as a silent 0 Hz.
-constexpr std::int64_t rc_offset_limit_ppb = 100'000'000;
+// The clock tree treats an RC oscillator trimmed 50 % or more off nominal as stopped (its
+// rc_ppb_limit); the loader refuses such a setting instead of letting it pass as a silent 0 Hz.
+constexpr std::int64_t rc_offset_limit_ppb = 500'000'000;
 
 const char* const ratio_words = "a ratio such as \"20 ppm\" (units ppb, ppm, %)";
 const char* const tempco_words = "a coefficient such as \"-34 ppb/C2\" (units ppb/C2, ppm/C2)";
@@ -243,7 +243,7 @@ bool read_node(table_reader& r, const std::string& name, const toml::table& t, n
                 r.report(t.get("trim") ? "trim" : "deviation",
                          "deviation plus trim x trim-step puts the oscillator " +
                              percent_text(total) +
-                             " off nominal; accepted: less than 10 % either way");
+                             " off nominal; accepted: less than 50 % either way");
                 ok = false;
             }
             break;

@@ -171,4 +171,26 @@
 #define D32_INPUT_TRIGGER_FILTER(index) ((unsigned)(index) << 24)
 #define D32_INPUT_FILTER_DIVIDER(d) ((unsigned)(d) << 28)
 
+/* ---- tick24: the system tick timer, a 24-bit down-counter (docs/tick-timer.md) ---- */
+#define TK_START_VALUE 0x00u /* reload value, bits 0..23 */
+#define TK_COUNT_NOW 0x04u   /* current value; any write clears it to 0 */
+#define TK_CONTROL 0x08u     /* reading it clears the reached-zero flag */
+#define TK_CONTROL_ENABLE 0x01u
+#define TK_CONTROL_DIVIDED 0x02u /* count the instance clock divided by 8 */
+#define TK_CONTROL_NOTIFY 0x08u  /* interrupt request on reaching zero */
+#define TK_CONTROL_REACHED_ZERO 0x80u
+#define TK_COUNTER_MAX 0xffffffu
+
+/* ---- watchdog12: the watchdog, a 12-bit down-counter on the slow RC oscillator
+ * (docs/watchdog.md) ---- */
+#define WD_FEED 0x00u   /* key register: write WD_KEY_FIRST then WD_KEY_SECOND to refresh */
+#define WD_ARM 0x04u    /* write 1: start; reads 1 once started */
+#define WD_DIVIDE 0x08u /* prescaler: the counter steps every 4 << value edges (0..6) */
+#define WD_LIMIT 0x0cu  /* reload value */
+#define WD_WINDOW 0x10u /* refresh allowed only while the counter is at or below this */
+#define WD_LEVEL 0x14u  /* the counter, read-only */
+#define WD_KEY_FIRST 0x3c71u
+#define WD_KEY_SECOND 0x9e24u
+#define WD_COUNTER_MAX 0xfffu
+
 #endif

@@ -22,6 +22,8 @@ inline constexpr int exit_bad_input = 2;
 inline constexpr int exit_firmware_failed = 3;
 // An unexpected failure inside tickbench (a bug): reported, never a verdict on the input.
 inline constexpr int exit_internal = 4;
+// `run`: a watchdog reset the part and the scenario did not expect it (harness::exit_code_of).
+inline constexpr int exit_watchdog_reset = 5;
 
 struct clocks_options {
     std::string file;
@@ -59,7 +61,8 @@ struct run_command_options {
 };
 
 // `tickbench run`: runs the scenario and writes its outputs; returns exit_ok or exit_check_failed.
-// A firmware failure ends the process with exit_firmware_failed. Throws on bad input.
+// A firmware failure ends the process with exit_firmware_failed (exit_watchdog_reset for an
+// unexpected watchdog reset). Throws on bad input.
 int run_scenario_command(const run_command_options& options, std::ostream& out);
 
 struct plan_options {

@@ -20,16 +20,20 @@ int run_layout(const layout_options& options, std::ostream& out) {
     }
     const models::timer_config& c = layout.instance;
     out << "layout " << layout.name << ": " << layout.kind << ", window "
-        << models::hex_address(layout.size) << " bytes, " << c.counter_bits << "-bit counter, "
-        << c.channels << " channels, " << layout.registers.size() << " registers, "
-        << layout.codes.size() << " value tables\n\n"
+        << models::hex_address(layout.size) << " bytes, ";
+    if (layout.kind == "tick_timer")
+        out << layout.tick.counter_bits << "-bit counter, clock divider " << layout.tick.divider;
+    else if (layout.kind == "watchdog")
+        out << layout.watchdog.counter_bits << "-bit counter";
+    else
+        out << c.counter_bits << "-bit counter, " << c.channels << " channels";
+    out << ", " << layout.registers.size() << " registers, " << layout.codes.size()
+        << " value tables\n\n"
         << models::layout_table_markdown(layout);
     // What firmware cannot reach through this layout: usually a field the datasheet was read past.
     std::string missing;
-    for (const auto& [field, channel] : layout.unmapped_fields()) {
-        missing += (missing.empty() ? "" : ", ") + std::string(models::to_string(field));
-        if (models::is_channel_field(field)) missing += "[" + std::to_string(channel) + "]";
-    }
+    for (const std::string& name : layout.unmapped_field_names())
+        missing += (missing.empty() ? "" : ", ") + name;
     out << '\n'
         << (missing.empty() ? "every functional field of the instance is mapped"
                             : "not mapped (firmware cannot reach them): " + missing)

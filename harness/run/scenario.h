@@ -55,6 +55,8 @@ struct scenario {
     std::string file;  // as given on the command line
     std::string name;  // the file's stem: the suite name of junit.xml
     std::vector<timer_spec> timers;
+    // [peripherals.NAME]: the part's peripherals of other kinds (tick timers), in file order.
+    std::vector<peripheral_spec> peripherals;
     std::optional<cpu_config> cpu;
     std::optional<firmware_settings> firmware;
     run_settings run;

@@ -259,6 +259,129 @@ void read_timers(context& c, const toml::table& root) {
         }
 }
 
+// ---- [peripherals.NAME] --------------------------------------------------------------------
+
+const std::vector<std::string> peripheral_keys = {
+    "layout",          "clock",          "base",          "interrupt-priority",
+    "interrupt-delay", "access-latency", "reset-expected"};
+
+// Peripherals of kinds other than the timer: the layout's kind says which model serves them.
+void read_peripherals(context& c, const toml::table& root) {
+    const toml::table* all = sub_table(c, root, "peripherals",
+                                       "one table [peripherals.NAME] per peripheral of another "
+                                       "kind (a tick timer)");
+    if (!all) return;
+    for (const named_table& entry :
+         table_reader(c.out, *all, "peripherals")
+             .named_tables("peripheral", sim::is_plain_name, sim::plain_name_words)) {
+        const std::string& name = entry.name;
+        if (!entry.name_ok || !entry.table) continue;
+        const toml::table& t = *entry.table;
+        table_reader r(c.out, t, "peripherals." + name);
+        r.reject_unknown_keys(peripheral_keys, "a peripheral");
+        peripheral_spec spec;
+        spec.name = name;
+        bool ok = true;
+        for (const timer_spec& other : c.s.timers)
+            if (other.name == name) {
+                r.report("layout", "the name " + in_quotes(name) +
+                                       " is a timer's too; accepted: a name no timer has (it "
+                                       "names the interrupt line)");
+                ok = false;
+            }
+        if (auto layout =
+                r.string("layout", true,
+                         "the path of a register layout file, relative to the scenario file")) {
+            const std::string p = resolve(c.dir, *layout);
+            std::error_code ec;
+            if (!fs::is_regular_file(p, ec)) {
+                r.report("layout", "no layout file " + in_quotes(*layout) + " (looked for " + p +
+                                       "); accepted: the path of a register layout file "
+                                       "(docs/register-layouts.md), relative to the scenario file");
+                ok = false;
+            } else {
+                try {
+                    spec.layout = models::load_register_layout_file(p);
+                    if (spec.layout.kind == "timer") {
+                        r.report(
+                            "layout",
+                            "layout " + in_quotes(*layout) +
+                                " describes a timer; accepted: a layout of another "
+                                "kind (\"tick_timer\", \"watchdog\"); timers go under [timers]");
+                        ok = false;
+                    }
+                } catch (const sim::scenario_error& e) {
+                    r.report("layout", "layout file " + in_quotes(*layout) +
+                                           " has mistakes (listed after this file's)");
+                    c.out.add_foreign(e.findings());
+                    ok = false;
+                }
+            }
+        } else {
+            ok = false;
+        }
+        if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
+            spec.clock = *clock;
+            if (!known_clock(c, r, "clock", *clock)) ok = false;
+        } else {
+            ok = false;
+        }
+        if (auto base = r.integer("base", 0, 0xffff'ffffLL, true))
+            spec.base = static_cast<std::uint64_t>(*base);
+        else
+            ok = false;
+        if (auto p = r.integer("interrupt-priority", 0, 255))
+            spec.irq_priority = static_cast<unsigned>(*p);
+        else if (r.has("interrupt-priority"))
+            ok = false;
+        if (auto d = r.time("interrupt-delay"))
+            spec.irq_extra_delay = *d;
+        else if (r.has("interrupt-delay"))
+            ok = false;
+        if (auto l = r.time("access-latency"))
+            spec.access_latency = sc_core::sc_time::from_value(*l);
+        else if (r.has("access-latency"))
+            ok = false;
+        if (ok && spec.base + spec.layout.size > 0x1'0000'0000ULL) {
+            r.report("base", "the window " + hex(spec.base) + " + " + hex(spec.layout.size) +
+                                 " runs past the 32-bit address space; accepted: a base at most " +
+                                 hex(0x1'0000'0000ULL - spec.layout.size));
+            ok = false;
+        }
+        if (auto e = r.boolean("reset-expected")) {
+            spec.reset_expected = *e;
+            if (ok && spec.layout.kind != "watchdog") {
+                r.report("reset-expected",
+                         "only a watchdog resets the part, and this layout is a " +
+                             in_quotes(spec.layout.kind) +
+                             "; accepted: no reset-expected key here");
+                ok = false;
+            }
+        } else if (r.has("reset-expected")) {
+            ok = false;
+        }
+        if (!ok) continue;
+        // Windows must not overlap a timer's or an earlier peripheral's.
+        const auto overlaps = [&](const std::string& what, std::uint64_t base, std::uint32_t size) {
+            if (spec.base < base + size && base < spec.base + spec.layout.size) {
+                r.report("base", "the window " + hex(spec.base) + ".." +
+                                     hex(spec.base + spec.layout.size - 1) + " overlaps " + what +
+                                     " (" + hex(base) + ".." + hex(base + size - 1) +
+                                     "); accepted: a base whose window overlaps no other "
+                                     "peripheral's");
+                return true;
+            }
+            return false;
+        };
+        bool clash = false;
+        for (const timer_spec& o : c.s.timers)
+            clash = overlaps("timers." + o.name, o.base, o.layout.size) || clash;
+        for (const peripheral_spec& o : c.s.peripherals)
+            clash = overlaps("peripherals." + o.name, o.base, o.layout.size) || clash;
+        if (!clash) c.s.peripherals.push_back(std::move(spec));
+    }
+}
+
 // ---- [cpu] ---------------------------------------------------------------------------------
 
 void read_cpu(context& c, const toml::table& root) {
@@ -821,6 +944,8 @@ std::vector<std::string> scenario::signal_names() const {
         const auto names = timer_signal_names(t.name, t.layout.instance, shown_inputs(t.name));
         v.insert(v.end(), names.begin(), names.end());
     }
+    for (const peripheral_spec& p : peripherals)
+        if (p.layout.kind == "watchdog") v.push_back(p.name + ".reset");
     return v;
 }
 
@@ -833,8 +958,9 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree,
     findings_list out(path);
     context c{out, path, fs::path(path).parent_path(), tree, false, s, {}};
 
-    const std::vector<std::string> tables = {"clocks", "timers", "cpu",      "firmware", "run",
-                                             "waves",  "checks", "stimulus", "inputs"};
+    const std::vector<std::string> tables = {"clocks", "timers",     "cpu",    "firmware",
+                                             "run",    "waves",      "checks", "stimulus",
+                                             "inputs", "peripherals"};
     for (auto&& [k, v] : root) {
         (void)v;
         const std::string key(k.str());
@@ -850,6 +976,7 @@ scenario load_scenario(const std::string& path, sim::clock_tree& tree,
     if (ov.seed) s.run.seed = *ov.seed;
     read_clocks(c, root, s.run.seed);
     read_timers(c, root);
+    read_peripherals(c, root);
     s.inputs = read_inputs(out, root, c.dir, s.timers, c.broken_timers, s.run.seed);
     read_cpu(c, root);
     if (s.cpu && ov.start_offset_cycles) s.cpu->start_offset_cycles = *ov.start_offset_cycles;

@@ -10,6 +10,7 @@
 #include "harness/run/progress_line.h"
 #include "harness/run/signal_fanout.h"
 #include "models/timer/timer_probe.h"
+#include "models/watchdog/watchdog_probe.h"
 #include "sim/checks/check_engine.h"
 #include "sim/clock_plan.h"
 #include "sim/report/checks_jsonl.h"
@@ -76,6 +77,7 @@ struct run_state {
     std::unique_ptr<firmware_log> log;
     signal_fanout fanout;
     std::vector<std::unique_ptr<models::timer_probe>> probes;
+    std::vector<std::unique_ptr<models::watchdog_probe>> watchdog_probes;
     std::optional<failure_report> failure;
     std::unique_ptr<progress_line> progress;
     bool finished = false;
@@ -189,6 +191,15 @@ void start_run(platform& part, run_state& state, const std::string& path,
         spec.input_observers.push_back(state.probes.back().get());
         part.add_timer(std::move(spec));
     }
+    for (peripheral_spec p : s.peripherals) {
+        if (p.layout.kind == "watchdog") {
+            state.watchdog_probes.push_back(
+                std::make_unique<models::watchdog_probe>(p.name, state.fanout, id));
+            id = state.watchdog_probes.back()->end_id();
+            p.reset_observers.push_back(state.watchdog_probes.back().get());
+        }
+        part.add_peripheral(std::move(p));
+    }
     for (const input_wiring& w : s.inputs) part.add_input(w);
     part.set_unmapped_policy(s.run.unmapped);
     part.set_hang_wall_seconds(s.run.hang_wall_seconds);
@@ -282,6 +293,14 @@ void check_scenario(const std::string& path, std::ostream& out) {
             << t.clock << ", " << t.layout.instance.counter_bits << "-bit counter, "
             << t.layout.instance.channels << " channels\n";
     }
+    for (const peripheral_spec& p : s.peripherals) {
+        char window[64];
+        std::snprintf(window, sizeof window, "0x%08llx..0x%08llx",
+                      static_cast<unsigned long long>(p.base),
+                      static_cast<unsigned long long>(p.base + p.layout.size - 1));
+        out << p.layout.kind << " " << p.name << ": layout " << p.layout.name << " at " << window
+            << ", clock " << p.clock << "\n";
+    }
     const auto fw = load_firmware(s);
     if (fw)
         out << "firmware " << fw->path() << ": loads, entry " << s.firmware->entry << " found\n";
@@ -290,8 +309,9 @@ void check_scenario(const std::string& path, std::ostream& out) {
         out << "input " << w.timer << "."
             << (w.kind == input_wiring::source_kind::chain ? "chain" : input_name(w.input)) << ": "
             << w.label << "\n";
-    out << path << ": ok, " << rows.size() << " clocks, " << s.timers.size() << " timers, "
-        << s.inputs.size() << " inputs, " << s.checks.size() << " checks\n";
+    out << path << ": ok, " << rows.size() << " clocks, " << s.timers.size() << " timers, ";
+    if (!s.peripherals.empty()) out << s.peripherals.size() << " other peripherals, ";
+    out << s.inputs.size() << " inputs, " << s.checks.size() << " checks\n";
 }
 
 }  // namespace harness::run

@@ -41,8 +41,9 @@ std::string describe_fields(const register_map& reg, const register_layout& layo
     for (const field_map& f : reg.fields) {
         if (!out.empty()) out += ", ";
         const code_table* table = layout.codes_of(f);
-        out += field_bits(f) + " " + (table ? table->name : to_string(f.field));
-        if (table ? table->sets_channel_field() : is_channel_field(f.field))
+        out += field_bits(f) + " " + (table ? table->name : layout.field_name(f));
+        if (layout.kind == "timer" &&
+            (table ? table->sets_channel_field() : is_channel_field(f.field)))
             out += "[" + std::to_string(f.channel) + "]";
         if (f.value_bit != 0)
             out +=
@@ -75,23 +76,26 @@ std::string layout_table_markdown(const register_layout& layout) {
 std::string layout_json(const register_layout& layout) {
     using json = nlohmann::ordered_json;
     const timer_config& c = layout.instance;
-    json doc = {{"name", layout.name},
-                {"kind", layout.kind},
-                {"size", layout.size},
-                {"instance",
-                 {{"counter_bits", c.counter_bits},
-                  {"channels", c.channels},
-                  {"prescaler_bits", c.prescaler_bits},
-                  {"wrap_skip_bits", c.wrap_skip_bits},
-                  {"prescaler_shadowed", c.prescaler_shadowed},
-                  {"complementary", c.complementary},
-                  {"dead_time_max", c.dead_time_max},
-                  {"dead_time_scaled", c.dead_time_scaled},
-                  {"compare_latency", c.compare_latency},
-                  {"input_sync_ticks", c.input_sync_ticks},
-                  {"filter_lengths", c.filter_lengths},
-                  {"capture_read_clears_flag", c.capture_read_clears_flag},
-                  {"chain_latency", c.chain_latency}}}};
+    json doc = {{"name", layout.name}, {"kind", layout.kind}, {"size", layout.size}};
+    if (layout.kind == "tick_timer")
+        doc["instance"] = {{"counter_bits", layout.tick.counter_bits},
+                           {"divider", layout.tick.divider}};
+    else if (layout.kind == "watchdog")
+        doc["instance"] = {{"counter_bits", layout.watchdog.counter_bits}};
+    else
+        doc["instance"] = {{"counter_bits", c.counter_bits},
+                           {"channels", c.channels},
+                           {"prescaler_bits", c.prescaler_bits},
+                           {"wrap_skip_bits", c.wrap_skip_bits},
+                           {"prescaler_shadowed", c.prescaler_shadowed},
+                           {"complementary", c.complementary},
+                           {"dead_time_max", c.dead_time_max},
+                           {"dead_time_scaled", c.dead_time_scaled},
+                           {"compare_latency", c.compare_latency},
+                           {"input_sync_ticks", c.input_sync_ticks},
+                           {"filter_lengths", c.filter_lengths},
+                           {"capture_read_clears_flag", c.capture_read_clears_flag},
+                           {"chain_latency", c.chain_latency}};
     json registers = json::array();
     for (const register_map& r : layout.registers) {
         json fields = json::array();
@@ -102,8 +106,9 @@ std::string layout_json(const register_layout& layout) {
             if (table)
                 j["codes"] = table->name;
             else
-                j["field"] = to_string(f.field);
-            if (table ? table->sets_channel_field() : is_channel_field(f.field))
+                j["field"] = layout.field_name(f);
+            if (layout.kind == "timer" &&
+                (table ? table->sets_channel_field() : is_channel_field(f.field)))
                 j["channel"] = f.channel;
             if (!table) j["value_bit"] = f.value_bit;
             j["access"] = to_string(f.access);

@@ -35,11 +35,46 @@ register_file::register_file(const register_layout& layout, timer_core_if& core,
                              const timer_config& config, std::string peripheral,
                              unmapped_policy policy, std::uint64_t base)
     : layout_(layout),
-      core_(core),
+      core_(&core),
       config_(config),
       peripheral_(std::move(peripheral)),
       policy_(policy),
       base_(base) {
+    index_registers();
+}
+
+register_file::register_file(const register_layout& layout, field_port& port,
+                             std::string peripheral, unmapped_policy policy, std::uint64_t base)
+    : layout_(layout),
+      port_(&port),
+      peripheral_(std::move(peripheral)),
+      policy_(policy),
+      base_(base) {
+    if (layout_.kind == "timer")
+        throw std::invalid_argument("register file for " + peripheral_ +
+                                    ": a \"timer\" layout needs a timer model");
+    index_registers();
+}
+
+std::uint32_t register_file::read_model(const field_map& f, sim::time_ps t) {
+    return core_ ? core_->read(f.field, f.channel, t) : port_->read_field(f.kind_field, t);
+}
+
+void register_file::write_model(const field_map& f, std::uint32_t value, sim::time_ps t) {
+    if (core_)
+        core_->write(f.field, f.channel, value, t);
+    else
+        port_->write_field(f.kind_field, value, t);
+}
+
+void register_file::clear_model(std::uint32_t mask, sim::time_ps t) {
+    if (core_)
+        core_->clear_flags(mask, t);
+    else
+        port_->clear_flag_bits(mask, t);
+}
+
+void register_file::index_registers() {
     registers_.reserve(layout_.registers.size());
     for (const auto& reg : layout_.registers) {
         register_entry e;
@@ -54,7 +89,7 @@ register_file::register_file(const register_layout& layout, timer_core_if& core,
                 mapped.push_back(f.field);
             }
             for (const timer_field m : mapped)
-                if (!instance_has(config_, m, channel_of(f, m)))
+                if (core_ && !instance_has(config_, m, channel_of(f, m)))
                     throw std::invalid_argument(
                         "register file for " + peripheral_ + ": register \"" + reg.name +
                         "\" maps \"" + to_string(m) + "\" (channel " +
@@ -62,7 +97,8 @@ register_file::register_file(const register_layout& layout, timer_core_if& core,
             field_entry fe{f, false, layout_.codes_of(f), f.raw_of(reg.reset)};
             for (const auto& other_reg : layout_.registers)
                 for (const auto& o : other_reg.fields) {
-                    if (f.coded() || o.coded() || o.field != f.field || o.channel != f.channel)
+                    if (f.coded() || o.coded() || o.field != f.field || o.channel != f.channel ||
+                        o.kind_field != f.kind_field)
                         continue;
                     const bool inside = o.value_bit >= f.value_bit &&
                                         o.value_bit + o.width <= f.value_bit + f.width;
@@ -94,7 +130,7 @@ access_outcome register_file::reserved(bool is_write, std::uint32_t offset, unsi
 
 bool register_file::matches(const field_entry& fe, const code_entry& e, sim::time_ps t) {
     for (const auto& a : e.sets)
-        if (core_.read(a.field, channel_of(fe.map, a.field), t) != a.value) return false;
+        if (core_->read(a.field, channel_of(fe.map, a.field), t) != a.value) return false;
     return true;
 }
 
@@ -122,7 +158,7 @@ void register_file::write_coded(const register_entry& r, field_entry& fe, std::u
             raw_value_list(fe.table->accepted()));
         return;
     }
-    for (const auto& a : e->sets) core_.write(a.field, channel_of(f, a.field), a.value, t);
+    for (const auto& a : e->sets) core_->write(a.field, channel_of(f, a.field), a.value, t);
     fe.raw = raw;
 }
 
@@ -145,7 +181,7 @@ void register_file::write_fields(register_entry& r, std::uint32_t value, std::ui
                 const std::uint32_t ones =
                     f.access == access_kind::write_one_to_clear ? bits : ~bits;
                 const std::uint32_t clear = ones & cov & full;
-                if (clear != 0) core_.clear_flags(clear << f.value_bit, t);
+                if (clear != 0) clear_model(clear << f.value_bit, t);
                 continue;
             }
             case access_kind::write_only:
@@ -164,11 +200,11 @@ void register_file::write_fields(register_entry& r, std::uint32_t value, std::ui
         std::uint32_t v = bits;
         std::uint32_t whole = 0;
         const bool need_model = cov != full || fe.merge_value;
-        if (need_model) whole = core_.read(f.field, f.channel, t);
+        if (need_model) whole = read_model(f, t);
         if (cov != full) v = (((whole >> f.value_bit) & full) & ~cov) | (bits & cov);
         std::uint32_t out = v << f.value_bit;
         if (fe.merge_value) out |= whole & ~(full << f.value_bit);
-        core_.write(f.field, f.channel, out, t);
+        write_model(f, out, t);
     }
 }
 
@@ -225,7 +261,7 @@ access_outcome register_file::read(std::uint32_t offset, unsigned length, std::u
                     regval |= f.place(coded_raw(fe, t));
                     continue;
                 }
-                const std::uint32_t v = (core_.read(f.field, f.channel, t) >> f.value_bit) & full;
+                const std::uint32_t v = (read_model(f, t) >> f.value_bit) & full;
                 regval |= (v ^ (f.invert ? full : 0)) << f.bit;
                 if (f.access == access_kind::clear_on_read)
                     clears |= (v & ((covered & fm) >> f.bit)) << f.value_bit;
@@ -235,7 +271,7 @@ access_outcome register_file::read(std::uint32_t offset, unsigned length, std::u
             result |= reg_offset >= offset ? part << (8 * (reg_offset - offset))
                                            : part >> (8 * (offset - reg_offset));
         });
-    if (clears != 0) core_.clear_flags(clears, t);
+    if (clears != 0) clear_model(clears, t);
     if (!touched) return reserved(false, offset, length, t);
     value = static_cast<std::uint32_t>(result & low_mask(8 * length));
     return {};

@@ -1,6 +1,7 @@
 #pragma once
-// The bus side of one timer instance without any SystemC: 8/16/32-bit reads and writes at an offset
-// and a time, turned into functional field reads and writes on a timer_core_if through a layout.
+// The bus side of one peripheral instance without any SystemC: 8/16/32-bit reads and writes at an
+// offset and a time, turned into functional field reads and writes through a layout, on a
+// timer_core_if for a "timer" layout and on a field_port for the other kinds.
 //
 // Kept apart from the TLM target so the firmware runner's fast path and unit tests can use it with
 // no kernel (STYLE: behaviour apart from the kernel shell). Registers are little-endian: byte k of
@@ -25,6 +26,7 @@
 // - accesses are applied at max(t, the latest time seen), since the model needs non-decreasing
 // time.
 
+#include "models/layout/field_port.h"
 #include "models/layout/register_layout.h"
 #include "models/layout/unmapped_access.h"
 #include "models/timer/timer_types.h"
@@ -50,6 +52,10 @@ public:
     register_file(const register_layout& layout, timer_core_if& core, const timer_config& config,
                   std::string peripheral = "timer", unmapped_policy policy = unmapped_policy::warn,
                   std::uint64_t base = 0);
+    // Serves `layout` (copied), of a kind other than "timer", for the model behind `port`. Throws
+    // std::invalid_argument for a "timer" layout.
+    register_file(const register_layout& layout, field_port& port, std::string peripheral,
+                  unmapped_policy policy = unmapped_policy::warn, std::uint64_t base = 0);
 
     // Reads `length` bytes (1..4) at `offset` at time t; `value` gets them, little-endian.
     access_outcome read(std::uint32_t offset, unsigned length, std::uint32_t& value,
@@ -97,11 +103,18 @@ private:
     std::uint32_t coded_raw(const field_entry& fe, sim::time_ps t);
     // Whether every field the entry sets holds the entry's value in the model.
     bool matches(const field_entry& fe, const code_entry& e, sim::time_ps t);
+    // The model's value of plain field f, written value, flag clear: to whichever model is served.
+    std::uint32_t read_model(const field_map& f, sim::time_ps t);
+    void write_model(const field_map& f, std::uint32_t value, sim::time_ps t);
+    void clear_model(std::uint32_t mask, sim::time_ps t);
+    // Builds registers_ from layout_.
+    void index_registers();
     access_outcome reserved(bool is_write, std::uint32_t offset, unsigned length,
                             sim::time_ps t) const;
 
     register_layout layout_;
-    timer_core_if& core_;
+    timer_core_if* core_ = nullptr;  // a "timer" layout's model
+    field_port* port_ = nullptr;     // any other kind's model
     timer_config config_;
     std::string peripheral_;
     unmapped_policy policy_;

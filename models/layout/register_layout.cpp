@@ -105,6 +105,55 @@ void read_instance(table_reader& top, timer_config& cfg) {
     if (auto v = r.integer("chain_latency", 0, 3)) cfg.chain_latency = unsigned(*v);
 }
 
+// One functional field of a kind other than the timer.
+struct own_field {
+    std::string name;
+    unsigned width = 1;  // bits of its value in this instance
+    bool flags = false;  // the kind's flags field (the one the flag access kinds suit)
+};
+
+// The vocabulary of a kind other than "timer", indexed by field number (empty for "timer").
+std::vector<own_field> own_fields(const register_layout& l) {
+    std::vector<own_field> out;
+    if (l.kind == "tick_timer") {
+        for (std::uint32_t i = 0; i < tick_field_count; ++i) {
+            const auto f = static_cast<tick_field>(i);
+            const bool counter = f == tick_field::reload || f == tick_field::current;
+            out.push_back(
+                {to_string(f), counter ? l.tick.counter_bits : 1u, f == tick_field::flags});
+        }
+    }
+    if (l.kind == "watchdog") {
+        for (std::uint32_t i = 0; i < watchdog_field_count; ++i) {
+            const auto f = static_cast<watchdog_field>(i);
+            unsigned width = l.watchdog.counter_bits;
+            if (f == watchdog_field::key) width = 16;
+            if (f == watchdog_field::start) width = 1;
+            if (f == watchdog_field::prescaler) width = 3;
+            out.push_back({to_string(f), width, false});
+        }
+    }
+    return out;
+}
+
+void read_watchdog_instance(table_reader& top, watchdog_config& cfg) {
+    const toml::table* t = top.sub_table("instance", true, "counter_bits of the watchdog instance");
+    if (t == nullptr) return;
+    table_reader r(top.findings(), *t, "instance");
+    r.reject_unknown_keys({"counter_bits"}, "the watchdog instance");
+    if (auto v = r.integer("counter_bits", 4, 16, true)) cfg.counter_bits = unsigned(*v);
+}
+
+void read_tick_instance(table_reader& top, tick_config& cfg) {
+    const toml::table* t =
+        top.sub_table("instance", true, "counter_bits and divider of the tick timer instance");
+    if (t == nullptr) return;
+    table_reader r(top.findings(), *t, "instance");
+    r.reject_unknown_keys({"counter_bits", "divider"}, "the tick timer instance");
+    if (auto v = r.integer("counter_bits", 1, 32, true)) cfg.counter_bits = unsigned(*v);
+    if (auto v = r.integer("divider", 2, 65536, true)) cfg.divider = unsigned(*v);
+}
+
 // Reads `bits`, the node `n` of the field table `r`: a bit number (3) or a range "lo..hi".
 bool read_bits(table_reader& r, const toml::node& n, unsigned& lo, unsigned& width) {
     const std::string accepted =
@@ -427,7 +476,7 @@ bool read_spans(table_reader& r, const toml::node& n, bool coded, std::vector<bi
 // What field f is, for messages: the functional field, or the value table of a coded field.
 std::string field_label(const field_map& f, const register_layout& layout) {
     if (const code_table* t = layout.codes_of(f)) return "value table \"" + t->name + "\"";
-    return std::string("\"") + to_string(f.field) + "\"";
+    return "\"" + layout.field_name(f) + "\"";
 }
 
 // Reads the `channel` key of a field that needs one (`needs`), or refuses one it does not need;
@@ -461,7 +510,8 @@ bool read_channel(table_reader& r, const toml::table& t, bool needs, const std::
 }
 
 // Reads `access` for field f (`name` its field or table name); false on a mistake.
-bool read_access(table_reader& r, field_map& f, const std::optional<std::string>& name) {
+bool read_access(table_reader& r, field_map& f, const std::optional<std::string>& name,
+                 const register_layout& layout) {
     const auto kind = r.choice("access", access_names(), true);
     if (!kind) return false;
     const auto k = *access_kind_from_string(*kind);
@@ -473,14 +523,14 @@ bool read_access(table_reader& r, field_map& f, const std::optional<std::string>
                                "a coded field: read-write, read-only, write-only");
         return false;
     }
-    if (!f.coded() && clears_flags(k) && f.field != timer_field::flags) {
+    if (!f.coded() && clears_flags(k) && !layout.maps_flags(f)) {
         r.report("access", "\"" + *kind +
                                "\" clears flags and only suits the flags field; accepted for "
                                "\"" +
                                *name + "\": read-write, read-only, write-only");
         return false;
     }
-    if (!f.coded() && f.field == timer_field::flags &&
+    if (!f.coded() && layout.maps_flags(f) &&
         (k == access_kind::read_write || k == access_kind::write_only)) {
         r.report("access",
                  "flags are not written as data; accepted for \"flags\": read-only, "
@@ -527,7 +577,29 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
     // A plain field names its functional field; a coded field names its value table instead.
     std::optional<std::string> name;
     const code_table* table = nullptr;
-    if (t->get("codes") != nullptr) {
+    const bool timer_kind = ctx.layout.kind == "timer";
+    if (!timer_kind) {
+        // Other kinds have no channels and no value tables: every field is plain.
+        const auto own = own_fields(ctx.layout);
+        std::vector<std::string> names;
+        for (const auto& o : own) names.push_back(o.name);
+        if (t->get("codes") != nullptr) {
+            r.report(
+                "codes", "value tables are for \"timer\" layouts; accepted in a \"" +
+                             ctx.layout.kind + "\" layout: field = one of " + [&] {
+                                 std::string l;
+                                 for (const auto& x : names) l += (l.empty() ? "" : ", ") + x;
+                                 return l;
+                             }());
+            ok = false;
+        } else if (const auto chosen = r.choice("field", names, true)) {
+            for (std::size_t i = 0; i < names.size(); ++i)
+                if (names[i] == *chosen) f.kind_field = std::uint32_t(i);
+            name = chosen;
+        } else {
+            ok = false;
+        }
+    } else if (t->get("codes") != nullptr) {
         std::vector<std::string> tables;
         for (const auto& c : ctx.layout.codes) tables.push_back(c.name);
         if (t->get("field") != nullptr) {
@@ -557,7 +629,11 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
         ok = false;
     }
 
-    if (ok) {
+    if (ok && !timer_kind) {
+        ok = read_channel(r, *t, false,
+                          "a \"" + ctx.layout.kind + "\" layout has no per-channel fields", cfg,
+                          f.channel);
+    } else if (ok) {
         const bool per_channel = table ? table->sets_channel_field() : is_channel_field(f.field);
         const std::string is = table
                                    ? "value table \"" + table->name + "\" sets a per-channel field"
@@ -614,7 +690,7 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
                      "a coded field's value table says what each raw value means; accepted: no "
                      "invert key on a coded field (list the inverted raw values instead)");
             ok = false;
-        } else if (f.invert && name && f.field == timer_field::flags) {
+        } else if (f.invert && name && ctx.layout.maps_flags(f)) {
             r.report("invert",
                      "flags keep the model's polarity (1: set); accepted: invert = false, and "
                      "access = \"write-zero-to-clear\" for flags cleared by writing 0");
@@ -622,10 +698,20 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
         }
     }
 
-    if (!read_access(r, f, name)) ok = false;
+    if (!read_access(r, f, name, ctx.layout)) ok = false;
 
     if (!ok) return;
-    if (f.coded()) {
+    if (!timer_kind) {
+        const own_field& o = own_fields(ctx.layout)[f.kind_field];
+        if (f.value_bit + f.width > o.width) {
+            r.report(t->get("value_bit") ? "value_bit" : "bits",
+                     "the field holds value bits " + bit_range(f.value_bit, f.width) + " but \"" +
+                         o.name + "\" has " + std::to_string(o.width) +
+                         " bits in this instance; accepted: value bits within 0.." +
+                         std::to_string(o.width - 1));
+            return;
+        }
+    } else if (f.coded()) {
         check_raw_values(r, f, r.path(), ctx.sources[*f.codes]);
     } else {
         if (!instance_has(cfg, f.field, f.channel)) {
@@ -751,7 +837,8 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
     layout.file = file;
     top.reject_unknown_keys({"kind", "name", "size", "instance", "codes", "registers"},
                             "a register layout");
-    if (auto k = top.choice("kind", {"timer"}, true)) layout.kind = *k;
+    const auto kind = top.choice("kind", peripheral_kinds(), true);
+    if (kind) layout.kind = *kind;
     if (auto n = top.string("name", false, "a name such as \"timer16_quad\"")) {
         layout.name = *n;
     } else {
@@ -761,19 +848,37 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
     }
     const auto size =
         top.integer("size", 1, 0xffff'ffffLL, true, "a byte count from 1 to 0xffffffff");
-    read_instance(top, layout.instance);
-    if (out.empty()) {
-        try {
-            layout.instance.validate();
-        } catch (const std::exception& e) {
-            top.report("instance", e.what());
+    if (layout.kind == "watchdog") {
+        read_watchdog_instance(top, layout.watchdog);
+    } else if (layout.kind == "tick_timer") {
+        read_tick_instance(top, layout.tick);
+        if (out.empty()) {
+            try {
+                layout.tick.validate();
+            } catch (const std::exception& e) {
+                top.report("instance", e.what());
+            }
+        }
+    } else if (kind) {
+        read_instance(top, layout.instance);
+        if (out.empty()) {
+            try {
+                layout.instance.validate();
+            } catch (const std::exception& e) {
+                top.report("instance", e.what());
+            }
         }
     }
     // Value tables and registers are read only on a sound header: their checks need the instance
     // (and the window).
     const bool sound = size && out.empty();
     std::vector<table_source> sources;
-    if (sound) read_codes(top, layout.instance, layout, sources);
+    if (sound && layout.kind == "timer") {
+        read_codes(top, layout.instance, layout, sources);
+    } else if (sound && root.get("codes") != nullptr) {
+        top.report("codes", "value tables are for \"timer\" layouts; accepted in a \"" +
+                                layout.kind + "\" layout: plain fields only (no [codes])");
+    }
     if (const auto* t = top.sub_table("registers", true, "a table [registers.NAME] per register")) {
         // In file order, so overlap messages name the earlier register.
         const auto entries = table_reader(out, *t, "registers")
@@ -962,8 +1067,54 @@ nearest_register register_layout::nearest(std::uint64_t offset) const {
     return best;
 }
 
+std::string register_layout::field_name(const field_map& f) const {
+    if (kind == "timer") return to_string(f.field);
+    const auto own = own_fields(*this);
+    return f.kind_field < own.size() ? own[f.kind_field].name : "?";
+}
+
+bool register_layout::maps_flags(const field_map& f) const {
+    if (f.coded()) return false;
+    if (kind == "timer") return f.field == timer_field::flags;
+    const auto own = own_fields(*this);
+    return f.kind_field < own.size() && own[f.kind_field].flags;
+}
+
+std::vector<std::string> register_layout::unmapped_field_names() const {
+    std::vector<std::string> out;
+    if (kind == "timer") {
+        for (const auto& [field, channel] : unmapped_fields())
+            out.push_back(std::string(to_string(field)) +
+                          (is_channel_field(field) ? "[" + std::to_string(channel) + "]" : ""));
+        return out;
+    }
+    const auto own = own_fields(*this);
+    for (std::uint32_t i = 0; i < own.size(); ++i) {
+        bool found = false;
+        for (const auto& r : registers)
+            for (const auto& m : r.fields) found = found || m.kind_field == i;
+        if (!found) out.push_back(own[i].name);
+    }
+    return out;
+}
+
+const std::vector<std::string>& peripheral_kinds() {
+    static const std::vector<std::string> kinds = {"timer", "tick_timer", "watchdog"};
+    return kinds;
+}
+
+std::vector<std::string> kind_field_names(std::string_view kind) {
+    if (kind == "timer") return field_names();
+    register_layout l;
+    l.kind = std::string(kind);
+    std::vector<std::string> out;
+    for (const auto& o : own_fields(l)) out.push_back(o.name);
+    return out;
+}
+
 std::vector<std::pair<timer_field, unsigned>> register_layout::unmapped_fields() const {
     std::vector<std::pair<timer_field, unsigned>> missing;
+    if (kind != "timer") return missing;
     for (auto i = 0u; i <= static_cast<unsigned>(last_field); ++i) {
         const auto f = static_cast<timer_field>(i);
         const unsigned n = is_channel_field(f) ? instance.channels : 1;

@@ -1,6 +1,11 @@
 #pragma once
-// Register layouts: where a timer's functional fields sit in its address window
+// Register layouts: where a peripheral's functional fields sit in its address window
 // (docs/architecture.md, "Registers are data").
+//
+// A layout's `kind` selects the model it describes and so the vocabulary its fields may name: the
+// general-purpose timer's (models::timer_field, with channels and value tables) or another kind's
+// own (models::tick_field for "tick_timer", models::watchdog_field for "watchdog"), listed by
+// kind_field_names().
 //
 // A timer's behaviour is independent of where its fields sit in memory. A layout file (TOML, format
 // in docs/register-layouts.md) names the peripheral kind, the window size, the instance it
@@ -14,7 +19,9 @@
 // accepted, reading through the TOML reader every loader shares (sim/toml_reader.h). That reader
 // and its TOML library stay in the .cpp: this header is cheap to include.
 
+#include "models/tick/tick_timer_core.h"
 #include "models/timer/timer_types.h"
+#include "models/watchdog/watchdog_core.h"
 #include "sim/scenario_error.h"
 
 #include <cstddef>
@@ -89,7 +96,8 @@ struct bit_span {
 // coded field: its raw value is the concatenation of `spans` (the first holds the low bits) and
 // means what value table `codes` of the layout says.
 struct field_map {
-    timer_field field = timer_field::enable;  // plain fields only
+    timer_field field = timer_field::enable;  // plain fields of a "timer" layout only
+    std::uint32_t kind_field = 0;  // plain fields of other kinds: the field's number in the kind
     unsigned channel = 0;    // for per-channel fields (coded: for those its table sets); else 0
     unsigned bit = 0;        // lowest register bit
     unsigned width = 1;      // 1..32: plain: bits in the register; coded: bits of the raw value
@@ -137,10 +145,12 @@ struct nearest_register {
 // A whole layout, registers in offset order.
 struct register_layout {
     std::string name;        // the layout's own name (the file's `name`, else the file name's stem)
-    std::string kind;        // peripheral kind: "timer"
+    std::string kind;        // peripheral kind: one of peripheral_kinds()
     std::string file;        // where it was loaded from, for messages
     std::uint32_t size = 0;  // the address window in bytes
-    timer_config instance;   // what the timer instance has
+    timer_config instance;   // kind "timer": what the timer instance has
+    tick_config tick;        // kind "tick_timer": what the tick timer instance has
+    watchdog_config watchdog;  // kind "watchdog": what the watchdog instance has
     std::vector<register_map> registers;
     std::vector<code_table> codes;  // value tables, in file order
 
@@ -152,11 +162,22 @@ struct register_layout {
     const register_map* find(std::string_view name) const;
     // The register nearest to byte `offset` (ties go to the lower register).
     nearest_register nearest(std::uint64_t offset) const;
-    // Functional fields the instance has that no register maps (with their channel), for checking
-    // that a layout is complete. A field counts as mapped if any of its bits is, or if a coded
-    // field sets it.
+    // Functional fields the timer instance has that no register maps (with their channel), for
+    // checking that a "timer" layout is complete (empty for other kinds). A field counts as mapped
+    // if any of its bits is, or if a coded field sets it.
     std::vector<std::pair<timer_field, unsigned>> unmapped_fields() const;
+    // The same for any kind, as names ("compare[1]" for a timer's channel field).
+    std::vector<std::string> unmapped_field_names() const;
+    // The name of the functional field plain field f maps, in this layout's kind.
+    std::string field_name(const field_map& f) const;
+    // Whether plain field f maps the kind's flags field.
+    bool maps_flags(const field_map& f) const;
 };
+
+// The peripheral kinds a layout may name: "timer", "tick_timer", "watchdog".
+const std::vector<std::string>& peripheral_kinds();
+// The functional field names of kind `kind`, in field-number order (empty for an unknown kind).
+std::vector<std::string> kind_field_names(std::string_view kind);
 
 // Reads and checks the layout file at `path`. Throws sim::scenario_error listing every mistake.
 register_layout load_register_layout_file(const std::string& path);

@@ -7,6 +7,7 @@
 // both models implement the same semantics on them, written down in docs/timer-model.md. Names are
 // our own plain words.
 
+#include "models/event_source.h"
 #include "sim/clock_domain.h"
 
 #include <cstdint>
@@ -188,11 +189,10 @@ public:
 // The plain C++ interface both timer models implement; the SystemC shell and the tests drive it.
 // Calls come in non-decreasing time. A write or read at time t sees every timer clock tick at or
 // before t as already happened.
-class timer_core_if {
+class timer_core_if : public event_source {
 public:
-    virtual ~timer_core_if() = default;
     // Process everything that happens at or before t.
-    virtual void advance_to(time_ps t) = 0;
+    void advance_to(time_ps t) override = 0;
     // Write a field (channel for per-channel fields) at time t.
     virtual void write(timer_field f, unsigned channel, std::uint32_t value, time_ps t) = 0;
     // Read a field at time t (the counter's value now; preloaded fields read the written value).
@@ -209,7 +209,7 @@ public:
     // A trigger pulse from another timer reached the chained input at time t.
     virtual void chained_pulse(time_ps t) = 0;
     // The earliest time something may happen that was not yet processed, or none.
-    virtual bool next_event(time_ps& at) const = 0;
+    bool next_event(time_ps& at) const override = 0;
     // The timer clock's timeline changed from time t on (the clock tree rebuilt it).
     virtual void clock_changed(time_ps t) = 0;
 };

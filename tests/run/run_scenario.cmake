@@ -79,7 +79,7 @@ endif()
 
 # Every output is there.
 set(outputs waves.vcd checks.jsonl junit.xml summary.txt firmware.log)
-if(EXPECT_CODE EQUAL 3)
+if(EXPECT_CODE EQUAL 3 OR EXPECT_CODE EQUAL 5)
   list(APPEND outputs failure.txt)
   file(READ "${OUT}/failure.txt" failure)
   string(LENGTH "${failure}" n)
