@@ -73,7 +73,8 @@ void apply_key_overrides(toml::table& root,
         std::string walked;
         for (std::size_t i = 0; i + 1 < parts.size(); ++i) {
             toml::node* next = table->get(parts[i]);
-            const std::string here = walked.empty() ? std::string("the scenario") : "[" + walked + "]";
+            const std::string here =
+                walked.empty() ? std::string("the scenario") : "[" + walked + "]";
             if (next == nullptr || !next->is_table())
                 throw sim::scenario_error(sim::scenario_finding{
                     file, 0, 0, path,
@@ -86,10 +87,10 @@ void apply_key_overrides(toml::table& root,
         }
         const toml::node* old = table->get(parts.back());
         if (old != nullptr && old->is_table())
-            throw sim::scenario_error(sim::scenario_finding{
-                file, 0, 0, path,
-                "is a table, not a value (the sweep axis " + path + "); keys in it: " +
-                    existing_keys(*old->as_table())});
+            throw sim::scenario_error(
+                sim::scenario_finding{file, 0, 0, path,
+                                      "is a table, not a value (the sweep axis " + path +
+                                          "); keys in it: " + existing_keys(*old->as_table())});
         insert_value(*table, parts.back(), value, old != nullptr && old->is_string());
     }
 }

@@ -75,7 +75,8 @@ bool parse_quantity(const std::string& text, decimal_quantity& q) {
     q.unit = trim(s.substr(i));
     if (q.unit.empty()) return false;
     for (const char c : q.unit)
-        if (std::isspace(static_cast<unsigned char>(c)) || std::isdigit(static_cast<unsigned char>(c)))
+        if (std::isspace(static_cast<unsigned char>(c)) ||
+            std::isdigit(static_cast<unsigned char>(c)))
             return false;
     return true;
 }
@@ -128,7 +129,8 @@ std::string decimal_text(wide num, wide den) {
     const wide mag = negative ? -scaled : scaled;
     std::string whole = wide_text(mag / scale);
     std::string frac = decimals == 0 ? "" : wide_text(mag % scale);
-    if (decimals != 0) frac = std::string(static_cast<std::size_t>(decimals) - frac.size(), '0') + frac;
+    if (decimals != 0)
+        frac = std::string(static_cast<std::size_t>(decimals) - frac.size(), '0') + frac;
     while (!frac.empty() && frac.back() == '0') frac.pop_back();
     return (negative ? "-" : "") + whole + (frac.empty() ? "" : "." + frac);
 }
@@ -138,8 +140,7 @@ std::vector<std::string> integer_range(const std::string& where, std::int64_t a,
     if (a > b)
         throw sweep_error(where + ": the range starts above its end; write the smaller end first");
     if (step <= 0) throw sweep_error(where + ": the step must be a whole number above 0");
-    const std::uint64_t count =
-        static_cast<std::uint64_t>((static_cast<wide>(b) - a) / step) + 1;
+    const std::uint64_t count = static_cast<std::uint64_t>((static_cast<wide>(b) - a) / step) + 1;
     if (count > max_axis_values)
         throw sweep_error(where + ": " + std::to_string(count) + " values, more than the " +
                           std::to_string(max_axis_values) + " an axis may take");
@@ -154,8 +155,9 @@ std::vector<std::string> quantity_range(const std::string& where, const std::str
                                         const std::string& hi_and_count) {
     const auto slash = hi_and_count.rfind('/');
     if (slash == std::string::npos)
-        throw sweep_error(where + ": a quantity range needs its number of points, e.g. "
-                                  "\"7.9 MHz..8.1 MHz/5\" (5 points, both ends included)");
+        throw sweep_error(where +
+                          ": a quantity range needs its number of points, e.g. "
+                          "\"7.9 MHz..8.1 MHz/5\" (5 points, both ends included)");
     const std::string hi = hi_and_count.substr(0, slash);
     const std::string count_text = trim(hi_and_count.substr(slash + 1));
     decimal_quantity a;
@@ -206,9 +208,10 @@ std::vector<std::string> parse_values(const std::string& axis, const std::string
     const std::string where = "--vary " + axis + "=" + values_text;
     const std::string text = trim(values_text);
     if (text.empty())
-        throw sweep_error(where + ": no values; give a list \"a,b,c\", an integer range "
-                                  "\"0..63\" or \"0..100/5\", or a quantity range "
-                                  "\"7.9 MHz..8.1 MHz/5\"");
+        throw sweep_error(where +
+                          ": no values; give a list \"a,b,c\", an integer range "
+                          "\"0..63\" or \"0..100/5\", or a quantity range "
+                          "\"7.9 MHz..8.1 MHz/5\"");
     const auto dots = text.find("..");
     if (dots == std::string::npos) {
         std::vector<std::string> out;
@@ -218,8 +221,9 @@ std::vector<std::string> parse_values(const std::string& axis, const std::string
             const std::string item =
                 trim(text.substr(start, comma == std::string::npos ? comma : comma - start));
             if (item.empty())
-                throw sweep_error(where + ": an empty value in the list; separate values by "
-                                          "single commas, e.g. naive,careful");
+                throw sweep_error(where +
+                                  ": an empty value in the list; separate values by "
+                                  "single commas, e.g. naive,careful");
             out.push_back(item);
             if (comma == std::string::npos) break;
             start = comma + 1;
@@ -232,8 +236,9 @@ std::vector<std::string> parse_values(const std::string& axis, const std::string
         return out;
     }
     if (text.find(',') != std::string::npos)
-        throw sweep_error(where + ": a range and a list cannot be mixed; give either "
-                                  "\"a,b,c\" or \"A..B\"");
+        throw sweep_error(where +
+                          ": a range and a list cannot be mixed; give either "
+                          "\"a,b,c\" or \"A..B\"");
     const std::string lo = trim(text.substr(0, dots));
     const std::string rest = trim(text.substr(dots + 2));
     std::int64_t a = 0;
@@ -251,8 +256,9 @@ std::vector<std::string> parse_values(const std::string& axis, const std::string
         return integer_range(where, a, b, step);
     }
     if (lo.empty() || hi.empty())
-        throw sweep_error(where + ": a range needs both ends, as in \"0..63\" or "
-                                  "\"7.9 MHz..8.1 MHz/5\"");
+        throw sweep_error(where +
+                          ": a range needs both ends, as in \"0..63\" or "
+                          "\"7.9 MHz..8.1 MHz/5\"");
     return quantity_range(where, lo, rest);
 }
 
@@ -285,17 +291,20 @@ sweep_axis parse_axis(const std::string& text) {
         axis.target = axis.name;
         if (axis.name.find('.') == std::string::npos || axis.name.front() == '.' ||
             axis.name.back() == '.' || axis.name.find("..") != std::string::npos)
-            throw sweep_error(where + ": not an axis; axes are start-offset, seed, param.NAME "
-                                      "or a scenario key path with its table, such as "
-                                      "clocks.xtal.frequency or run.duration");
+            throw sweep_error(where +
+                              ": not an axis; axes are start-offset, seed, param.NAME "
+                              "or a scenario key path with its table, such as "
+                              "clocks.xtal.frequency or run.duration");
     }
     axis.values = parse_values(axis.name, axis.spec);
     if (axis.what == sweep_axis::kind::start_offset || axis.what == sweep_axis::kind::seed) {
         for (const std::string& v : axis.values) {
             std::int64_t n = 0;
             if (!parse_int(v, n) || n < 0 || v[0] == '+')
-                throw sweep_error(where + ": " + quoted(v) + " is not a whole number of at least "
-                                  "0; " + axis.name + " takes values such as 0..63 or 1,2,3");
+                throw sweep_error(where + ": " + quoted(v) +
+                                  " is not a whole number of at least "
+                                  "0; " +
+                                  axis.name + " takes values such as 0..63 or 1,2,3");
         }
     }
     return axis;
@@ -315,8 +324,9 @@ shard parse_shard(const std::string& text) {
 
 sweep_plan::sweep_plan(std::vector<sweep_axis> axes) : axes_(std::move(axes)) {
     if (axes_.empty())
-        throw sweep_error("no --vary given; a sweep needs at least one axis, e.g. "
-                          "--vary start-offset=0..63");
+        throw sweep_error(
+            "no --vary given; a sweep needs at least one axis, e.g. "
+            "--vary start-offset=0..63");
     for (std::size_t i = 0; i < axes_.size(); ++i) {
         for (std::size_t j = 0; j < i; ++j)
             if (axes_[i].name == axes_[j].name)

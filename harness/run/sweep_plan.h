@@ -27,7 +27,8 @@ public:
 
 struct sweep_axis {
     enum class kind { start_offset, seed, param, key };
-    std::string name;  // as written: "start-offset", "seed", "param.variant", "clocks.xtal.frequency"
+    std::string
+        name;  // as written: "start-offset", "seed", "param.variant", "clocks.xtal.frequency"
     kind what = kind::key;
     std::string target;  // the parameter name (param) or the dotted key path (key)
     std::string spec;    // the VALUES text as given

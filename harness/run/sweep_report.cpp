@@ -23,9 +23,7 @@ namespace {
 namespace fs = std::filesystem;
 using ojson = nlohmann::ordered_json;
 
-std::string dump(const ojson& j) {
-    return j.dump(-1, ' ', false, ojson::error_handler_t::replace);
-}
+std::string dump(const ojson& j) { return j.dump(-1, ' ', false, ojson::error_handler_t::replace); }
 
 bool whole_number(const std::string& s) {
     return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) {
@@ -172,8 +170,8 @@ std::string sweep_junit_text(const sweep_header& h, const sweep_plan& plan,
             }
             x << "      <" << tag << " message=\""
               << sim::xml_escape(r.outcome + (r.message.empty() ? "" : ": " + r.message))
-              << "\" type=\"" << sim::xml_escape(r.outcome) << "\">"
-              << sim::xml_escape(text) << "</" << tag << ">\n";
+              << "\" type=\"" << sim::xml_escape(r.outcome) << "\">" << sim::xml_escape(text)
+              << "</" << tag << ">\n";
         }
         x << "    </testcase>\n";
     }
@@ -308,7 +306,8 @@ sweep_totals merge_sweeps(const std::vector<std::string>& dirs, const std::strin
     for (const std::string& dir : dirs) {
         const std::string file = (fs::path(dir) / "sweep.jsonl").string();
         std::ifstream f(file, std::ios::binary);
-        if (!f) throw sweep_error(file + ": cannot read it; give folders written by tickbench sweep");
+        if (!f)
+            throw sweep_error(file + ": cannot read it; give folders written by tickbench sweep");
         std::string line;
         if (!std::getline(f, line)) throw sweep_error(file + ": empty, not a sweep.jsonl");
         const sweep_header h = parse_header_line(line, file + ":1");

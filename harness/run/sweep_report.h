@@ -32,8 +32,8 @@ struct point_record {
 
 // Identifies a sweep: what a shard's header holds so that merge can refuse a stranger.
 struct sweep_header {
-    std::string scenario;         // the path as given
-    std::string scenario_digest;  // of the file's bytes, 16 hex digits
+    std::string scenario;                                   // the path as given
+    std::string scenario_digest;                            // of the file's bytes, 16 hex digits
     std::vector<std::pair<std::string, std::string>> axes;  // name and VALUES as given
     std::uint64_t points = 0;
     shard part;
@@ -68,10 +68,10 @@ std::string compress_ranges(const std::vector<std::string>& values,
 // The verdict of a whole sweep.
 struct sweep_totals {
     std::uint64_t run = 0;
-    std::uint64_t failed_checks = 0;     // points whose checks failed, firmware fine
-    std::uint64_t failed_firmware = 0;   // points whose firmware failed
-    std::uint64_t errors = 0;            // bad input at a point
-    std::uint64_t internal = 0;          // a point's process ended without a result
+    std::uint64_t failed_checks = 0;    // points whose checks failed, firmware fine
+    std::uint64_t failed_firmware = 0;  // points whose firmware failed
+    std::uint64_t errors = 0;           // bad input at a point
+    std::uint64_t internal = 0;         // a point's process ended without a result
     bool partial = false;
 };
 sweep_totals totals_of(const std::vector<point_record>& records, bool partial);

@@ -140,7 +140,8 @@ struct running_point {
 point_record finish_point(running_point& c, int status) {
     if (!c.data.empty() && c.data.back() == '\n') {
         try {
-            point_record r = parse_record_line(c.data.substr(0, c.data.size() - 1), "a point's record");
+            point_record r =
+                parse_record_line(c.data.substr(0, c.data.size() - 1), "a point's record");
             if (r.index == c.point) return r;
         } catch (const sweep_error&) {
         }
@@ -234,7 +235,8 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
         const scenario s = load_scenario(o.scenario, tree, plan.overrides(0, o.base));
         if (s.firmware) {
             try {
-                firmware = std::make_unique<firmware_library>(s.firmware->library, s.firmware->entry);
+                firmware =
+                    std::make_unique<firmware_library>(s.firmware->library, s.firmware->entry);
             } catch (const firmware_load_error& e) {
                 throw firmware_load_error(s.firmware->origin + ": " + e.what());
             }

@@ -38,7 +38,8 @@ std::string error_of(toml::table& t, const std::string& path, const std::string&
 
 TEST(scenario_key_overrides_test, replaces_a_value_keeping_a_string_a_string) {
     toml::table t = demo();
-    apply_key_overrides(t, {{"clocks.xtal.frequency", "7.9 MHz"}, {"firmware.parameters.reads", "32"}},
+    apply_key_overrides(t,
+                        {{"clocks.xtal.frequency", "7.9 MHz"}, {"firmware.parameters.reads", "32"}},
                         "demo.toml");
     EXPECT_EQ(t["clocks"]["xtal"]["frequency"].value_exact<std::string>(), "7.9 MHz");
     EXPECT_EQ(t["firmware"]["parameters"]["reads"].value_exact<std::string>(), "32");

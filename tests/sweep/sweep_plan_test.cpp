@@ -143,8 +143,8 @@ TEST(sweep_plan_test, reports_each_bad_axis) {
 }
 
 TEST(sweep_plan_test, numbers_points_with_the_first_axis_outermost) {
-    const sweep_plan plan({parse_axis("param.variant=naive,careful"),
-                           parse_axis("start-offset=0..2")});
+    const sweep_plan plan(
+        {parse_axis("param.variant=naive,careful"), parse_axis("start-offset=0..2")});
     ASSERT_EQ(plan.points(), 6u);
     EXPECT_EQ(plan.values(0), (strings{"naive", "0"}));
     EXPECT_EQ(plan.values(2), (strings{"naive", "2"}));
@@ -174,7 +174,9 @@ TEST(sweep_plan_test, turns_a_point_into_overrides) {
 TEST(sweep_plan_test, refuses_no_axis_and_a_repeated_axis) {
     EXPECT_EQ(error_of([] { sweep_plan p({}); }),
               "no --vary given; a sweep needs at least one axis, e.g. --vary start-offset=0..63");
-    EXPECT_EQ(error_of([] { sweep_plan p({parse_axis("seed=1"), parse_axis("seed=2")}); }),
+    EXPECT_EQ(error_of([] {
+                  sweep_plan p({parse_axis("seed=1"), parse_axis("seed=2")});
+              }),
               "--vary seed is given twice; give each axis once");
     EXPECT_EQ(error_of([] {
                   sweep_plan p({parse_axis("a.b=0..65535"), parse_axis("c.d=0..65535"),

@@ -112,11 +112,12 @@ TEST(sweep_report_test, summary_of_one_axis_and_of_a_partial_sweep) {
 TEST(sweep_report_test, a_record_line_reads_back) {
     const example e;
     const std::string line = record_line(e.plan, e.records[5]);
-    EXPECT_EQ(line,
-              R"({"point":5,"values":{"param.variant":"naive","start-offset":"5"},"verdict":"fail",)"
-              R"("exit":3,"outcome":"firmware-check-failed","message":"firmware check 'never back' )"
-              R"(failed at fw.c:9","failed":[{"check":"never back","verdict":"fail","detail":)"
-              R"("failed at 1 us"}]})");
+    EXPECT_EQ(
+        line,
+        R"({"point":5,"values":{"param.variant":"naive","start-offset":"5"},"verdict":"fail",)"
+        R"("exit":3,"outcome":"firmware-check-failed","message":"firmware check 'never back' )"
+        R"(failed at fw.c:9","failed":[{"check":"never back","verdict":"fail","detail":)"
+        R"("failed at 1 us"}]})");
     const point_record r = parse_record_line(line, "x:2");
     EXPECT_EQ(r.index, 5u);
     EXPECT_EQ(r.exit_code, 3);
