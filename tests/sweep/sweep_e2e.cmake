@@ -4,7 +4,10 @@
 #   shards       the shards of a sweep, merged, give the unsharded reports byte for byte; merging
 #                shards of two different sweeps is refused
 #   bad_vary     a bad --vary exits 2 with its message before anything runs
-# Inputs: TICKBENCH, SCENARIO, FIRMWARE, OUT.
+#   outcomes     a failed check gives exit code 1 and the check with its measured values in
+#                sweep.jsonl; a crash gives 3 and the failure's first line; a crash at one point
+#                and a failed check at another gives 3
+# Inputs: TICKBENCH, SCENARIO, FIRMWARE, OUT; for outcomes RUN_SCENARIOS (tests/run's scenarios).
 
 function(tb)
   cmake_parse_arguments(arg "" "CODE;STDOUT;STDERR" "ARGS" ${ARGN})
@@ -134,6 +137,33 @@ elseif(MODE STREQUAL "bad_vary")
   if(NOT out MATCHES "param.variant=careful: passes at every clocks.xtal.frequency \\(0 of 3 fail\\)")
     message(FATAL_ERROR "unexpected summary: ${out}")
   endif()
+elseif(MODE STREQUAL "outcomes")
+  tb(CODE 1 ARGS sweep ${RUN_SCENARIOS}/pwm_failing_check.toml --vary seed=1,2 --waves none
+     --out ${OUT}/checks STDOUT out)
+  if(NOT out MATCHES "2 ran: 0 passed, 2 failed \\(0 firmware, 2 checks\\)")
+    message(FATAL_ERROR "unexpected summary: ${out}")
+  endif()
+  file(STRINGS ${OUT}/checks/sweep.jsonl lines)
+  list(GET lines 1 record)
+  string(JSON outcome GET "${record}" outcome)
+  string(JSON check GET "${record}" failed 0 check)
+  string(JSON mean GET "${record}" failed 0 measured mean)
+  if(NOT outcome STREQUAL "checks-failed" OR NOT check STREQUAL "channel 1 duty"
+     OR NOT mean EQUAL 25)
+    message(FATAL_ERROR "unexpected record: ${record}")
+  endif()
+  tb(CODE 3 ARGS sweep ${RUN_SCENARIOS}/pwm_crash.toml --vary seed=1 --waves none
+     --out ${OUT}/crash)
+  file(STRINGS ${OUT}/crash/sweep.jsonl lines)
+  list(GET lines 1 record)
+  string(JSON outcome GET "${record}" outcome)
+  string(JSON message GET "${record}" message)
+  if(NOT outcome STREQUAL "crashed" OR NOT message MATCHES "^SIGSEGV")
+    message(FATAL_ERROR "unexpected record: ${record}")
+  endif()
+  # A firmware failure outranks a failed check; the axis is a scenario key (the firmware's ending).
+  tb(CODE 3 ARGS sweep ${RUN_SCENARIOS}/pwm_failing_check.toml --waves none --out ${OUT}/both
+     "--vary" "firmware.parameters.ending=return,crash")
 else()
   message(FATAL_ERROR "unknown MODE ${MODE}")
 endif()
