@@ -68,8 +68,10 @@ std::string first_line(const std::string& text) { return text.substr(0, text.fin
     point_record r;
     r.index = point;
     bool sent = false;
+    // A record that cannot be written leaves the parent none: it records the point as an
+    // internal error.
     auto send = [&] {
-        sent = write_all(fd, record_line(plan, r) + "\n") || sent;
+        write_all(fd, record_line(plan, r) + "\n");
         sent = true;
     };
     run_options ro;
