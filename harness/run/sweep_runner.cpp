@@ -23,6 +23,7 @@
 #include <cstdio>
 #include <deque>
 #include <filesystem>
+#include <fstream>
 #include <map>
 #include <memory>
 
@@ -264,7 +265,15 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
         plan.points() / o.part.count + (plan.points() % o.part.count >= o.part.number ? 1 : 0);
     std::uint64_t next = o.part.number - 1;
     std::deque<std::uint64_t> reruns;
-    std::map<std::uint64_t, point_record> done;
+    // Finished records go to a spool file in point order as soon as every earlier point of the
+    // shard is in: the parent stays small however many points there are, and forking a small
+    // process is what keeps a point cheap. `pending` holds the few that finished early.
+    const fs::path spool_path = fs::path(o.out_dir) / ".sweep.jsonl.spool";
+    std::ofstream spool(spool_path, std::ios::binary | std::ios::trunc);
+    if (!spool) throw sim::output_error("cannot write " + spool_path.string());
+    std::map<std::uint64_t, point_record> pending;
+    std::uint64_t next_to_spool = o.part.number - 1;
+    std::uint64_t finished = 0;
     std::vector<running_point> running;
     std::uint64_t failed = 0;
     const unsigned jobs = o.jobs == 0 ? 1 : o.jobs;
@@ -339,11 +348,17 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
                     ++failed;
                     if (o.keep == keep_folders::failing) reruns.push_back(r.index);
                 }
-                done.emplace(r.index, std::move(r));
+                ++finished;
+                pending.emplace(r.index, std::move(r));
+                for (auto it = pending.begin(); it != pending.end() && it->first == next_to_spool;
+                     it = pending.erase(it)) {
+                    spool << record_line(plan, it->second) << '\n';
+                    next_to_spool += o.part.count;
+                }
             }
             running.erase(running.begin() + static_cast<std::ptrdiff_t>(i));
         }
-        progress.show(done.size(), failed);
+        progress.show(finished, failed);
     }
     for (running_point& c : running) {
         ::kill(c.pid, SIGKILL);
@@ -355,9 +370,20 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
     sigaction(SIGINT, &old_sa, nullptr);
     progress.stop();
 
+    // Points stopped by Ctrl-C leave gaps; those that finished after a gap follow in order.
+    for (auto& [index, r] : pending) spool << record_line(plan, r) << '\n';
+    spool.close();
+    if (!spool) throw sim::output_error("cannot write " + spool_path.string());
     std::vector<point_record> records;
-    records.reserve(done.size());
-    for (auto& [index, r] : done) records.push_back(std::move(r));
+    {
+        std::ifstream in(spool_path, std::ios::binary);
+        std::string line;
+        std::uint64_t n = 0;
+        while (std::getline(in, line))
+            records.push_back(
+                parse_record_line(line, spool_path.string() + ":" + std::to_string(++n)));
+    }
+    fs::remove(spool_path, ec);
     h.partial = records.size() < in_shard;
     const std::string summary = write_sweep_reports(o.out_dir, h, plan, records);
     out << summary;
