@@ -73,7 +73,9 @@ int run(int argc, char** argv) {
                      "AXIS=VALUES: start-offset, seed, param.NAME or a scenario key path, with a "
                      "list a,b,c, a range 0..63 or 0..100/5, or \"7.9 MHz..8.1 MHz/5\"; "
                      "repeatable, the first is the outermost")
-        ->required();
+        ->required()
+        // One value per --vary: the scenario may follow it.
+        ->allow_extra_args(false);
     sweep_cmd->add_option("--jobs", sweep_opts.jobs, "Points run at once (default: one per core)");
     sweep_cmd->add_option("--shard", sweep_opts.shard,
                           "K/N: run only the points whose index modulo N is K-1");

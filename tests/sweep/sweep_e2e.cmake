@@ -137,6 +137,9 @@ elseif(MODE STREQUAL "bad_vary")
   if(NOT out MATCHES "param.variant=careful: passes at every clocks.xtal.frequency \\(0 of 3 fail\\)")
     message(FATAL_ERROR "unexpected summary: ${out}")
   endif()
+  # --vary takes one value each time: the scenario may follow it.
+  tb(CODE 0 ARGS sweep --vary param.variant=careful ${common} --vary start-offset=0
+     --out ${OUT}/e)
 elseif(MODE STREQUAL "outcomes")
   tb(CODE 1 ARGS sweep ${RUN_SCENARIOS}/pwm_failing_check.toml --vary seed=1,2 --waves none
      --out ${OUT}/checks STDOUT out)
