@@ -203,10 +203,10 @@ sweep_totals totals_of(const std::vector<point_record>& records, bool partial) {
     for (const point_record& r : records) {
         ++t.run;
         if (r.verdict == "pass") continue;
-        if (r.exit_code == 1)
-            ++t.failed_checks;
-        else if (r.exit_code == 3)
-            ++t.failed_firmware;
+        // A failed point whose run did not end in exit code 1 failed in its firmware (3, or a
+        // failure with a code of its own).
+        if (r.verdict == "fail")
+            ++(r.exit_code == 1 ? t.failed_checks : t.failed_firmware);
         else if (r.exit_code == 2)
             ++t.errors;
         else

@@ -69,7 +69,7 @@ std::string compress_ranges(const std::vector<std::string>& values,
 struct sweep_totals {
     std::uint64_t run = 0;
     std::uint64_t failed_checks = 0;    // points whose checks failed, firmware fine
-    std::uint64_t failed_firmware = 0;  // points whose firmware failed
+    std::uint64_t failed_firmware = 0;  // points whose firmware failed (any exit code but 1)
     std::uint64_t errors = 0;           // bad input at a point
     std::uint64_t internal = 0;         // a point's process ended without a result
     bool partial = false;

@@ -145,7 +145,12 @@ point_record finish_point(running_point& c, int status) {
         try {
             point_record r =
                 parse_record_line(c.data.substr(0, c.data.size() - 1), "a point's record");
-            if (r.index == c.point) return r;
+            if (r.index == c.point) {
+                // The process's own exit code is what `tickbench run` gives for the point (a
+                // firmware failure may have a code of its own).
+                if (WIFEXITED(status)) r.exit_code = WEXITSTATUS(status);
+                return r;
+            }
         } catch (const sweep_error&) {
         }
     }

@@ -212,3 +212,22 @@ TEST(sweep_report_test, merge_refuses_shards_of_different_sweeps) {
     }
     EXPECT_FALSE(fs::exists(out / "sweep.jsonl"));
 }
+
+TEST(sweep_report_test, a_failure_with_an_exit_code_of_its_own_counts_as_the_firmware_s) {
+    point_record checks;
+    checks.verdict = "fail";
+    checks.exit_code = 1;
+    point_record other;
+    other.index = 1;
+    other.verdict = "fail";
+    other.exit_code = 5;
+    point_record internal;
+    internal.index = 2;
+    internal.verdict = "error";
+    internal.exit_code = 4;
+    const sweep_totals t = totals_of({checks, other, internal}, false);
+    EXPECT_EQ(t.failed_checks, 1u);
+    EXPECT_EQ(t.failed_firmware, 1u);
+    EXPECT_EQ(t.internal, 1u);
+    EXPECT_EQ(t.errors, 0u);
+}
