@@ -5,6 +5,7 @@
 
 #include "harness/firmware_library.h"
 #include "harness/run/log_setup.h"
+#include "harness/run/sweep_plan.h"
 #include "sim/clock_tree.h"
 #include "sim/quantity.h"
 #include "sim/scenario_error.h"
@@ -62,6 +63,41 @@ int run(int argc, char** argv) {
         "--param", run_opts.params,
         "Firmware parameter NAME=VALUE (replaces or adds to [firmware.parameters]); repeatable");
 
+    sweep_command_options sweep_opts;
+    CLI::App* sweep_cmd = app.add_subcommand(
+        "sweep", "Run SCENARIO at every point of the --vary axes and report which points fail");
+    sweep_cmd->add_option("SCENARIO", sweep_opts.file, "Scenario file (TOML, docs/scenario.md)")
+        ->required();
+    sweep_cmd
+        ->add_option("--vary", sweep_opts.vary,
+                     "AXIS=VALUES: start-offset, seed, param.NAME or a scenario key path, with a "
+                     "list a,b,c, a range 0..63 or 0..100/5, or \"7.9 MHz..8.1 MHz/5\"; "
+                     "repeatable, the first is the outermost")
+        ->required()
+        // One value per --vary: the scenario may follow it.
+        ->allow_extra_args(false);
+    sweep_cmd->add_option("--jobs", sweep_opts.jobs, "Points run at once (default: one per core)");
+    sweep_cmd->add_option("--shard", sweep_opts.shard,
+                          "K/N: run only the points whose index modulo N is K-1");
+    sweep_cmd
+        ->add_option("--waves", sweep_opts.waves,
+                     "Which points keep a run folder (waves and all) in DIR/points/INDEX")
+        ->check(CLI::IsMember({"failing", "none", "all"}))
+        ->capture_default_str();
+    sweep_cmd
+        ->add_option("--out", sweep_opts.out_dir, "Folder for the outputs (created if missing)")
+        ->capture_default_str();
+    sweep_cmd->add_option("--firmware", sweep_opts.firmware,
+                          "Firmware shared library, relative to the current folder");
+    sweep_cmd->add_option("--duration", sweep_opts.duration,
+                          "Simulated time of every point, e.g. \"10 ms\"");
+
+    merge_options merge_opts;
+    CLI::App* merge_cmd = app.add_subcommand(
+        "merge", "Join the output folders of the shards of one sweep into the whole sweep's");
+    merge_cmd->add_option("DIR", merge_opts.dirs, "The shards' output folders")->required();
+    merge_cmd->add_option("--out", merge_opts.out_dir, "Folder for the merged reports")->required();
+
     std::string check_file;
     CLI::App* check_cmd = app.add_subcommand(
         "check", "Validate SCENARIO (tables, layouts, checks, firmware) without running it");
@@ -110,6 +146,11 @@ int run(int argc, char** argv) {
             run_opts.progress = isatty(STDERR_FILENO) == 1;
             return run_scenario_command(run_opts, std::cout);
         }
+        if (*sweep_cmd) {
+            sweep_opts.progress = isatty(STDERR_FILENO) == 1;
+            return run_sweep_command(sweep_opts, std::cout);
+        }
+        if (*merge_cmd) return run_merge_command(merge_opts, std::cout);
         if (*check_cmd) return run_check(check_file, std::cout);
         if (*clocks_cmd) return run_clocks(clocks, std::cout);
         if (*plan_cmd) return run_plan(plan, std::cout);
@@ -127,6 +168,9 @@ int run(int argc, char** argv) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const sim::output_error& e) {
+        report_error(e.what());
+        return exit_bad_input;
+    } catch (const harness::run::sweep_error& e) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const std::exception& e) {

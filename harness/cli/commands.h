@@ -24,6 +24,8 @@ inline constexpr int exit_firmware_failed = 3;
 inline constexpr int exit_internal = 4;
 // `run`: a watchdog reset the part and the scenario did not expect it (harness::exit_code_of).
 inline constexpr int exit_watchdog_reset = 5;
+// `sweep`, `merge`: stopped by Ctrl-C before every point ran; the reports written are partial.
+inline constexpr int exit_interrupted = 130;
 
 struct clocks_options {
     std::string file;
@@ -64,6 +66,34 @@ struct run_command_options {
 // A firmware failure ends the process with exit_firmware_failed (exit_watchdog_reset for an
 // unexpected watchdog reset). Throws on bad input.
 int run_scenario_command(const run_command_options& options, std::ostream& out);
+
+struct sweep_command_options {
+    std::string file;
+    std::vector<std::string> vary;  // AXIS=VALUES
+    unsigned jobs = 0;              // 0: one per core
+    std::optional<std::string> shard;
+    std::string waves = "failing";  // failing, none or all
+    std::string out_dir = "tickbench-sweep";
+    std::optional<std::string> firmware;
+    std::optional<std::string> duration;
+    bool progress = false;
+};
+
+// `tickbench sweep`: runs every point of the axes (or of one shard) and writes the sweep's
+// reports; returns exit_ok, exit_check_failed, exit_firmware_failed, exit_bad_input (a point
+// could not run), exit_internal or exit_interrupted. Throws on bad input found before any point
+// runs.
+int run_sweep_command(const sweep_command_options& options, std::ostream& out);
+
+struct merge_options {
+    std::vector<std::string> dirs;
+    std::string out_dir = "tickbench-sweep";
+};
+
+// `tickbench merge`: joins the shards' reports into the whole sweep's; returns the exit code the
+// unsharded sweep gives. Throws harness::run::sweep_error for folders that are not all the shards
+// of one sweep.
+int run_merge_command(const merge_options& options, std::ostream& out);
 
 struct plan_options {
     std::string clock;   // a frequency such as "48 MHz"

@@ -17,6 +17,7 @@
 #include <map>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace harness::run {
@@ -80,6 +81,9 @@ struct scenario_overrides {
     std::optional<std::uint64_t> seed;    // --seed
     std::optional<std::uint64_t> start_offset_cycles;  // --start-offset
     std::map<std::string, std::string> parameters;     // --param NAME=VALUE (firmware parameters)
+    // Scenario keys by dotted path and value text, applied to the TOML before it is read
+    // (harness/run/scenario_key_overrides.h); `tickbench sweep --vary`.
+    std::vector<std::pair<std::string, std::string>> keys;
 };
 
 // Reads the scenario at `path` and adds its clocks to `tree` (which should be empty). Throws

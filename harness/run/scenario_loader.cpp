@@ -7,6 +7,7 @@
 // refer to a part that failed to read (a timer whose layout is broken) are not reported again.
 
 #include "harness/run/scenario.h"
+#include "harness/run/scenario_key_overrides.h"
 
 #include "harness/run/scenario_inputs.h"
 
@@ -952,6 +953,7 @@ std::vector<std::string> scenario::signal_names() const {
 scenario load_scenario(const std::string& path, sim::clock_tree& tree,
                        const scenario_overrides& ov) {
     toml::table root = sim::read_toml_file(path);
+    apply_key_overrides(root, ov.keys, path);
     scenario s;
     s.file = path;
     s.name = fs::path(path).stem().string();

@@ -80,6 +80,8 @@ struct run_state {
     std::vector<std::unique_ptr<models::watchdog_probe>> watchdog_probes;
     std::optional<failure_report> failure;
     std::unique_ptr<progress_line> progress;
+    bool write_outputs = true;
+    std::function<void(const std::vector<sim::check_result>&, const failure_report*)> on_results;
     bool finished = false;
 
     std::string path(const char* name) const { return (fs::path(out_dir) / name).string(); }
@@ -105,18 +107,21 @@ struct run_state {
         std::vector<sim::check_result> results = engine->results();
         const auto fw = firmware_results(firmware_context::get().checks, end);
         results.insert(results.end(), fw.begin(), fw.end());
-        sim::write_checks_jsonl(path("checks.jsonl"), results);
-        sim::write_junit_xml(path("junit.xml"), results, s.name);
         const std::vector<std::string> notes = {
             "firmware log: " + std::to_string(log->lines()) +
             (log->lines() == 1 ? " line in firmware.log" : " lines in firmware.log")};
-        sim::write_summary(path("summary.txt"), results, notes);
-        if (failure) {
-            std::ofstream f(path("failure.txt"), std::ios::binary);
-            f << failure->text();
-            f.close();
-            if (!f) throw sim::output_error("cannot write " + path("failure.txt"));
+        if (write_outputs) {
+            sim::write_checks_jsonl(path("checks.jsonl"), results);
+            sim::write_junit_xml(path("junit.xml"), results, s.name);
+            sim::write_summary(path("summary.txt"), results, notes);
+            if (failure) {
+                std::ofstream f(path("failure.txt"), std::ios::binary);
+                f << failure->text();
+                f.close();
+                if (!f) throw sim::output_error("cannot write " + path("failure.txt"));
+            }
         }
+        if (on_results) on_results(results, failure ? &*failure : nullptr);
         *out << sim::summary_text(results, notes);
         if (failure)
             *out << "firmware " << to_string(failure->outcome) << ": see " << path("failure.txt")
@@ -172,7 +177,7 @@ void start_run(platform& part, run_state& state, const std::string& path,
 
     state.engine = std::make_unique<sim::check_engine>(s.checks);
     state.fanout.add(*state.engine, {}, true);
-    if (s.waves.enabled) {
+    if (s.waves.enabled && state.write_outputs) {
         sim::vcd_options vo;
         vo.unit_ps = s.waves.unit_ps;
         // A fixed date: the same inputs give a byte-identical file.
@@ -252,13 +257,18 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     const sim::time_ps duration = *s.run.duration;
     state.firmware = load_firmware(s);
 
-    std::error_code ec;
-    fs::create_directories(state.out_dir, ec);
-    if (ec || !fs::is_directory(state.out_dir))
-        throw sim::output_error("cannot create the output folder '" + state.out_dir +
-                                "': " + (ec ? ec.message() : "not a folder"));
-    for (const char* name : output_names) fs::remove(state.path(name), ec);
-    state.log = std::make_unique<firmware_log>(state.path("firmware.log"));
+    state.write_outputs = options.write_outputs;
+    state.on_results = options.on_results;
+    if (options.write_outputs) {
+        std::error_code ec;
+        fs::create_directories(state.out_dir, ec);
+        if (ec || !fs::is_directory(state.out_dir))
+            throw sim::output_error("cannot create the output folder '" + state.out_dir +
+                                    "': " + (ec ? ec.message() : "not a folder"));
+        for (const char* name : output_names) fs::remove(state.path(name), ec);
+    }
+    state.log = std::make_unique<firmware_log>(options.write_outputs ? state.path("firmware.log")
+                                                                     : "/dev/null");
     try {
         start_run(*p, state, path, options);
     } catch (...) {

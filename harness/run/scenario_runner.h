@@ -11,9 +11,12 @@
 // were opened closes them before the error is thrown.
 
 #include "harness/run/scenario.h"
+#include "sim/checks/check_result.h"
 
+#include <functional>
 #include <ostream>
 #include <string>
+#include <vector>
 
 namespace harness::run {
 
@@ -22,6 +25,12 @@ struct run_options {
     scenario_overrides overrides;
     // Show the progress line on stderr (the command sets it when stderr is a terminal).
     bool progress = false;
+    // Write the output files. Without them (a sweep's point whose folder is not kept) no folder is
+    // made, no waveform is recorded and the firmware's log lines are counted but not kept.
+    bool write_outputs = true;
+    // Called once with the final results and the failure report, if the firmware failed (then just
+    // before the process ends), after the outputs are written.
+    std::function<void(const std::vector<sim::check_result>&, const failure_report*)> on_results;
 };
 
 struct run_summary {
@@ -30,9 +39,10 @@ struct run_summary {
     bool all_passed() const { return failed == 0; }
 };
 
-// Runs the scenario at `path`, writes the outputs and prints the summary on `out`. Throws
-// sim::scenario_error (bad scenario or layout), harness::firmware_load_error, sim::output_error
-// (the output folder or a file cannot be written). Does not return on a firmware failure.
+// Runs the scenario at `path` (once per process: the kernel elaborates once), writes the outputs
+// and prints the summary on `out`. Throws sim::scenario_error (bad scenario or layout),
+// harness::firmware_load_error, sim::output_error (the output folder or a file cannot be written).
+// Does not return on a firmware failure.
 run_summary run_scenario(const std::string& path, const run_options& options, std::ostream& out);
 
 // Validates the scenario at `path` without running it: every table, layout and check, the clock
