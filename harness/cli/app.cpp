@@ -59,9 +59,12 @@ int run(int argc, char** argv) {
     run_cmd->add_option(
         "--start-offset", run_opts.start_offset,
         "CPU cycles after time 0 at which the firmware starts (replaces [cpu] start-offset)");
-    run_cmd->add_option(
-        "--param", run_opts.params,
-        "Firmware parameter NAME=VALUE (replaces or adds to [firmware.parameters]); repeatable");
+    run_cmd
+        ->add_option(
+            "--param", run_opts.params,
+            "Firmware parameter NAME=VALUE (replaces or adds to [firmware.parameters]); repeatable")
+        // One value per --param: the scenario may follow it.
+        ->allow_extra_args(false);
 
     sweep_command_options sweep_opts;
     CLI::App* sweep_cmd = app.add_subcommand(
