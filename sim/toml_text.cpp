@@ -5,8 +5,6 @@
 
 namespace sim {
 
-std::string in_quotes(std::string_view text) { return "\"" + std::string(text) + "\""; }
-
 std::string got(const toml::node& n) {
     std::ostringstream s;
     switch (n.type()) {
@@ -36,43 +34,6 @@ std::string got(const toml::node& n) {
             break;
     }
     return "nothing";
-}
-
-std::size_t edit_distance(const std::string& a, const std::string& b) {
-    std::vector<std::size_t> row(b.size() + 1);
-    for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
-    for (std::size_t i = 1; i <= a.size(); ++i) {
-        std::size_t diag = row[0];
-        row[0] = i;
-        for (std::size_t j = 1; j <= b.size(); ++j) {
-            const std::size_t up = row[j];
-            row[j] = std::min({row[j] + 1, row[j - 1] + 1, diag + (a[i - 1] == b[j - 1] ? 0 : 1)});
-            diag = up;
-        }
-    }
-    return row[b.size()];
-}
-
-std::string hint(const std::string& s, const std::vector<std::string>& candidates) {
-    std::string best;
-    std::size_t best_d = 4;
-    for (const std::string& c : candidates) {
-        const std::size_t d = edit_distance(s, c);
-        // "pll" is not a typo of "pin"; a long signal name may carry three slips.
-        const std::size_t shorter = std::min(s.size(), c.size());
-        const std::size_t allowed = shorter <= 4 ? 1 : shorter <= 12 ? 2 : 3;
-        if (d <= allowed && d < best_d) {
-            best_d = d;
-            best = c;
-        }
-    }
-    return best.empty() ? "" : " (did you mean " + in_quotes(best) + "?)";
-}
-
-std::string join(const std::vector<std::string>& words, const std::string& separator) {
-    std::string s;
-    for (const auto& w : words) s += (s.empty() ? "" : separator) + w;
-    return s;
 }
 
 }  // namespace sim

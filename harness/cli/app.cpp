@@ -10,11 +10,13 @@
 #include "sim/quantity.h"
 #include "sim/scenario_error.h"
 #include "sim/vcd_writer.h"
+#include "sim/word_hint.h"
 
 #include <spdlog/spdlog.h>
 #include <CLI/CLI.hpp>
 
 #include <unistd.h>
+#include <algorithm>
 #include <iostream>
 #include <sstream>
 
@@ -27,6 +29,57 @@ void report_error(const std::string& message) {
     std::istringstream lines(message);
     std::string line;
     while (std::getline(lines, line)) std::cerr << "tickbench: error: " << line << '\n';
+}
+
+// The command named on the command line (the first word that is no option nor --log-level's
+// value) if it is none of the app's subcommands, else "".
+std::string unknown_command(const CLI::App& app, int argc, char** argv) {
+    for (int i = 1; i < argc; ++i) {
+        const std::string word = argv[i];
+        if (word == "--log-level") {
+            ++i;
+            continue;
+        }
+        if (word.empty() || word[0] == '-') continue;
+        for (const CLI::App* sub : app.get_subcommands({}))
+            if (sub->get_name() == word) return "";
+        return word;
+    }
+    return "";
+}
+
+std::vector<std::string> command_names(const CLI::App& app) {
+    std::vector<std::string> names;
+    for (const CLI::App* sub : app.get_subcommands({})) names.push_back(sub->get_name());
+    return names;
+}
+
+// For arguments CLI11 did not expect: each unknown option of the command, with the closest one
+// it has.
+std::string unexpected_arguments(const CLI::App& app, const std::vector<std::string>& extras) {
+    const CLI::App* command = nullptr;
+    for (const CLI::App* sub : app.get_subcommands({}))
+        if (sub->parsed()) command = sub;
+    std::vector<std::string> options;
+    for (const CLI::App* a : {command, &app}) {
+        if (!a) continue;
+        for (const CLI::Option* o : a->get_options())
+            for (const std::string& name : o->get_lnames())
+                if (std::find(options.begin(), options.end(), "--" + name) == options.end())
+                    options.push_back("--" + name);
+    }
+    std::string message = "unexpected argument";
+    message += extras.size() > 1 ? "s: " : ": ";
+    for (std::size_t i = 0; i < extras.size(); ++i) {
+        if (i) message += ", ";
+        message += "'" + extras[i] + "'";
+        if (extras[i].rfind("--", 0) == 0) {
+            const std::string bare = extras[i].substr(0, extras[i].find('='));
+            message += sim::hint(bare, options);
+        }
+    }
+    if (command) message += "; '" + command->get_name() + "' takes: " + sim::join(options);
+    return message;
 }
 
 }  // namespace
@@ -134,8 +187,19 @@ int run(int argc, char** argv) {
         ->check(CLI::Range(1u, 10000u))
         ->capture_default_str();
 
+    // An unknown command is named, with the closest one, even when --help follows it.
+    if (const std::string word = unknown_command(app, argc, argv); !word.empty()) {
+        report_error("unknown command '" + word + "'" + sim::hint(word, command_names(app)) +
+                     "; accepted: " + sim::join(command_names(app)));
+        std::cerr << "Run 'tickbench --help' for usage.\n";
+        return exit_bad_input;
+    }
     try {
         app.parse(argc, argv);
+    } catch (const CLI::ExtrasError&) {
+        report_error(unexpected_arguments(app, app.remaining()));
+        std::cerr << "Run 'tickbench --help' for usage.\n";
+        return exit_bad_input;
     } catch (const CLI::ParseError& e) {
         if (e.get_exit_code() == 0) return app.exit(e);  // --help, --version
         report_error(e.what());
