@@ -14,8 +14,8 @@ std::size_t edit_distance(const std::string& a, const std::string& b) {
     for (std::size_t i = 1; i <= a.size(); ++i) {
         row[0] = i;
         for (std::size_t j = 1; j <= n; ++j) {
-            row[j] = std::min({prev[j] + 1, row[j - 1] + 1,
-                               prev[j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1)});
+            row[j] = std::min(
+                {prev[j] + 1, row[j - 1] + 1, prev[j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1)});
             if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1])
                 row[j] = std::min(row[j], before[j - 2] + 1);  // two letters swapped
         }

@@ -30,6 +30,19 @@ int run_plan(const plan_options& options, std::ostream& out) {
         out << "no prescaler and period reach the target with these widths\n";
         return exit_ok;
     }
+    if (choices.front().off_by_more_than_a_percent()) {
+        // Above the fastest PWM (two compare steps, no prescaling) or below the slowest.
+        const unsigned k = rq.center ? 4 : 2;
+        const sim::frequency fastest(rq.clock.num(), rq.clock.den() * k);
+        out << "note: no setting comes within 1 % of the target (the nearest is "
+            << choices.front().error_ppm_text() << " ppm off): ";
+        if (choices.front().below)
+            out << "the fastest PWM this clock makes is clock / " << k << " = " << fastest.pretty()
+                << " (two compare steps, no prescaling)\n";
+        else
+            out << "the slowest PWM this clock makes has the prescaler and the period at their "
+                   "maximum\n";
+    }
     // Columns: prescaler, period, achieved (decimal), exact fraction, error, resolution.
     std::vector<std::vector<std::string>> rows = {
         {"prescaler", "period", "achieved (Hz)", "exact (Hz)", "error (ppm)", "resolution (bits)"}};

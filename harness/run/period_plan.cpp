@@ -102,10 +102,11 @@ std::vector<plan_choice> plan_periods(const plan_request& rq) {
         c.achieved = sim::frequency(static_cast<std::uint64_t>(an), static_cast<std::uint64_t>(ad));
         return c;
     };
-    // Every factorization m = q * steps within range, finest resolution (smallest q) first.
+    // Every factorization m = q * steps within range, finest resolution (smallest q) first, with
+    // at least two compare steps (one step gives only 0 or 100 % duty: no PWM).
     auto add_choices = [&](u128 m, std::vector<plan_choice>& out) {
         const u128 q_first = std::max<u128>(1, (m + steps_max - 1) / steps_max);
-        const u128 q_last = std::min(q_max, m);
+        const u128 q_last = std::min(q_max, m / 2);
         for (u128 q = q_first; q <= q_last; ++q)
             if (m % q == 0) out.push_back(choice_for(m, q));
     };

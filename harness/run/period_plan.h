@@ -7,7 +7,8 @@
 // Every candidate is computed in exact integer arithmetic: the achieved frequency as a reduced
 // fraction and the error as an exact fraction of the target (shown in ppm). Candidates come best
 // first: smallest error, then finest duty resolution (most compare steps per period: n + 1 edge-
-// aligned, n center-aligned).
+// aligned, n center-aligned). Settings with fewer than 2 steps are left out: they give only 0 or
+// 100 % duty, no PWM.
 
 #include "sim/frequency.h"
 #include "sim/wide_int.h"
@@ -38,6 +39,8 @@ struct plan_choice {
     sim::u128 error_den = 1;
     bool below = false;
 
+    // Whether the error exceeds 1 % of the target.
+    bool off_by_more_than_a_percent() const { return error_num * 100 > error_den; }
     // The error in ppm, rounded to 3 decimals, with a sign ("+0.000", "-12.345").
     std::string error_ppm_text() const;
     // log2(steps) with 2 decimals, for display.

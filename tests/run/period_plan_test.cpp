@@ -89,6 +89,25 @@ TEST(period_plan_test, max_results_limits_the_list) {
     EXPECT_EQ(plan_periods(r).size(), 2u);
 }
 
+// One compare step gives no PWM: 48 MHz / 24 MHz is reached only by 2 steps (prescaler 0, period
+// 1), never by prescaler 1 with period 0; 100 MHz from 72 MHz is out of reach, 36 MHz nearest.
+TEST(period_plan_test, settings_without_two_compare_steps_are_left_out) {
+    for (const bool center : {false, true}) {
+        for (const auto& c :
+             plan_periods(request(48'000'000, 24'000'000 / (center ? 2 : 1), center)))
+            EXPECT_GE(c.steps, 2u) << c.prescaler << " " << c.period;
+    }
+    const auto c = plan_periods(request(48'000'000, 24'000'000));
+    ASSERT_FALSE(c.empty());
+    EXPECT_EQ(c[0].period, 1u);
+    EXPECT_FALSE(c[0].off_by_more_than_a_percent());
+    const auto far = plan_periods(request(72'000'000, 100'000'000));
+    ASSERT_FALSE(far.empty());
+    EXPECT_EQ(far[0].achieved, sim::frequency::hz(36'000'000));
+    EXPECT_TRUE(far[0].below);
+    EXPECT_TRUE(far[0].off_by_more_than_a_percent());
+}
+
 TEST(period_plan_test, zero_frequencies_are_refused) {
     EXPECT_THROW(plan_periods(request(0, 1)), std::invalid_argument);
     EXPECT_THROW(plan_periods(request(1, 0)), std::invalid_argument);
