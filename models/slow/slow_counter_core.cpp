@@ -113,9 +113,9 @@ void slow_counter_core::apply_pending(std::uint64_t first) {
     s.first = first;
     const auto& p = pending_;
     s.start = p[std::size_t(slow_field::count)] ? *p[std::size_t(slow_field::count)]
-                                                 : value_at(old, first);
-    s.enable = p[std::size_t(slow_field::enable)] ? *p[std::size_t(slow_field::enable)] != 0
-                                                   : old.enable;
+                                                : value_at(old, first);
+    s.enable =
+        p[std::size_t(slow_field::enable)] ? *p[std::size_t(slow_field::enable)] != 0 : old.enable;
     s.prescale =
         p[std::size_t(slow_field::prescale)] ? *p[std::size_t(slow_field::prescale)] : old.prescale;
     if (p[std::size_t(slow_field::alarm)]) alarm_ = *p[std::size_t(slow_field::alarm)];
@@ -190,7 +190,8 @@ std::uint32_t slow_counter_core::read(slow_field f, time_ps t) {
             // the last edge at or before t - read_window.
             const std::uint64_t m = t < cfg_.read_window ? 0 : edges_through(t - cfg_.read_window);
             read_edges_ = m;
-            while (spans_.size() > 1 && spans_[1].first <= read_edges_) spans_.erase(spans_.begin());
+            while (spans_.size() > 1 && spans_[1].first <= read_edges_)
+                spans_.erase(spans_.begin());
             const span& s = span_for(m);
             return value_at(s, m < s.first ? s.first : m);
         }

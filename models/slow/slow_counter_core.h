@@ -147,7 +147,7 @@ private:
     // The write waiting for its slow edge: the values of the slow-side fields it sets.
     std::array<std::optional<std::uint32_t>, slow_side_field_count> pending_{};
     bool has_pending_ = false;
-    time_ps pending_at_ = 0;         // bus time of the write
+    time_ps pending_at_ = 0;          // bus time of the write
     std::uint64_t pending_edge_ = 0;  // it takes effect at this edge (counted before it applies)
     std::uint64_t events_ = 0;
 };

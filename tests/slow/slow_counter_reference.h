@@ -131,8 +131,8 @@ private:
     models::slow_config cfg_;
     const sim::clock_domain& clock_;
     models::slow_observer* observer_;
-    std::vector<sim::time_ps> times_;          // time of each edge that happened
-    std::vector<std::uint32_t> history_{0};    // counter after the first n edges
+    std::vector<sim::time_ps> times_;        // time of each edge that happened
+    std::vector<std::uint32_t> history_{0};  // counter after the first n edges
     std::uint32_t counter_ = 0, alarm_ = 0, flags_ = 0, prescale_ = 0;
     std::uint32_t enable_ = 0, irq_enable_ = 0;
     bool irq_ = false;
