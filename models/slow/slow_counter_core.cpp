@@ -86,6 +86,14 @@ std::optional<std::uint64_t> slow_counter_core::alarm_edge() const {
     return (done_ / d) * d + d - 1 + (steps - 1) * d;
 }
 
+std::uint64_t slow_counter_core::seen_edges(time_ps t) const {
+    return t < cfg_.read_window ? 0 : edges_through(t - cfg_.read_window);
+}
+
+void slow_counter_core::forget_before(std::uint64_t n) {
+    while (spans_.size() > 1 && spans_[1].first <= n) spans_.erase(spans_.begin());
+}
+
 void slow_counter_core::update_irq(time_ps at) {
     const bool level = irq_enable_ && (flags_ & slow_flag_alarm) != 0;
     if (level == irq_) return;
@@ -159,6 +167,9 @@ void slow_counter_core::write(slow_field f, std::uint32_t value, time_ps t) {
             value &= cfg_.counter_max();
             break;
     }
+    // No later read looks further back than this one could: the spans before it go, so a driver
+    // that only writes keeps a bounded history.
+    forget_before(seen_edges(t));
     // One bus transfer writes all the fields of a register at the same instant: they travel
     // together. A write at a later instant while one is pending is lost, as in the hardware.
     if (has_pending_ && pending_at_ != t) return;
@@ -188,10 +199,8 @@ std::uint32_t slow_counter_core::read(slow_field f, time_ps t) {
         case slow_field::count: {
             // The synchroniser samples the counter read_window before the read: the value after
             // the last edge at or before t - read_window.
-            const std::uint64_t m = t < cfg_.read_window ? 0 : edges_through(t - cfg_.read_window);
-            read_edges_ = m;
-            while (spans_.size() > 1 && spans_[1].first <= read_edges_)
-                spans_.erase(spans_.begin());
+            const std::uint64_t m = seen_edges(t);
+            forget_before(m);
             const span& s = span_for(m);
             return value_at(s, m < s.first ? s.first : m);
         }

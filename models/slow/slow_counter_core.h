@@ -132,6 +132,10 @@ private:
     std::optional<time_ps> edge_time(std::uint64_t k) const;
     // Number of edges at or before t.
     std::uint64_t edges_through(time_ps t) const;
+    // Edges a read at t sees through the synchroniser: those at or before t - read_window.
+    std::uint64_t seen_edges(time_ps t) const;
+    // Drops the spans no read from edge n on needs (the one in force at n stays).
+    void forget_before(std::uint64_t n);
     void update_irq(time_ps at);
 
     slow_config cfg_;
@@ -139,7 +143,6 @@ private:
     slow_observer* observer_;
     std::vector<span> spans_{span{}};  // in order of first; the last is in force
     std::uint64_t done_ = 0;           // edges 0..done_-1 have happened
-    std::uint64_t read_edges_ = 0;     // edges seen by the latest count read (spans before it go)
     std::uint32_t alarm_ = 0;
     bool irq_enable_ = false;
     std::uint32_t flags_ = 0;
