@@ -90,6 +90,14 @@ struct tick_irq_forwarder final : models::tick_observer {
     void on_irq(bool level, time_ps at) override { irqs->set_level(line, level, at); }
 };
 
+// Forwards a slow-clock counter's interrupt request line to the interrupt controller.
+struct slow_irq_forwarder final : models::slow_observer {
+    interrupt_controller* irqs = nullptr;
+    unsigned line = 0;
+    void on_flags_set(std::uint32_t, time_ps) override {}
+    void on_irq(bool level, time_ps at) override { irqs->set_level(line, level, at); }
+};
+
 // Stands in for the cpu on the bus when a part runs without firmware.
 struct platform::idle_initiator : sc_core::sc_module {
     tlm_utils::simple_initiator_socket<idle_initiator> socket;
@@ -129,14 +137,18 @@ struct platform::peripheral_slot {
     peripheral_spec spec;
     std::unique_ptr<models::tick_timer_core> tick;
     std::unique_ptr<models::watchdog_core> dog;
+    std::unique_ptr<models::slow_counter_core> slow;
     reset_watch dog_watch;
     // The model, whichever kind it is.
     models::event_source* model() const {
-        return tick ? static_cast<models::event_source*>(tick.get()) : dog.get();
+        if (tick) return tick.get();
+        if (slow) return slow.get();
+        return dog.get();
     }
     std::unique_ptr<models::register_file> registers;
     std::unique_ptr<models::timer_target> target;
     tick_irq_forwarder irq;
+    slow_irq_forwarder slow_irq;
 };
 
 // Wall-clock watch over firmware that stops calling into the simulator (a tight loop).
@@ -200,11 +212,12 @@ void platform::add_timer(timer_spec spec) {
 
 void platform::add_peripheral(peripheral_spec spec) {
     if (built_) throw std::logic_error("platform: peripheral added after build()");
-    if (spec.layout.kind != "tick_timer" && spec.layout.kind != "watchdog")
+    if (spec.layout.kind != "tick_timer" && spec.layout.kind != "watchdog" &&
+        spec.layout.kind != "slow_counter")
         throw std::invalid_argument(
             "peripheral '" + spec.name + "': kind \"" + spec.layout.kind +
             "\" is not one the platform builds as a peripheral; accepted: "
-            "\"tick_timer\", \"watchdog\" (timers are added with add_timer)");
+            "\"tick_timer\", \"watchdog\", \"slow_counter\" (timers are added with add_timer)");
     auto slot = std::make_unique<peripheral_slot>();
     slot->spec = std::move(spec);
     peripherals_.push_back(std::move(slot));
@@ -263,6 +276,13 @@ void platform::build() {
             clocks_.subscribe(p.spec.clock, p.spec.name,
                               [core](sim::time_ps t) { core->clock_changed(t); });
             port = core;
+        } else if (p.spec.layout.kind == "slow_counter") {
+            p.slow_irq.irqs = irqs_.get();
+            p.slow_irq.line = p.irq.line;
+            // A slow-clock counter keeps no edge times, so a clock change needs no notice.
+            p.slow = std::make_unique<models::slow_counter_core>(
+                p.spec.layout.slow, clocks_.domain(p.spec.clock), &p.slow_irq);
+            port = p.slow.get();
         } else {
             p.tick = std::make_unique<models::tick_timer_core>(
                 p.spec.layout.tick, clocks_.domain(p.spec.clock), &p.irq);
@@ -274,6 +294,7 @@ void platform::build() {
         p.registers = std::make_unique<models::register_file>(p.spec.layout, *port, p.spec.name,
                                                               policy_, p.spec.base);
         p.registers->apply_reset(0);
+        if (p.slow) p.slow->settle(0);
         p.target = std::make_unique<models::timer_target>((p.spec.name + "_bus").c_str(),
                                                           *p.registers, p.spec.access_latency);
         ranges.push_back({p.spec.base, p.spec.layout.size, p.spec.name, &p.spec.layout});

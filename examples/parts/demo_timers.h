@@ -193,4 +193,17 @@
 #define WD_KEY_SECOND 0x9e24u
 #define WD_COUNTER_MAX 0xfffu
 
+/* ---- slow32: the slow-clock counter, a 32-bit up-counter on the watch crystal, asynchronous to
+ * the bus (docs/slow-counter.md) ---- */
+#define SC_TICKS 0x00u   /* the counter; a read sees it as of 40 ns before: read until two agree */
+#define SC_WAKE_AT 0x04u /* alarm value */
+#define SC_SETUP 0x08u
+#define SC_SETUP_ENABLE 0x01u
+#define SC_SETUP_NOTIFY 0x02u /* interrupt request on the alarm (acts at once) */
+#define SC_SETUP_PRESCALE(k) ((unsigned)(k) << 4) /* count every 2^k-th slow edge */
+#define SC_STATUS 0x0cu
+#define SC_STATUS_BUSY 0x01u  /* a write waits for its slow edge; another write now is lost */
+#define SC_STATUS_ALARM 0x02u /* write 1 to clear */
+#define SC_WRITE_LATENCY 3u   /* slow edges from a write to its effect */
+
 #endif

@@ -25,6 +25,9 @@ int run_layout(const layout_options& options, std::ostream& out) {
         out << layout.tick.counter_bits << "-bit counter, clock divider " << layout.tick.divider;
     else if (layout.kind == "watchdog")
         out << layout.watchdog.counter_bits << "-bit counter";
+    else if (layout.kind == "slow_counter")
+        out << layout.slow.counter_bits << "-bit counter, write latency "
+            << layout.slow.write_latency << " slow edges";
     else
         out << c.counter_bits << "-bit counter, " << c.channels << " channels";
     out << ", " << layout.registers.size() << " registers, " << layout.codes.size()

@@ -304,11 +304,10 @@ void read_peripherals(context& c, const toml::table& root) {
                 try {
                     spec.layout = models::load_register_layout_file(p);
                     if (spec.layout.kind == "timer") {
-                        r.report(
-                            "layout",
-                            "layout " + in_quotes(*layout) +
-                                " describes a timer; accepted: a layout of another "
-                                "kind (\"tick_timer\", \"watchdog\"); timers go under [timers]");
+                        r.report("layout", "layout " + in_quotes(*layout) +
+                                               " describes a timer; accepted: a layout of another "
+                                               "kind (\"tick_timer\", \"watchdog\", "
+                                               "\"slow_counter\"); timers go under [timers]");
                         ok = false;
                     }
                 } catch (const sim::scenario_error& e) {

@@ -82,6 +82,10 @@ std::string layout_json(const register_layout& layout) {
                            {"divider", layout.tick.divider}};
     else if (layout.kind == "watchdog")
         doc["instance"] = {{"counter_bits", layout.watchdog.counter_bits}};
+    else if (layout.kind == "slow_counter")
+        doc["instance"] = {{"counter_bits", layout.slow.counter_bits},
+                           {"write_latency", layout.slow.write_latency},
+                           {"read_window_ns", layout.slow.read_window / 1000}};
     else
         doc["instance"] = {{"counter_bits", c.counter_bits},
                            {"channels", c.channels},

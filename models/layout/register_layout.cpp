@@ -133,6 +133,15 @@ std::vector<own_field> own_fields(const register_layout& l) {
             out.push_back({to_string(f), width, false});
         }
     }
+    if (l.kind == "slow_counter") {
+        for (std::uint32_t i = 0; i < slow_field_count; ++i) {
+            const auto f = static_cast<slow_field>(i);
+            unsigned width = 1;
+            if (f == slow_field::count || f == slow_field::alarm) width = l.slow.counter_bits;
+            if (f == slow_field::prescale) width = 4;
+            out.push_back({to_string(f), width, f == slow_field::flags});
+        }
+    }
     return out;
 }
 
@@ -142,6 +151,20 @@ void read_watchdog_instance(table_reader& top, watchdog_config& cfg) {
     table_reader r(top.findings(), *t, "instance");
     r.reject_unknown_keys({"counter_bits"}, "the watchdog instance");
     if (auto v = r.integer("counter_bits", 4, 16, true)) cfg.counter_bits = unsigned(*v);
+}
+
+void read_slow_instance(table_reader& top, slow_config& cfg) {
+    const toml::table* t = top.sub_table(
+        "instance", true,
+        "counter_bits, write_latency and read_window_ns of the slow-clock counter instance");
+    if (t == nullptr) return;
+    table_reader r(top.findings(), *t, "instance");
+    r.reject_unknown_keys({"counter_bits", "write_latency", "read_window_ns"},
+                          "the slow-clock counter instance");
+    if (auto v = r.integer("counter_bits", 1, 32, true)) cfg.counter_bits = unsigned(*v);
+    if (auto v = r.integer("write_latency", 1, 16, true)) cfg.write_latency = unsigned(*v);
+    if (auto v = r.integer("read_window_ns", 0, 1'000'000, true))
+        cfg.read_window = sim::time_ps(*v) * 1000;
 }
 
 void read_tick_instance(table_reader& top, tick_config& cfg) {
@@ -850,6 +873,8 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
         top.integer("size", 1, 0xffff'ffffLL, true, "a byte count from 1 to 0xffffffff");
     if (layout.kind == "watchdog") {
         read_watchdog_instance(top, layout.watchdog);
+    } else if (layout.kind == "slow_counter") {
+        read_slow_instance(top, layout.slow);
     } else if (layout.kind == "tick_timer") {
         read_tick_instance(top, layout.tick);
         if (out.empty()) {
@@ -1099,7 +1124,8 @@ std::vector<std::string> register_layout::unmapped_field_names() const {
 }
 
 const std::vector<std::string>& peripheral_kinds() {
-    static const std::vector<std::string> kinds = {"timer", "tick_timer", "watchdog"};
+    static const std::vector<std::string> kinds = {"timer", "tick_timer", "watchdog",
+                                                   "slow_counter"};
     return kinds;
 }
 

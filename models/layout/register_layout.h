@@ -19,6 +19,7 @@
 // accepted, reading through the TOML reader every loader shares (sim/toml_reader.h). That reader
 // and its TOML library stay in the .cpp: this header is cheap to include.
 
+#include "models/slow/slow_counter_core.h"
 #include "models/tick/tick_timer_core.h"
 #include "models/timer/timer_types.h"
 #include "models/watchdog/watchdog_core.h"
@@ -151,6 +152,7 @@ struct register_layout {
     timer_config instance;   // kind "timer": what the timer instance has
     tick_config tick;        // kind "tick_timer": what the tick timer instance has
     watchdog_config watchdog;  // kind "watchdog": what the watchdog instance has
+    slow_config slow;          // kind "slow_counter": what the slow-clock counter instance has
     std::vector<register_map> registers;
     std::vector<code_table> codes;  // value tables, in file order
 
@@ -174,7 +176,7 @@ struct register_layout {
     bool maps_flags(const field_map& f) const;
 };
 
-// The peripheral kinds a layout may name: "timer", "tick_timer", "watchdog".
+// The peripheral kinds a layout may name: "timer", "tick_timer", "watchdog", "slow_counter".
 const std::vector<std::string>& peripheral_kinds();
 // The functional field names of kind `kind`, in field-number order (empty for an unknown kind).
 std::vector<std::string> kind_field_names(std::string_view kind);
