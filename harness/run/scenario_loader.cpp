@@ -145,6 +145,76 @@ const std::vector<std::string> timer_keys = {"layout",
                                              "running-at-start",
                                              "access-latency"};
 
+// The keys a timer and a peripheral of another kind share, in file order: `layout` (a file whose
+// kind `refuse_kind(path, kind)` accepts by returning ""), `clock`, `base`, `interrupt-priority`
+// and `interrupt-delay`. Each mistake is reported; returns false if there was one.
+template <typename Spec, typename Refuse>
+bool read_placement(context& c, table_reader& r, Spec& spec, Refuse refuse_kind) {
+    bool ok = true;
+    if (auto layout = r.string(
+            "layout", true, "the path of a register layout file, relative to the scenario file")) {
+        const std::string p = resolve(c.dir, *layout);
+        std::error_code ec;
+        if (!fs::is_regular_file(p, ec)) {
+            r.report("layout", "no layout file " + in_quotes(*layout) + " (looked for " + p +
+                                   "); accepted: the path of a register layout file "
+                                   "(docs/register-layouts.md), relative to the scenario file");
+            ok = false;
+        } else {
+            try {
+                spec.layout = models::load_register_layout_file(p);
+                if (const std::string refused = refuse_kind(*layout, spec.layout.kind);
+                    !refused.empty()) {
+                    r.report("layout", refused);
+                    ok = false;
+                }
+            } catch (const sim::scenario_error& e) {
+                r.report("layout", "layout file " + in_quotes(*layout) +
+                                       " has mistakes (listed after this file's)");
+                c.out.add_foreign(e.findings());
+                ok = false;
+            }
+        }
+    } else {
+        ok = false;
+    }
+    if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
+        spec.clock = *clock;
+        if (!known_clock(c, r, "clock", *clock)) ok = false;
+    } else {
+        ok = false;
+    }
+    if (auto base = r.integer("base", 0, 0xffff'ffffLL, true))
+        spec.base = static_cast<std::uint64_t>(*base);
+    else
+        ok = false;
+    if (auto p = r.integer("interrupt-priority", 0, 255))
+        spec.irq_priority = static_cast<unsigned>(*p);
+    else if (r.has("interrupt-priority"))
+        ok = false;
+    if (auto d = r.time("interrupt-delay"))
+        spec.irq_extra_delay = *d;
+    else if (r.has("interrupt-delay"))
+        ok = false;
+    return ok;
+}
+
+// `access-latency`, and the window inside the 32-bit address space (after the layout was read).
+template <typename Spec>
+bool read_window(table_reader& r, Spec& spec, bool ok) {
+    if (auto l = r.time("access-latency"))
+        spec.access_latency = sc_core::sc_time::from_value(*l);
+    else if (r.has("access-latency"))
+        ok = false;
+    if (ok && spec.base + spec.layout.size > 0x1'0000'0000ULL) {
+        r.report("base", "the window " + hex(spec.base) + " + " + hex(spec.layout.size) +
+                             " runs past the 32-bit address space; accepted: a base at most " +
+                             hex(0x1'0000'0000ULL - spec.layout.size));
+        ok = false;
+    }
+    return ok;
+}
+
 void read_timers(context& c, const toml::table& root) {
     const toml::table* timers = sub_table(c, root, "timers", "one table [timers.NAME] per timer");
     if (!timers) return;
@@ -163,53 +233,15 @@ void read_timers(context& c, const toml::table& root) {
         timer_spec spec;
         spec.name = name;
         bool ok = true;
-        if (auto layout =
-                r.string("layout", true,
-                         "the path of a register layout file, relative to the scenario file")) {
-            const std::string p = resolve(c.dir, *layout);
-            std::error_code ec;
-            if (!fs::is_regular_file(p, ec)) {
-                r.report("layout", "no layout file " + in_quotes(*layout) + " (looked for " + p +
-                                       "); accepted: the path of a register layout file "
-                                       "(docs/register-layouts.md), relative to the scenario file");
-                ok = false;
-            } else {
-                try {
-                    spec.layout = models::load_register_layout_file(p);
-                    if (spec.layout.kind != "timer") {
-                        r.report("layout", "layout " + in_quotes(*layout) + " describes a " +
-                                               in_quotes(spec.layout.kind) +
-                                               " peripheral; accepted: a timer layout");
-                        ok = false;
-                    }
-                } catch (const sim::scenario_error& e) {
-                    r.report("layout", "layout file " + in_quotes(*layout) +
-                                           " has mistakes (listed after this file's)");
-                    c.out.add_foreign(e.findings());
-                    ok = false;
-                }
-            }
-        } else {
-            ok = false;
-        }
-        if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
-            spec.clock = *clock;
-            if (!known_clock(c, r, "clock", *clock)) ok = false;
-        } else {
-            ok = false;
-        }
-        if (auto base = r.integer("base", 0, 0xffff'ffffLL, true))
-            spec.base = static_cast<std::uint64_t>(*base);
-        else
-            ok = false;
-        if (auto p = r.integer("interrupt-priority", 0, 255))
-            spec.irq_priority = static_cast<unsigned>(*p);
-        else if (r.has("interrupt-priority"))
-            ok = false;
-        if (auto d = r.time("interrupt-delay"))
-            spec.irq_extra_delay = *d;
-        else if (r.has("interrupt-delay"))
-            ok = false;
+        ok = read_placement(c, r, spec,
+                            [](const std::string& path, const std::string& kind) {
+                                return kind == "timer"
+                                           ? std::string()
+                                           : "layout " + in_quotes(path) + " describes a " +
+                                                 in_quotes(kind) +
+                                                 " peripheral; accepted: a timer layout";
+                            }) &&
+             ok;
         if (auto v2 = r.integer("counter-start", 0, 0xffff'ffffLL)) {
             spec.counter_start = static_cast<std::uint32_t>(*v2);
             if (ok && *spec.counter_start > spec.layout.instance.counter_max()) {
@@ -227,16 +259,7 @@ void read_timers(context& c, const toml::table& root) {
             spec.running_at_start = *b;
         else if (r.has("running-at-start"))
             ok = false;
-        if (auto l = r.time("access-latency"))
-            spec.access_latency = sc_core::sc_time::from_value(*l);
-        else if (r.has("access-latency"))
-            ok = false;
-        if (ok && spec.base + spec.layout.size > 0x1'0000'0000ULL) {
-            r.report("base", "the window " + hex(spec.base) + " + " + hex(spec.layout.size) +
-                                 " runs past the 32-bit address space; accepted: a base at most " +
-                                 hex(0x1'0000'0000ULL - spec.layout.size));
-            ok = false;
-        }
+        ok = read_window(r, spec, ok);
         if (!ok) {
             c.broken_timers.insert(name);
             continue;
@@ -290,64 +313,18 @@ void read_peripherals(context& c, const toml::table& root) {
                                        "names the interrupt line)");
                 ok = false;
             }
-        if (auto layout =
-                r.string("layout", true,
-                         "the path of a register layout file, relative to the scenario file")) {
-            const std::string p = resolve(c.dir, *layout);
-            std::error_code ec;
-            if (!fs::is_regular_file(p, ec)) {
-                r.report("layout", "no layout file " + in_quotes(*layout) + " (looked for " + p +
-                                       "); accepted: the path of a register layout file "
-                                       "(docs/register-layouts.md), relative to the scenario file");
-                ok = false;
-            } else {
-                try {
-                    spec.layout = models::load_register_layout_file(p);
-                    if (spec.layout.kind == "timer") {
-                        r.report("layout", "layout " + in_quotes(*layout) +
-                                               " describes a timer; accepted: a layout of another "
-                                               "kind (\"tick_timer\", \"watchdog\", "
-                                               "\"slow_counter\"); timers go under [timers]");
-                        ok = false;
-                    }
-                } catch (const sim::scenario_error& e) {
-                    r.report("layout", "layout file " + in_quotes(*layout) +
-                                           " has mistakes (listed after this file's)");
-                    c.out.add_foreign(e.findings());
-                    ok = false;
-                }
-            }
-        } else {
-            ok = false;
-        }
-        if (auto clock = r.string("clock", true, "the name of a clock of [clocks]")) {
-            spec.clock = *clock;
-            if (!known_clock(c, r, "clock", *clock)) ok = false;
-        } else {
-            ok = false;
-        }
-        if (auto base = r.integer("base", 0, 0xffff'ffffLL, true))
-            spec.base = static_cast<std::uint64_t>(*base);
-        else
-            ok = false;
-        if (auto p = r.integer("interrupt-priority", 0, 255))
-            spec.irq_priority = static_cast<unsigned>(*p);
-        else if (r.has("interrupt-priority"))
-            ok = false;
-        if (auto d = r.time("interrupt-delay"))
-            spec.irq_extra_delay = *d;
-        else if (r.has("interrupt-delay"))
-            ok = false;
-        if (auto l = r.time("access-latency"))
-            spec.access_latency = sc_core::sc_time::from_value(*l);
-        else if (r.has("access-latency"))
-            ok = false;
-        if (ok && spec.base + spec.layout.size > 0x1'0000'0000ULL) {
-            r.report("base", "the window " + hex(spec.base) + " + " + hex(spec.layout.size) +
-                                 " runs past the 32-bit address space; accepted: a base at most " +
-                                 hex(0x1'0000'0000ULL - spec.layout.size));
-            ok = false;
-        }
+        ok = read_placement(
+                 c, r, spec,
+                 [](const std::string& path, const std::string& kind) {
+                     return kind != "timer"
+                                ? std::string()
+                                : "layout " + in_quotes(path) +
+                                      " describes a timer; accepted: a layout of another kind "
+                                      "(\"tick_timer\", \"watchdog\", \"slow_counter\"); timers go "
+                                      "under [timers]";
+                 }) &&
+             ok;
+        ok = read_window(r, spec, ok);
         if (auto e = r.boolean("reset-expected")) {
             spec.reset_expected = *e;
             if (ok && spec.layout.kind != "watchdog") {
