@@ -725,7 +725,8 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
 
     if (!ok) return;
     if (!timer_kind) {
-        const own_field o = own_fields(ctx.layout)[f.kind_field];  // a copy: the list is a temporary
+        const own_field o =
+            own_fields(ctx.layout)[f.kind_field];  // a copy: the list is a temporary
         if (f.value_bit + f.width > o.width) {
             r.report(t->get("value_bit") ? "value_bit" : "bits",
                      "the field holds value bits " + bit_range(f.value_bit, f.width) + " but \"" +
