@@ -18,7 +18,8 @@
 #                  must not do. Only those two commands may stand in such a block.
 #   LANG file=PATH the block's text must equal the file PATH of the source tree, byte for byte;
 #                  every file of examples/first_scenario/ must be shown so.
-#   text, json, toml, c ... (no file=)  shown output or fragments: not run.
+#   text, json, toml, c ... (no file=)  shown output or fragments: not run, and a "$ " line there
+#                  is refused.
 # Commands elsewhere (an indented code block, a block with no info string or with bash, shell)
 # are refused, so that none escapes the test. Exits 1 at the first difference, saying where.
 set -uo pipefail
@@ -174,6 +175,15 @@ $out"
             ;;
         "" | bash | shell | sh-session | shell-session | zsh)
             fail "$((first - 1))" "a block with info string '$info': commands go in console or sh blocks (which this test runs), output in text blocks"
+            ;;
+        *)
+            local k=0 line
+            for line in "$@"; do
+                if [[ "$line" == '$ '* ]]; then
+                    fail "$((first + k))" "a command in a '$lang' block, which this test does not run: put it in a console block"
+                fi
+                k=$((k + 1))
+            done
             ;;
     esac
 }
