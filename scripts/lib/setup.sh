@@ -24,6 +24,8 @@ tickbench_packages=(
     # outside tools the waveform tests check our VCD files with (tests/waves/)
     gtkwave
     sigrok-cli
+    # headless browser the failure report test renders report.html with (tests/report/)
+    chromium
 )
 
 tickbench_root="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
