@@ -282,8 +282,8 @@ std::string failure_svg(const report_check& check, const report_model& model) {
     if (check.from && *check.from < check.at) {
         const std::uint64_t x1 = X(*check.from), x2 = X(check.at);
         s += "<rect x=\"" + px(x1) + "\" y=\"" + px_whole(top_band - 18) + "\" width=\"" +
-             px(x2 - x1) + "\" height=\"" + px_whole(traces_bottom - top_band + 18) +
-             "\" fill=\"" + fail_colour + "\" fill-opacity=\"0.1\"/>";
+             px(x2 - x1) + "\" height=\"" + px_whole(traces_bottom - top_band + 18) + "\" fill=\"" +
+             fail_colour + "\" fill-opacity=\"0.1\"/>";
         const unsigned ay = top_band - 12;
         s += line(x1, ay * 10, x2, ay * 10,
                   std::string("stroke=\"") + fail_colour + "\" stroke-width=\"1.5\"");
@@ -369,8 +369,7 @@ std::string thumbnail_svg(const report_check& check, const report_model& model) 
                     esc(check.signal) + ", the last " + (ne >= 3 ? "period" : "stretch") +
                     "</title>";
     for (unsigned i = 0; i < n; ++i) {
-        const std::string d =
-            trace_path(check.traces[i], w, w_px, gap + i * (row + gap), row, 64);
+        const std::string d = trace_path(check.traces[i], w, w_px, gap + i * (row + gap), row, 64);
         if (!d.empty())
             s += "<path d=\"" + d + "\" fill=\"none\" stroke=\"" + wave_colour +
                  "\" stroke-width=\"1.2\"/>";
@@ -381,7 +380,8 @@ std::string thumbnail_svg(const report_check& check, const report_model& model) 
 
 namespace {
 
-const char* const page_style = R"(body{font:14px/1.45 system-ui,sans-serif;color:#1b1f24;margin:24px 32px;max-width:1100px}
+const char* const page_style =
+    R"(body{font:14px/1.45 system-ui,sans-serif;color:#1b1f24;margin:24px 32px;max-width:1100px}
 h1{font-size:22px;margin:0 0 4px}h2{font-size:18px;margin:28px 0 8px;border-bottom:1px solid #d8dee4;padding-bottom:4px}
 h3{font-size:16px;margin:20px 0 4px}
 .verdict{display:inline-block;padding:2px 10px;border-radius:10px;font-weight:600;color:#fff}
@@ -428,8 +428,8 @@ std::string report_html_text(const report_model& model) {
     std::size_t fail_no = 0;
     for (const report_check& c : model.checks) {
         h += "<tr><td>" + verdict_badge(c.passed) + "</td><td>" + esc(c.name) + "</td><td>" +
-             esc(c.kind) + "</td><td class=\"mono\">" + esc(c.signal) + "</td><td>" +
-             expected(c) + "</td><td>" + esc(c.measured) + "</td><td class=\"num\">" + esc(format_time(c.at)) +
+             esc(c.kind) + "</td><td class=\"mono\">" + esc(c.signal) + "</td><td>" + expected(c) +
+             "</td><td>" + esc(c.measured) + "</td><td class=\"num\">" + esc(format_time(c.at)) +
              "</td><td>";
         if (!c.passed) {
             ++fail_no;
@@ -447,9 +447,9 @@ std::string report_html_text(const report_model& model) {
          "<th>frequency (Hz)</th><th>exact (Hz)</th><th>settings</th><th>feeds</th></tr>\n";
     for (const report_clock& c : model.clocks) {
         h += "<tr><td class=\"mono\">" + esc(c.name) + "</td><td>" + esc(c.kind) +
-             "</td><td class=\"num\">" + esc(c.hz) + "</td><td class=\"num\">" +
-             esc(c.hz_exact) + "</td><td>" + esc(c.settings) + "</td><td class=\"mono\">" +
-             esc(c.feeds) + "</td></tr>\n";
+             "</td><td class=\"num\">" + esc(c.hz) + "</td><td class=\"num\">" + esc(c.hz_exact) +
+             "</td><td>" + esc(c.settings) + "</td><td class=\"mono\">" + esc(c.feeds) +
+             "</td></tr>\n";
     }
     h += "</table>\n";
     if (model.clocks.empty()) h += "<p class=\"note\">no clocks</p>\n";
@@ -463,8 +463,9 @@ std::string report_html_text(const report_model& model) {
             h += "<section id=\"failure-" + std::to_string(fail_no) + "\">\n<h3>" +
                  std::to_string(fail_no) + ". " + esc(c.name) + " <span class=\"note\">" +
                  esc(c.kind) + " on <code>" + esc(c.signal) + "</code></span></h3>\n";
-            h += "<p class=\"detail\">" + esc(c.detail) + "</p>\n<dl class=\"vals\"><dt>expected</dt><dd>" +
-                 expected(c) + "</dd><dt>measured</dt><dd>" + esc(c.measured) +
+            h += "<p class=\"detail\">" + esc(c.detail) +
+                 "</p>\n<dl class=\"vals\"><dt>expected</dt><dd>" + expected(c) +
+                 "</dd><dt>measured</dt><dd>" + esc(c.measured) +
                  (c.span_label.empty() ? "" : "; first failure: " + esc(c.span_label)) +
                  "</dd><dt>first failure</dt><dd>" + esc(format_time(c.at)) + "</dd></dl>\n";
             if (c.traces.empty())

@@ -23,8 +23,8 @@ struct axis_tick {
 };
 
 struct time_axis {
-    time_ps step = 0;   // 1, 2 or 5 times a power of ten, in ps
-    std::string unit;   // "ps", "ns", "us", "ms" or "s"
+    time_ps step = 0;  // 1, 2 or 5 times a power of ten, in ps
+    std::string unit;  // "ps", "ns", "us", "ms" or "s"
     std::vector<axis_tick> ticks;
 };
 
@@ -39,10 +39,10 @@ struct time_window {
 };
 
 struct window_limits {
-    unsigned width_px = 760;         // the plot's width
-    unsigned min_px_per_edge = 4;    // nearest distinct edge times, outside the focus, in pixels
-    std::size_t context_edges = 8;   // edge times added on each side of the focus at most
-    std::size_t max_edges = 160;     // edges inside the window at most (focus included)
+    unsigned width_px = 760;        // the plot's width
+    unsigned min_px_per_edge = 4;   // nearest distinct edge times, outside the focus, in pixels
+    std::size_t context_edges = 8;  // edge times added on each side of the focus at most
+    std::size_t max_edges = 160;    // edges inside the window at most (focus included)
 };
 
 // The window to draw around [focus_from, focus_to]: the focus, widened by the edges of `traces`

@@ -55,18 +55,16 @@ bool report_clock::operator==(const report_clock& o) const {
     return name == o.name && kind == o.kind && hz == o.hz && hz_exact == o.hz_exact &&
            settings == o.settings && feeds == o.feeds;
 }
-bool report_mark::operator==(const report_mark& o) const {
-    return at == o.at && label == o.label;
-}
+bool report_mark::operator==(const report_mark& o) const { return at == o.at && label == o.label; }
 bool operator==(const wave_trace& a, const wave_trace& b) {
     return a.name == b.name && a.before == b.before && a.edges == b.edges &&
            a.known_from == b.known_from && a.known_to == b.known_to;
 }
 bool report_check::operator==(const report_check& o) const {
     return name == o.name && kind == o.kind && signal == o.signal && expected == o.expected &&
-           tolerance == o.tolerance && measured == o.measured && passed == o.passed &&
-           at == o.at && from == o.from && detail == o.detail && span_label == o.span_label &&
-           marks == o.marks && traces == o.traces;
+           tolerance == o.tolerance && measured == o.measured && passed == o.passed && at == o.at &&
+           from == o.from && detail == o.detail && span_label == o.span_label && marks == o.marks &&
+           traces == o.traces;
 }
 bool report_model::operator==(const report_model& o) const {
     return scenario == o.scenario && end == o.end && clocks == o.clocks && checks == o.checks;
@@ -178,7 +176,8 @@ std::string report_json_text(const report_model& model) {
         k["detail"] = c.detail;
         k["span_label"] = c.span_label;
         ojson marks = ojson::array();
-        for (const report_mark& m : c.marks) marks.push_back(ojson{{"at_ps", m.at}, {"label", m.label}});
+        for (const report_mark& m : c.marks)
+            marks.push_back(ojson{{"at_ps", m.at}, {"label", m.label}});
         k["marks"] = marks;
         ojson traces = ojson::array();
         for (const wave_trace& t : c.traces) {
@@ -255,8 +254,7 @@ report_model parse_report_json(const std::string& text, const std::string& origi
                 ++col;
             }
         }
-        throw report_format_error(origin + ":" + std::to_string(line) + ":" +
-                                  std::to_string(col) +
+        throw report_format_error(origin + ":" + std::to_string(line) + ":" + std::to_string(col) +
                                   ": not valid JSON; expected the report.json a run writes");
     }
     const json_reader r(origin);
@@ -292,7 +290,8 @@ report_model parse_report_json(const std::string& text, const std::string& origi
         c.tolerance = r.str(k, p, "tolerance");
         c.measured = r.str(k, p, "measured");
         const std::string verdict = r.str(k, p, "verdict");
-        if (verdict != "pass" && verdict != "fail") r.bad(p + ".verdict", "expected \"pass\" or \"fail\"");
+        if (verdict != "pass" && verdict != "fail")
+            r.bad(p + ".verdict", "expected \"pass\" or \"fail\"");
         c.passed = verdict == "pass";
         c.at = r.time(k, p, "at_ps");
         const ojson& from = r.get(k, p, "from_ps");

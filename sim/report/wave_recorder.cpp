@@ -58,7 +58,8 @@ void wave_recorder::watch(const std::vector<std::vector<signal_id>>& checks) {
 }
 
 void wave_recorder::change(signal_id id, bool level, time_ps at) {
-    if (id >= names_.size()) throw std::logic_error("wave_recorder: change() of an undeclared signal");
+    if (id >= names_.size())
+        throw std::logic_error("wave_recorder: change() of an undeclared signal");
     if (at < last_) throw std::logic_error("wave_recorder: time went backwards");
     last_ = at;
     if (id >= ring_of_.size() || ring_of_[id] == none_) return;
@@ -173,8 +174,7 @@ std::size_t wave_recorder::bound_bytes() const {
         n += c.slots.size() *
              (sizeof(frozen_slot) + (limits_.ring_edges + limits_.after_edges) * sizeof(time_ps));
     }
-    for (const auto& list : collecting_)
-        n += sizeof(list) + list.capacity() * sizeof(list[0]);
+    for (const auto& list : collecting_) n += sizeof(list) + list.capacity() * sizeof(list[0]);
     for (const std::string& s : names_) n += sizeof(std::string) + s.capacity();
     return n;
 }

@@ -21,9 +21,9 @@ namespace sim {
 
 // How much the recorder keeps.
 struct recorder_limits {
-    std::size_t ring_edges = 256;      // recent edges kept per watched signal
-    std::size_t after_edges = 24;      // edges kept per signal after a check's first failure
-    std::size_t thumbnail_edges = 8;   // last edges per signal handed out for a passed check
+    std::size_t ring_edges = 256;     // recent edges kept per watched signal
+    std::size_t after_edges = 24;     // edges kept per signal after a check's first failure
+    std::size_t thumbnail_edges = 8;  // last edges per signal handed out for a passed check
 };
 
 // One recorded stretch of a signal: its level before the first edge, then every change inside
@@ -69,9 +69,9 @@ private:
         std::vector<time_ps> at;  // capacity ring_edges; levels alternate
         std::size_t head = 0;     // index of the oldest kept edge
         std::size_t size = 0;
-        bool dropped = false;     // older edges were overwritten
-        bool initial = false;     // level at time 0
-        bool level = false;       // current level
+        bool dropped = false;  // older edges were overwritten
+        bool initial = false;  // level at time 0
+        bool level = false;    // current level
     };
     struct frozen_slot {
         std::uint32_t ring = 0;  // watched-signal index

@@ -42,9 +42,9 @@ TEST(report_html_test, the_time_axis_has_round_steps_in_whole_units) {
     EXPECT_EQ(labels(b).front(), "1200000100 ns");
     EXPECT_EQ(labels(b).back(), "1200000160 ns");
     // Picoseconds, and seconds.
-    EXPECT_EQ(labels(sim::make_time_axis(0, 7, 8)),
-              (std::vector<std::string>{"0 ps", "1 ps", "2 ps", "3 ps", "4 ps", "5 ps", "6 ps",
-                                        "7 ps"}));
+    EXPECT_EQ(
+        labels(sim::make_time_axis(0, 7, 8)),
+        (std::vector<std::string>{"0 ps", "1 ps", "2 ps", "3 ps", "4 ps", "5 ps", "6 ps", "7 ps"}));
     const sim::time_axis s = sim::make_time_axis(0, 20'000'000'000'000ULL, 6);
     EXPECT_EQ(s.step, 5'000'000'000'000ULL);
     EXPECT_EQ(labels(s).back(), "20 s");
@@ -83,8 +83,8 @@ TEST(report_html_test, the_window_narrows_so_that_dense_edges_stay_apart) {
     slow.known_to = 3'000'000'000;
     const wave_trace fast = square(0, 3'000'000'000, 10'000);
     sim::window_limits limits;
-    const sim::time_window w = sim::select_window({slow, fast}, 1'000'000'000, 1'500'000'000,
-                                                  limits);
+    const sim::time_window w =
+        sim::select_window({slow, fast}, 1'000'000'000, 1'500'000'000, limits);
     EXPECT_LE(w.from, 1'000'000'000u);
     EXPECT_GE(w.to, 1'500'000'000u);
     // Nothing beyond the focus and its margin: the next fast edge outside would be 10 ns from

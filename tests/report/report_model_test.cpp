@@ -134,7 +134,8 @@ TEST(report_model_test, the_measured_text_is_the_summary_s) {
 
 TEST(report_model_test, bad_report_json_names_the_place_and_what_is_expected) {
     try {
-        sim::parse_report_json("{\n  \"format\": \"tickbench-report\",\n  oops\n}", "d/report.json");
+        sim::parse_report_json("{\n  \"format\": \"tickbench-report\",\n  oops\n}",
+                               "d/report.json");
         FAIL() << "no error";
     } catch (const sim::report_format_error& e) {
         EXPECT_NE(std::string(e.what()).find("d/report.json:3:"), std::string::npos) << e.what();

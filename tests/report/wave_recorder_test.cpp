@@ -2,8 +2,8 @@
 // window frozen at a check's first failure with the edges after it, and a bound that does not
 // grow with the run.
 
-#include "sim/checks/check_engine.h"
 #include "sim/report/wave_recorder.h"
+#include "sim/checks/check_engine.h"
 
 #include <gtest/gtest.h>
 
@@ -114,8 +114,8 @@ TEST(wave_recorder_test, memory_stays_within_its_bound_however_long_the_run) {
         EXPECT_LE(t.edges.size(), limits.ring_edges + limits.after_edges);
     EXPECT_LE(r.traces(0)[0].edges.size(), limits.thumbnail_edges);
     // Rings of 3 signals and frozen room for 3 slots, 8 bytes an edge, plus bookkeeping.
-    EXPECT_LT(bound, 3 * limits.ring_edges * 8 + 3 * (limits.ring_edges + limits.after_edges) * 8 +
-                         4096);
+    EXPECT_LT(bound,
+              3 * limits.ring_edges * 8 + 3 * (limits.ring_edges + limits.after_edges) * 8 + 4096);
 }
 
 // The engine tells the recorder of a check's first failure, and the result names the span of
