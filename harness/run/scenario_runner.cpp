@@ -120,13 +120,14 @@ struct run_state {
             sim::write_checks_jsonl(path("checks.jsonl"), results);
             sim::write_junit_xml(path("junit.xml"), results, s.name);
             sim::write_summary(path("summary.txt"), results, notes);
-            write_report(results, end);
             if (failure) {
                 std::ofstream f(path("failure.txt"), std::ios::binary);
                 f << failure->text();
                 f.close();
                 if (!f) throw sim::output_error("cannot write " + path("failure.txt"));
             }
+            // Last: the report draws on everything above, and its loss costs none of it.
+            write_report(results, end);
         }
         if (on_results) on_results(results, failure ? &*failure : nullptr);
         *out << sim::summary_text(results, notes);

@@ -127,22 +127,35 @@ def main():
     if (width, height) != (1200, 2000):
         fail("screenshot is %dx%d, expected 1200x2000" % (width, height))
     inked = marker = 0
+    # Per column, the current and the longest vertical run of marker pixels: the first failure's
+    # line is a vertical stroke across the traces, taller than any badge or label.
+    run = [0] * width
+    longest = [0] * width
     for line in rows:
-        for x in range(0, width * channels, channels):
+        for col, x in enumerate(range(0, width * channels, channels)):
             r, g, b = line[x], line[x + 1], line[x + 2]
             if r < 235 or g < 235 or b < 235:
                 inked += 1
             if abs(r - MARKER[0]) <= 24 and abs(g - MARKER[1]) <= 24 and abs(b - MARKER[2]) <= 24:
                 marker += 1
+                run[col] += 1
+                longest[col] = max(longest[col], run[col])
+            else:
+                run[col] = 0
     total = width * height
-    print("screenshot %dx%d: %d pixels not white (%.2f %%), %d of the failure marker's colour"
-          % (width, height, inked, 100.0 * inked / total, marker))
+    print("screenshot %dx%d: %d pixels not white (%.2f %%), %d of the failure marker's colour, "
+          "the tallest stroke of it %d pixels"
+          % (width, height, inked, 100.0 * inked / total, marker, max(longest)))
     # A page with tables and a waveform inks a few percent of its pixels; a blank or unstyled
     # error page far fewer (a threshold of our own, no source).
     if inked < total // 100:
         fail("the page looks blank: only %d of %d pixels are not white" % (inked, total))
     if marker < 200:
         fail("too few pixels of the failure marker's colour: %d" % marker)
+    # The line runs from the picture's top band to the bottom of one 48-pixel trace row.
+    if max(longest) < 60:
+        fail("no vertical failure line: the longest run of marker pixels is %d pixels"
+             % max(longest))
     for want in (signal, check, "first failure at", "<svg"):
         if want not in dom.stdout:
             fail("the rendered page lacks %r" % want)

@@ -170,4 +170,42 @@ TEST(wave_recorder_test, the_engine_reports_the_first_failure_and_its_span) {
     EXPECT_EQ(w.edges.back(), 730u);  // the failing rise and the edges after it were kept
 }
 
+// Each kind that measures a stretch of time names it as the failing span: a pulse from its start,
+// a gap from the fall that opened it, a latency from its event.
+TEST(wave_recorder_test, failed_pulses_gaps_and_latencies_name_their_span) {
+    sim::check_spec pulse;
+    pulse.name = "pulse";
+    pulse.kind = sim::check_kind::pulse_width;
+    pulse.signals = {"t.a"};
+    pulse.maximum = 50;
+    sim::check_spec gap;
+    gap.name = "gap";
+    gap.kind = sim::check_kind::dead_time;
+    gap.signals = {"t.a", "t.b"};
+    gap.minimum = 20;
+    sim::check_spec latency;
+    latency.name = "latency";
+    latency.kind = sim::check_kind::latency;
+    latency.signals = {"t.a", "t.b"};
+    latency.maximum = 5;
+    sim::check_engine engine({pulse, gap, latency});
+    engine.declare(0, sim::signal_info{"t", "a", false});
+    engine.declare(1, sim::signal_info{"t", "b", false});
+    engine.begin();
+    engine.change(0, true, 100);   // a high for 70: too long a pulse, and b answers after 10
+    engine.change(0, false, 170);  // a falls at 170
+    engine.change(1, true, 180);   // b rises 10 after: too short a gap
+    engine.end(300);
+    const auto& r = engine.results();
+    ASSERT_EQ(r.size(), 3u);
+    for (const sim::check_result& x : r) EXPECT_FALSE(x.passed) << x.name;
+    EXPECT_EQ(r[0].fail_from, std::optional<time_ps>(100));
+    EXPECT_EQ(r[0].at, 170u);
+    EXPECT_EQ(r[1].fail_from, std::optional<time_ps>(170));
+    EXPECT_EQ(r[1].at, 180u);
+    // The event at 100 (a rising) is answered by b's rise at 180.
+    EXPECT_EQ(r[2].fail_from, std::optional<time_ps>(100));
+    EXPECT_EQ(r[2].at, 180u);
+}
+
 }  // namespace
