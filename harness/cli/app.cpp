@@ -8,6 +8,7 @@
 #include "harness/run/sweep_plan.h"
 #include "sim/clock_tree.h"
 #include "sim/quantity.h"
+#include "sim/report/report_model.h"
 #include "sim/scenario_error.h"
 #include "sim/vcd_writer.h"
 #include "sim/word_hint.h"
@@ -187,6 +188,11 @@ int run(int argc, char** argv) {
         ->check(CLI::Range(1u, 10000u))
         ->capture_default_str();
 
+    report_options report_opts;
+    CLI::App* report_cmd = app.add_subcommand(
+        "report", "Write DIR/report.html again from the report.json a run left in DIR");
+    report_cmd->add_option("DIR", report_opts.dir, "The output folder of a run")->required();
+
     // An unknown command is named, with the closest one, even when --help follows it.
     if (const std::string word = unknown_command(app, argc, argv); !word.empty()) {
         report_error("unknown command '" + word + "'" + sim::hint(word, command_names(app)) +
@@ -222,6 +228,7 @@ int run(int argc, char** argv) {
         if (*clocks_cmd) return run_clocks(clocks, std::cout);
         if (*plan_cmd) return run_plan(plan, std::cout);
         if (*layout_cmd) return run_layout(layout, std::cout);
+        if (*report_cmd) return run_report_command(report_opts, std::cout);
     } catch (const sim::scenario_error& e) {
         report_error(e.what());
         return exit_bad_input;
@@ -235,6 +242,9 @@ int run(int argc, char** argv) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const sim::output_error& e) {
+        report_error(e.what());
+        return exit_bad_input;
+    } catch (const sim::report_format_error& e) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const harness::run::sweep_error& e) {

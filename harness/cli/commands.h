@@ -107,6 +107,15 @@ struct plan_options {
 // Throws sim::quantity_error for an unreadable frequency.
 int run_plan(const plan_options& options, std::ostream& out);
 
+struct report_options {
+    std::string dir;
+};
+
+// `tickbench report`: renders DIR/report.html again from DIR/report.json, byte for byte the page
+// the run wrote. Throws sim::report_format_error for a missing or unreadable report.json,
+// sim::output_error when report.html cannot be written.
+int run_report_command(const report_options& options, std::ostream& out);
+
 // The whole command line: parses argv, runs the command, reports errors on stderr prefixed
 // "tickbench: error: " and returns the exit code.
 int run(int argc, char** argv);

@@ -15,7 +15,10 @@
 #include "sim/clock_plan.h"
 #include "sim/report/checks_jsonl.h"
 #include "sim/report/junit_xml.h"
+#include "sim/report/report_html.h"
+#include "sim/report/report_model.h"
 #include "sim/report/summary_text.h"
+#include "sim/report/wave_recorder.h"
 #include "sim/vcd_writer.h"
 
 #include <spdlog/spdlog.h>
@@ -33,8 +36,8 @@ namespace {
 
 namespace fs = std::filesystem;
 
-const char* const output_names[] = {"waves.vcd",   "checks.jsonl", "junit.xml",
-                                    "summary.txt", "firmware.log", "failure.txt"};
+const char* const output_names[] = {"waves.vcd",    "checks.jsonl", "junit.xml",   "summary.txt",
+                                    "firmware.log", "failure.txt",  "report.json", "report.html"};
 
 // One result per distinct firmware check (name, file and line), in order of first evaluation: how
 // often it was evaluated and its first failure.
@@ -74,6 +77,9 @@ struct run_state {
     std::unique_ptr<firmware_library> firmware;
     std::unique_ptr<sim::check_engine> engine;
     std::unique_ptr<sim::vcd_writer> vcd;
+    // The failure report's waveform memory (only when outputs are written).
+    std::unique_ptr<sim::wave_recorder> recorder;
+    const sim::clock_tree* clocks = nullptr;
     std::unique_ptr<firmware_log> log;
     signal_fanout fanout;
     std::vector<std::unique_ptr<models::timer_probe>> probes;
@@ -120,6 +126,8 @@ struct run_state {
                 f.close();
                 if (!f) throw sim::output_error("cannot write " + path("failure.txt"));
             }
+            // Last: the report draws on everything above, and its loss costs none of it.
+            write_report(results, end);
         }
         if (on_results) on_results(results, failure ? &*failure : nullptr);
         *out << sim::summary_text(results, notes);
@@ -136,6 +144,22 @@ struct run_state {
         out->flush();
         if (log_error) throw *log_error;
         return results;
+    }
+
+    // report.json and report.html: the results with the recorder's windows and the clock plan.
+    void write_report(const std::vector<sim::check_result>& results, sim::time_ps end) {
+        sim::report_model m;
+        m.scenario = s.name;
+        m.end = end;
+        if (clocks) m.clocks = sim::report_clocks(clocks->plan(0));
+        for (std::size_t i = 0; i < results.size(); ++i) {
+            const bool from_engine = i < engine->check_count();
+            m.checks.push_back(sim::make_report_check(
+                from_engine && i < s.checks.size() ? &s.checks[i] : nullptr, results[i],
+                from_engine && recorder ? recorder->traces(i) : std::vector<sim::wave_trace>{}));
+        }
+        sim::write_report_json(path("report.json"), m);
+        sim::write_report_html(path("report.html"), m);
     }
 
     // Flushes and closes what was opened when bad input stops the run before it starts.
@@ -187,6 +211,15 @@ void start_run(platform& part, run_state& state, const std::string& path,
         state.vcd = std::make_unique<sim::vcd_writer>(state.path("waves.vcd"), vo);
         state.fanout.add(*state.vcd, s.waves.signals, false);
     }
+    if (state.write_outputs) {
+        // After the engine in the fan-out: a failure the engine finds in a change is frozen
+        // before the recorder sees that change, which then counts among the edges after it.
+        state.recorder = std::make_unique<sim::wave_recorder>();
+        state.fanout.add(*state.recorder, {}, true);
+        state.engine->set_failure_listener(
+            [&state](std::size_t check, sim::time_ps) { state.recorder->failure_detected(check); });
+    }
+    state.clocks = &part.clocks();
     sim::signal_id id = 0;
     for (timer_spec spec : s.timers) {
         state.probes.push_back(std::make_unique<models::timer_probe>(
@@ -220,6 +253,12 @@ void start_run(platform& part, run_state& state, const std::string& path,
             path, 0, 0, "", std::string("cannot build the part: ") + e.what()});
     }
     state.fanout.begin();
+    if (state.recorder) {
+        std::vector<std::vector<sim::signal_id>> watched;
+        for (std::size_t c = 0; c < state.engine->check_count(); ++c)
+            watched.push_back(state.engine->check_signals(c));
+        state.recorder->watch(watched);
+    }
     part.on_failure([&state](const failure_report& r) { state.failure = r; });
     part.on_close([&state] {
         if (state.finished) return;

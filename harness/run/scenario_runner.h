@@ -3,7 +3,8 @@
 // go through probes to a fan-out feeding the waveform writer and the check engine, the firmware
 // library is loaded and run, and the outputs are written into one folder (docs/cli.md, "run"):
 // waves.vcd (streamed), checks.jsonl, junit.xml, summary.txt, firmware.log (the firmware's log
-// lines, streamed) and, when firmware fails, failure.txt.
+// lines, streamed), when firmware fails failure.txt, and the failure report (report.json and
+// report.html, drawn from what a sim::wave_recorder in the fan-out kept).
 //
 // A firmware failure ends the process with exit code 3 (harness::platform::fail); before it does,
 // the outputs written so far are finished with the verdicts as they stand, so a crash still leaves

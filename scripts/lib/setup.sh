@@ -24,6 +24,10 @@ tickbench_packages=(
     # outside tools the waveform tests check our VCD files with (tests/waves/)
     gtkwave
     sigrok-cli
+    # headless browser the failure report test renders report.html with, and the interpreter of
+    # that test's script (tests/report/)
+    chromium
+    python3
 )
 
 tickbench_root="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"

@@ -147,6 +147,21 @@ void check_engine::end(time_ps at) {
     }
 }
 
+void check_engine::set_failure_listener(
+    std::function<void(std::size_t check, time_ps at)> listener) {
+    for (std::size_t c = 0; c < checks_.size(); ++c) {
+        if (!listener) {
+            checks_[c]->on_first_failure(nullptr);
+            continue;
+        }
+        checks_[c]->on_first_failure([listener, c](time_ps at) { listener(c, at); });
+    }
+}
+
+const std::vector<signal_id>& check_engine::check_signals(std::size_t check) const {
+    return checks_.at(check)->ids();
+}
+
 bool check_engine::all_passed() const {
     if (!ended_) return false;
     for (const check_result& r : results_)

@@ -13,6 +13,7 @@
 #include "sim/signal_sink.h"
 
 #include <cstdint>
+#include <functional>
 #include <memory>
 #include <string>
 #include <vector>
@@ -42,6 +43,15 @@ public:
     void change(signal_id id, bool level, time_ps at) override;
     // Decides every verdict; results() is ready afterwards. Later calls do nothing.
     void end(time_ps at) override;
+
+    // `listener(check, at)` is called once per check, in spec order of index, when that check
+    // first fails (at the change, instant or end that reveals it; `at` is the failure's time).
+    // The report keeps the waveform around each first failure through it.
+    void set_failure_listener(std::function<void(std::size_t check, time_ps at)> listener);
+    // Number of checks.
+    std::size_t check_count() const { return checks_.size(); }
+    // The signal ids check `check` watches, slot by slot (after begin()).
+    const std::vector<signal_id>& check_signals(std::size_t check) const;
 
     // One result per check, in spec order (empty before end()).
     const std::vector<check_result>& results() const { return results_; }

@@ -45,6 +45,9 @@ struct check_result {
     bool passed = false;
     // Simulated time of the first failure, or of the end of the run when the check passed.
     time_ps at = 0;
+    // Start of the first failing measurement when it spans time (the period, pulse, gap or delay
+    // that ended at `at`); empty for a failure at one instant or a passed check.
+    std::optional<time_ps> fail_from;
     // One sentence: the first failure and how many failed, or what passed, or why nothing could
     // be measured.
     std::string detail;

@@ -11,6 +11,9 @@ target_sources(tickbench_sim PRIVATE
   ${CMAKE_CURRENT_LIST_DIR}/../report/junit_xml.cpp
   ${CMAKE_CURRENT_LIST_DIR}/../report/summary_text.cpp
   ${CMAKE_CURRENT_LIST_DIR}/../report/detail/output_file.cpp
+  ${CMAKE_CURRENT_LIST_DIR}/../report/wave_recorder.cpp
+  ${CMAKE_CURRENT_LIST_DIR}/../report/report_model.cpp
+  ${CMAKE_CURRENT_LIST_DIR}/../report/report_html.cpp
 )
 target_sources(tickbench_scenario PRIVATE
   ${CMAKE_CURRENT_LIST_DIR}/check_spec_text.cpp

@@ -78,7 +78,7 @@ if(NOT command STREQUAL "run" OR EXPECT_CODE EQUAL 2 OR "--help" IN_LIST args)
 endif()
 
 # Every output is there.
-set(outputs waves.vcd checks.jsonl junit.xml summary.txt firmware.log)
+set(outputs waves.vcd checks.jsonl junit.xml summary.txt firmware.log report.json report.html)
 if(EXPECT_CODE EQUAL 3 OR EXPECT_CODE EQUAL 5)
   list(APPEND outputs failure.txt)
   file(READ "${OUT}/failure.txt" failure)

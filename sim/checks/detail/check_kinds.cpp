@@ -74,7 +74,7 @@ private:
                 : (judge(open, 1, 1) == verdict::above ? verdict::above : verdict::ok);
         if (v == verdict::ok) return;
         open_failed_ = true;
-        fail(stop, [&] {
+        fail_span(ref_at_, stop, [&] {
             return std::string("no ") + to_string(spec_.edge) + " edge of " + names_[0] +
                    " since " + format_time(ref_at_) + ": the period still open at " +
                    format_time(stop) + " is already " + format_time(open) + ", so its " +
@@ -89,7 +89,7 @@ private:
                 add_stat(period);
                 const verdict v = judge(period, 1, 1);
                 if (v != verdict::ok)
-                    fail(at, [&] {
+                    fail_span(at - period, at, [&] {
                         return "period " + format_time(period) + " " + failure_phrase(v) + " at " +
                                format_time(at);
                     });
@@ -103,7 +103,7 @@ private:
                 add_stat(period);
                 const verdict v = judge_frequency(period);
                 if (v != verdict::ok) {
-                    fail(at, [&] {
+                    fail_span(at - period, at, [&] {
                         return "frequency " + frequency(ps_per_second, period).decimal_string() +
                                " Hz (period " + format_time(period) + ") " + failure_phrase(v) +
                                " at " + format_time(at);
@@ -120,7 +120,7 @@ private:
                 add_stat(shown);
                 const verdict v = judge(high, period, ppb_per_whole);
                 if (v != verdict::ok) {
-                    fail(at, [&] {
+                    fail_span(at - period, at, [&] {
                         return "duty cycle " + value_text(shown) + " (high " + format_time(high) +
                                " of " + format_time(period) + ") " + failure_phrase(v) + " at " +
                                format_time(at);
@@ -165,7 +165,7 @@ public:
         add_stat(width);
         const verdict v = judge(width, 1, 1);
         if (v != verdict::ok) {
-            fail(at, [&] {
+            fail_span(open_at_, at, [&] {
                 return level_word() + " pulse " + format_time(width) + " " + failure_phrase(v) +
                        " at " + format_time(at);
             });
@@ -190,7 +190,7 @@ private:
         const time_ps width = stop - open_at_;
         if (judge(width, 1, 1) != verdict::above) return;
         open_failed_ = true;
-        fail(stop, [&] {
+        fail_span(open_at_, stop, [&] {
             return level_word() + " pulse from " + format_time(open_at_) + " still open after " +
                    format_time(width) + ", " + failure_phrase(verdict::above);
         });
@@ -302,7 +302,7 @@ public:
             add_stat(delay);
             const verdict v = judge(delay, 1, 1);
             if (v != verdict::ok)
-                fail(at, [&] {
+                fail_span(a_last_, at, [&] {
                     return "phase " + format_time(delay) + " " + failure_phrase(v) + " at " +
                            format_time(at);
                 });
@@ -314,7 +314,7 @@ public:
         add_stat(shown);
         const verdict v = judge(delay, period, micro_degrees_per_turn);
         if (v != verdict::ok) {
-            fail(at, [&] {
+            fail_span(a_last_, at, [&] {
                 return "phase " + value_text(shown) + " (" + format_time(delay) + " of " +
                        format_time(period) + ") " + failure_phrase(v) + " at " + format_time(at);
             });
@@ -367,7 +367,7 @@ public:
         if (pending_) {
             const time_ps stop = std::min(end, until_);
             if (judge(stop - since_, 1, 1) == verdict::above) {
-                fail(stop, [&] {
+                fail_span(since_, stop, [&] {
                     return "no response on " + names_[1] + " to the event at " +
                            format_time(since_) + " after " + format_time(stop - since_) + ", " +
                            failure_phrase(verdict::above);
@@ -386,7 +386,7 @@ private:
         add_stat(latency);
         const verdict v = judge(latency, 1, 1);
         if (v != verdict::ok) {
-            fail(at, [&] {
+            fail_span(since_, at, [&] {
                 return "latency " + format_time(latency) + " from the event at " +
                        format_time(since_) + " " + failure_phrase(v) + " at " + format_time(at);
             });
@@ -472,7 +472,7 @@ private:
         add_stat(gap);
         const verdict v = judge(gap, 1, 1);
         if (v != verdict::ok) {
-            fail(at, [&] {
+            fail_span(at - gap, at, [&] {
                 return "gap " + format_time(gap) + " from " + names_[from] + " falling to " +
                        names_[1 - from] + " rising " + failure_phrase(v) + " at " + format_time(at);
             });

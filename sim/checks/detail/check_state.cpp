@@ -289,6 +289,7 @@ check_result check_state::result() const {
     }
     r.passed = !failed_;
     r.at = failed_ ? fail_at_ : end_;
+    if (failed_ && fail_spans_) r.fail_from = fail_from_;
     r.detail = detail_;
     return r;
 }

@@ -23,6 +23,7 @@
 #include "sim/wide_int.h"
 
 #include <cstdint>
+#include <functional>
 #include <memory>
 #include <string>
 #include <vector>
@@ -50,6 +51,9 @@ public:
     const check_spec& spec() const { return spec_; }
     // The signal names this check watches, slot by slot.
     const std::vector<std::string>& signal_names() const { return names_; }
+    // Called once, when the check first fails, with the failure's time (which may lie before the
+    // instant of the change that revealed it).
+    void on_first_failure(std::function<void(time_ps)> hook) { first_failure_ = std::move(hook); }
     // Signal id of each slot (set by the engine before start()).
     void bind(std::vector<signal_id> ids) { ids_ = std::move(ids); }
     const std::vector<signal_id>& ids() const { return ids_; }
@@ -80,11 +84,21 @@ protected:
     // called only when its sentence is kept, so repeated failures allocate nothing.
     template <class sentence_fn>
     void fail(time_ps at, sentence_fn make_sentence) {
+        fail_span(at, at, make_sentence, false);
+    }
+    // fail() for a measurement that spans [from, at] (a period, a pulse, a gap, a delay): the
+    // report draws that span.
+    template <class sentence_fn>
+    void fail_span(time_ps from, time_ps at, sentence_fn make_sentence, bool spans = true) {
         ++failures_;
         if (failed_ && at >= fail_at_) return;
+        const bool first = !failed_;
         failed_ = true;
         fail_at_ = at;
+        fail_from_ = from;
+        fail_spans_ = spans;
         fail_sentence_ = make_sentence();
+        if (first && first_failure_) first_failure_(at);
     }
     // "exceeds 40 us +/- 100 ppm" / "is below the minimum 2 us".
     std::string failure_phrase(verdict v) const;
@@ -120,7 +134,10 @@ protected:
     bool open_failed_ = false;  // a measurement still open when the window closed failed
     bool failed_ = false;
     time_ps fail_at_ = 0;
+    time_ps fail_from_ = 0;
+    bool fail_spans_ = false;
     std::string fail_sentence_;
+    std::function<void(time_ps)> first_failure_;
 
     bool finished_ = false;
     time_ps end_ = 0;
