@@ -1,8 +1,10 @@
 # Runs a scenario and compares every check's verdict in checks.jsonl with the expectation file
 # (lines "verdict<TAB>check name"; `#` starts a comment). Fails on any difference, on a missing or
 # extra check, or when the exit code disagrees with the verdicts (0 all pass, 1 some fail).
+# Optional ARGS: more options for `tickbench run`, separated by "|" ("--param|rearm_after_us=500").
+string(REPLACE "|" ";" extra_args "${ARGS}")
 execute_process(
-  COMMAND ${TICKBENCH} run ${SCENARIO} --firmware ${FIRMWARE} --out ${OUT}
+  COMMAND ${TICKBENCH} run ${SCENARIO} --firmware ${FIRMWARE} --out ${OUT} ${extra_args}
   RESULT_VARIABLE code OUTPUT_VARIABLE out ERROR_VARIABLE err)
 message("${out}")
 if(NOT code EQUAL 0 AND NOT code EQUAL 1)

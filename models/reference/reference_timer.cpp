@@ -827,12 +827,16 @@ void reference_timer::set_input(unsigned input, bool level, time_ps t) {
 }
 
 void reference_timer::set_initial_input(unsigned input, bool level) {
-    check_pin_input(input, "set_initial_input");
+    if (input != fault_input) check_pin_input(input, "set_initial_input");
     if (started_)
         throw std::logic_error("reference_timer: set_initial_input of input " +
                                std::to_string(input) +
                                " after the first timer clock tick; it gives the level held since "
                                "before time 0, so call it before anything else");
+    if (input == fault_input) {
+        fault_input_ = level;  // held since before time 0: no rise, so no fault
+        return;
+    }
     input_state& in = inputs_[input];
     in.level = in.filtered = level;
     in.stages.fill(level);

@@ -472,9 +472,13 @@ void timer_core::set_input(unsigned i, bool level, time_ps t) {
 }
 
 void timer_core::set_initial_input(unsigned i, bool level) {
-    check_input(i);
+    if (i != fault_input) check_input(i);
     if (next_tick_ != 0 || ticks_processed_ != 0)
         throw std::logic_error(name_ + ": set_initial_input after the run began");
+    if (i == fault_input) {
+        fault_input_ = level;  // held since before time 0: no rise, so no fault
+        return;
+    }
     inputs_[i].raw = inputs_[i].out = level;
     inputs_[i].changes.clear();
 }

@@ -148,7 +148,11 @@ void timer_inputs::deliver(unsigned input, bool level, time_ps at) {
     const std::uint32_t bit = 1u << input;
     if (((levels_ & bit) != 0) == level) return;  // firmware setting the level it has
     levels_ ^= bit;
-    timer_.set_input(input, level, at);
+    // The timer takes the fault input through its own call: it is no sampled pin input.
+    if (input == fault_input)
+        timer_.set_fault_input(level, at);
+    else
+        timer_.set_input(input, level, at);
     for (input_observer* o : observers_) o->on_input(input, level, at);
 }
 

@@ -203,8 +203,9 @@ public:
     virtual void set_fault_input(bool level, time_ps t) = 0;
     // Input `input` (input_of_channel(c) or trigger_pin_input) changed to `level` at time t.
     virtual void set_input(unsigned input, bool level, time_ps t) = 0;
-    // The level input `input` has held since before time 0 (its reset level; call before any
-    // other call).
+    // The level input `input` (input_of_channel(c), trigger_pin_input or fault_input) has held
+    // since before time 0 (its reset level; call before any other call). A fault input high since
+    // then is a level, not a rise: it starts no fault.
     virtual void set_initial_input(unsigned input, bool level) = 0;
     // A trigger pulse from another timer reached the chained input at time t.
     virtual void chained_pulse(time_ps t) = 0;

@@ -354,6 +354,20 @@ TEST(reference_timer_test, fault_forces_safe_levels_after_latency_until_rearm) {
     EXPECT_EQ(fx.read(32, timer_field::flags) & flag_fault, flag_fault);
 }
 
+TEST(reference_timer_test, a_fault_input_high_since_before_time_0_starts_no_fault) {
+    reference_fixture fx(complementary_config());
+    fx.timer.set_initial_input(models::fault_input, true);
+    fx.write(0, timer_field::fault_enable, 1);
+    start_complementary(fx, 0, 5);
+    fx.run_to(20);
+    EXPECT_TRUE(fx.log.flag_sets(flag_fault).empty());
+    // Only a rise starts a fault: low between ticks 20 and 21, high again between 21 and 22.
+    fx.timer.set_fault_input(false, fx.at(20) + 1000);
+    fx.timer.set_fault_input(true, fx.at(21) + 1000);
+    fx.run_to(23);
+    EXPECT_EQ(ticks_of(fx, fx.log.flag_sets(flag_fault)), (std::vector<std::uint64_t>{22}));
+}
+
 TEST(reference_timer_test, fault_without_latency_acts_at_the_next_tick) {
     reference_fixture fx(complementary_config());
     fx.write(0, timer_field::fault_enable, 1);

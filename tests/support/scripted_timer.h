@@ -45,7 +45,8 @@ public:
     }
     void clear_flags(std::uint32_t, models::time_ps t) override { play(t); }
     void set_fault_input(bool level, models::time_ps t) override {
-        set_input(models::fault_input, level, t);
+        play(t);
+        calls.push_back(std::string("fault=") + (level ? "1" : "0") + " @" + std::to_string(t));
     }
     void set_input(unsigned input, bool level, models::time_ps t) override {
         play(t);

@@ -57,6 +57,26 @@ TEST(timer_core_test, edge_aligned_pwm_frequency_and_duty) {
     EXPECT_LT(b.timer.ticks_processed(), 4 * rises.size());
 }
 
+TEST(timer_core_test, a_fault_input_high_since_before_time_0_starts_no_fault) {
+    models::timer_config cfg;
+    cfg.complementary = true;
+    bench b(cfg);
+    b.timer.set_initial_input(models::fault_input, true);
+    b.set(timer_field::fault_enable, 1);
+    b.set(timer_field::period, 99);
+    b.set(timer_field::enable, 1);
+    b.timer.advance_to(ms);
+    EXPECT_TRUE(b.log.flag_sets(models::flag_fault).empty());
+    // Only a rise starts a fault, at the first tick after it (no latency).
+    b.timer.set_fault_input(false, ms + 1000);
+    b.timer.set_fault_input(true, ms + 2000);
+    b.timer.advance_to(2 * ms);
+    const auto faults = b.log.flag_sets(models::flag_fault);
+    ASSERT_EQ(faults.size(), 1u);
+    EXPECT_GT(faults[0], ms + 2000);
+    EXPECT_LE(faults[0], ms + 2000 + 20834);  // within one 48 MHz tick
+}
+
 TEST(timer_core_test, center_aligned_pwm_frequency_and_duty) {
     // Center-aligned PWM frequency = f_timer / ((prescaler + 1) x 2 x period) and duty =
     // compare / period (common practice, no single source).

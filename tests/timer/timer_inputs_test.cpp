@@ -115,8 +115,23 @@ TEST(timer_inputs_test, an_input_without_a_source_is_set_from_outside_and_a_driv
     EXPECT_THROW(in.drive(models::input_of_channel(0), pulses({})), std::logic_error);
     in.set_input(models::fault_input, true, 20);
     in.set_input(models::fault_input, true, 25);  // no change: not passed on
-    EXPECT_EQ(t.calls, (std::vector<std::string>{"input 0=1 @10", "input 7=1 @20"}));
+    EXPECT_EQ(t.calls, (std::vector<std::string>{"input 0=1 @10", "fault=1 @20"}));
     EXPECT_EQ(r.seen, (std::vector<std::string>{"0=1 @10", "7=1 @20"}));
+}
+
+// The timer core refuses the fault input on its pin-input call, so a source on the fault input
+// (a stimulus in a scenario) must reach it through the fault call; its initial level is a level.
+TEST(timer_inputs_test, a_source_on_the_fault_input_reaches_the_timer_through_the_fault_call) {
+    scripted_timer t;
+    timer_inputs in(t);
+    recorder r;
+    in.add_observer(&r);
+    in.drive(models::fault_input, pulses({{50, false}, {80, true}}, true));
+    in.advance_to(100);
+    const std::vector<std::string> want = {"initial 7=1", "fault=0 @50", "fault=1 @80",
+                                           "advance 100"};
+    EXPECT_EQ(t.calls, want);
+    EXPECT_EQ(r.seen, (std::vector<std::string>{"7=0 @50", "7=1 @80"}));
 }
 
 }  // namespace
