@@ -1,8 +1,13 @@
 # Runs a scenario and compares every check's verdict in checks.jsonl with the expectation file
 # (lines "verdict<TAB>check name"; `#` starts a comment). Fails on any difference, on a missing or
 # extra check, or when the exit code disagrees with the verdicts (0 all pass, 1 some fail).
+# PARAM, when given, is one firmware parameter NAME=VALUE for the run (`--param`).
+set(param_args "")
+if(DEFINED PARAM)
+  set(param_args --param ${PARAM})
+endif()
 execute_process(
-  COMMAND ${TICKBENCH} run ${SCENARIO} --firmware ${FIRMWARE} --out ${OUT}
+  COMMAND ${TICKBENCH} run ${SCENARIO} --firmware ${FIRMWARE} --out ${OUT} ${param_args}
   RESULT_VARIABLE code OUTPUT_VARIABLE out ERROR_VARIABLE err)
 message("${out}")
 if(NOT code EQUAL 0 AND NOT code EQUAL 1)
