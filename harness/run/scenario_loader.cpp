@@ -905,7 +905,9 @@ std::vector<models::shown_input> scenario::shown_inputs(const std::string& timer
     std::vector<models::shown_input> v;
     for (const input_wiring& w : inputs) {
         if (w.timer != timer || w.kind == input_wiring::source_kind::chain) continue;
+        // A fan's tachometer starts low (sim/stimulus/fan_tach.h).
         const bool initial = w.kind == input_wiring::source_kind::stimulus &&
+                             !sim::stimulus::is_fan(w.stimulus) &&
                              sim::stimulus::make_source(w.stimulus)->initial_level();
         v.push_back({w.input, input_name(w.input), initial});
     }
