@@ -23,7 +23,8 @@ fan_tach::fan_tach(const fan_settings& s) : s_(s) {
     const auto problems = fan_problems(s);
     if (!problems.empty()) throw std::invalid_argument("fan: " + problems.front());
     if (s.time_constant > 0)
-        lag_ = -std::expm1(-static_cast<double>(s.averaging) / static_cast<double>(s.time_constant));
+        lag_ =
+            -std::expm1(-static_cast<double>(s.averaging) / static_cast<double>(s.time_constant));
     speeds_.push_back(0.0);  // window 0
 }
 

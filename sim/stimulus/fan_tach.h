@@ -33,10 +33,10 @@
 namespace sim::stimulus {
 
 struct fan_settings {
-    std::uint32_t max_rpm = 0;                 // speed at 100 % drive, above 0
-    time_ps time_constant = 0;                 // the lag's time constant; 0 follows at once
-    std::uint32_t pulses_per_revolution = 2;   // tachometer periods per revolution, 1 to 1000
-    time_ps averaging = 1'000'000'000;         // the window W, above 0
+    std::uint32_t max_rpm = 0;                // speed at 100 % drive, above 0
+    time_ps time_constant = 0;                // the lag's time constant; 0 follows at once
+    std::uint32_t pulses_per_revolution = 2;  // tachometer periods per revolution, 1 to 1000
+    time_ps averaging = 1'000'000'000;        // the window W, above 0
 };
 
 // What is wrong with `s`, one sentence each; empty when fine.
@@ -74,9 +74,9 @@ private:
     double lag_ = 1.0;  // the part of the way to the target covered per window
     // The pin's levels, folded into windows as they come.
     bool level_ = false;
-    time_ps last_ = 0;          // high time is accounted up to here
-    std::uint64_t open_ = 0;    // the window being filled
-    time_ps high_ = 0;          // its high time so far
+    time_ps last_ = 0;        // high time is accounted up to here
+    std::uint64_t open_ = 0;  // the window being filled
+    time_ps high_ = 0;        // its high time so far
     // Speeds of windows first_ to open_ (the cursor's window and every determined one after it).
     std::deque<double> speeds_;
     std::uint64_t first_ = 0;

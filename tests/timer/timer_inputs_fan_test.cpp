@@ -14,7 +14,9 @@ constexpr models::time_ps ms = 1'000'000'000;
 
 struct level_log : models::input_observer {
     std::vector<std::pair<bool, models::time_ps>> seen;
-    void on_input(unsigned, bool level, models::time_ps at) override { seen.push_back({level, at}); }
+    void on_input(unsigned, bool level, models::time_ps at) override {
+        seen.push_back({level, at});
+    }
 };
 
 std::unique_ptr<sim::stimulus::fan_tach> fan_of(std::uint32_t max_rpm) {
