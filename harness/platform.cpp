@@ -375,7 +375,15 @@ void platform::wire_inputs() {
         models::timer_inputs& in = slot(w.timer).module->inputs();
         switch (w.kind) {
             case input_wiring::source_kind::stimulus:
-                in.drive(w.input, sim::stimulus::make_source(w.stimulus));
+                if (const auto* fan =
+                        std::get_if<sim::stimulus::fan_spec>(&w.stimulus.spec->settings)) {
+                    models::timer_module& p = *slot(fan->timer).module;
+                    p.add_observer(
+                        &in.follow_fan(w.input, p, fan->pin,
+                                       std::make_unique<sim::stimulus::fan_tach>(fan->settings)));
+                } else {
+                    in.drive(w.input, sim::stimulus::make_source(w.stimulus));
+                }
                 break;
             case input_wiring::source_kind::loopback: {
                 models::timer_module& p = *slot(w.producer).module;

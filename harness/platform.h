@@ -74,7 +74,7 @@ struct input_wiring {
     unsigned input = 0;  // input_of_channel(c), trigger_pin_input or fault_input (not for chain)
     source_kind kind = source_kind::stimulus;
     sim::stimulus::source_ref stimulus;  // stimulus
-    std::string producer;                // loopback, chain: the timer that produces
+    std::string producer;                // loopback, chain, fan stimulus: the timer that produces
     unsigned pin = 0;                    // loopback: the producer's output pin
     std::string label;                   // for messages: "stimulus \"tach\"", "fan.channel2"
 };

@@ -26,7 +26,7 @@ using sim::unknown_name;
 using sim::stimulus::source_spec;
 namespace fs = std::filesystem;
 
-const std::vector<std::string> kinds = {"square", "pulses", "encoder", "glitches"};
+const std::vector<std::string> kinds = {"square", "pulses", "encoder", "glitches", "fan"};
 const char* const level_words = "\"low\" or \"high\"";
 
 std::optional<bool> level(table_reader& r, const std::string& key) {
@@ -51,6 +51,11 @@ struct reading {
         std::string base;      // what it names ("tach", "shaft.a")
     };
     std::vector<pending_base> bases;
+    struct pending_pin {
+        std::string fan;  // the fan source
+        std::string pin;  // the output pin its duty comes from ("fans.channel1")
+    };
+    std::vector<pending_pin> fan_pins;
     std::set<std::string> incomplete;  // sources whose table has findings of its own
 };
 
@@ -262,9 +267,64 @@ void read_glitches(reading& c, table_reader& r, source_spec& spec, std::uint64_t
     spec.settings = g;
 }
 
+void read_fan(reading& c, table_reader& r, source_spec& spec) {
+    r.reject_unknown_keys(
+        {"kind", "duty-from", "max-speed", "time-constant", "pulses-per-revolution", "averaging"},
+        "a fan");
+    sim::stimulus::fan_spec f;
+    if (auto pin = r.string("duty-from", true,
+                            "the timer output pin that drives the fan, \"TIMER.channelN\""))
+        c.fan_pins.push_back({spec.name, *pin});
+    if (auto v = r.integer("max-speed", 1, 1'000'000, true,
+                           "a whole number of rpm at 100 % duty, from 1 to 1000000"))
+        f.settings.max_rpm = static_cast<std::uint32_t>(*v);
+    if (auto t = r.time("time-constant", true)) f.settings.time_constant = *t;
+    if (auto v = r.integer("pulses-per-revolution", 1, 1000))
+        f.settings.pulses_per_revolution = static_cast<std::uint32_t>(*v);
+    if (auto t = r.positive_time("averaging")) f.settings.averaging = *t;
+    spec.settings = f;
+}
+
+// Ties each fan to the output pin that drives it.
+void tie_fans(reading& c, const std::vector<timer_spec>& timers,
+              const std::set<std::string>& broken_timers) {
+    for (const reading::pending_pin& fp : c.fan_pins) {
+        auto& f = std::get<sim::stimulus::fan_spec>(c.sources.at(fp.fan)->settings);
+        table_reader r(c.out, *c.tables.at(fp.fan), "stimulus." + fp.fan);
+        const auto dot = fp.pin.find('.');
+        const std::string timer = fp.pin.substr(0, dot);
+        if (broken_timers.count(timer)) continue;
+        const auto p = std::find_if(timers.begin(), timers.end(),
+                                    [&](const timer_spec& x) { return x.name == timer; });
+        std::vector<std::string> pins;
+        for (const timer_spec& t : timers)
+            for (unsigned ch = 1; ch <= t.layout.instance.channels; ++ch) {
+                pins.push_back(t.name + ".channel" + std::to_string(ch));
+                if (t.layout.instance.complementary)
+                    pins.push_back(t.name + ".channel" + std::to_string(ch) + "_complement");
+            }
+        const auto pin = std::find(pins.begin(), pins.end(), fp.pin);
+        if (p == timers.end() || pin == pins.end()) {
+            r.report("duty-from",
+                     unknown_name("output pin", fp.pin, pins, "none (the scenario has no timers)"));
+            c.incomplete.insert(fp.fan);
+            continue;
+        }
+        const std::string suffix = fp.pin.substr(dot + std::string(".channel").size());
+        const unsigned ch = static_cast<unsigned>(std::stoul(suffix)) - 1;
+        f.timer = timer;
+        f.pin = suffix.find("_complement") != std::string::npos ? models::comp_pin(ch)
+                                                                : models::main_pin(ch);
+    }
+}
+
 // The settings' own rules, met only once the exact period is known: a trial source says.
 void try_build(table_reader& r, const std::shared_ptr<source_spec>& spec) {
     if (std::holds_alternative<sim::stimulus::glitch_spec>(spec->settings)) return;
+    if (const auto* f = std::get_if<sim::stimulus::fan_spec>(&spec->settings)) {
+        for (const std::string& p : sim::stimulus::fan_problems(f->settings)) r.report("", p);
+        return;
+    }
     try {
         sim::stimulus::make_source({spec, sim::stimulus::encoder_output::a});
     } catch (const std::exception& e) {
@@ -313,6 +373,8 @@ void read_sources(reading& c, const toml::table& root, const std::set<std::strin
             read_pulses(c, r, *spec);
         else if (*kind == "encoder")
             read_encoder(c, r, *spec);
+        else if (*kind == "fan")
+            read_fan(c, r, *spec);
         else
             read_glitches(c, r, *spec, c.seed);
         c.sources[entry.name] = spec;
@@ -400,6 +462,12 @@ void tie_glitches(reading& c) {
                     if (auto oref = resolve(c, o.base, ignored)) at = oref->spec.get();
                 }
         }
+        if (sim::stimulus::is_fan(*ref)) {
+            r.report("source", "glitches cannot lie over fan " + in_quotes(b.base) +
+                                   ", whose edges follow a timer pin; accepted: a square, pulse "
+                                   "list or encoder source, or other glitches");
+            continue;
+        }
         if (loop) {
             r.report("source", "glitches over " + in_quotes(b.base) +
                                    " lie over themselves; accepted: a source that is not these "
@@ -423,11 +491,12 @@ std::vector<input_wiring> read_inputs(sim::findings_list& out, const toml::table
                                       const fs::path& dir, const std::vector<timer_spec>& timers,
                                       const std::set<std::string>& broken_timers,
                                       std::uint64_t seed) {
-    reading c{out, dir, seed, {}, {}, {}, {}};
+    reading c{out, dir, seed, {}, {}, {}, {}, {}};
     std::set<std::string> timer_names = broken_timers;
     for (const timer_spec& t : timers) timer_names.insert(t.name);
     read_sources(c, root, timer_names);
     tie_glitches(c);
+    tie_fans(c, timers, broken_timers);
     for (const auto& [name, spec] : c.sources) {
         if (c.incomplete.count(name)) continue;
         table_reader r(out, *c.tables.at(name), "stimulus." + name);
@@ -556,6 +625,12 @@ std::vector<input_wiring> read_inputs(sim::findings_list& out, const toml::table
                 w.kind = input_wiring::source_kind::stimulus;
                 w.stimulus = *ref;
                 w.label = "stimulus " + in_quotes(text);
+                if (const auto* fan = std::get_if<sim::stimulus::fan_spec>(&ref->spec->settings)) {
+                    if (fan->timer.empty()) continue;  // its pin is reported already
+                    w.producer = fan->timer;
+                    w.pin = fan->pin;
+                    w.label = "fan " + in_quotes(text) + " on " + in_quotes(fan->timer);
+                }
             }
         }
         const bool twice = std::any_of(wirings.begin(), wirings.end(), [&](const input_wiring& o) {

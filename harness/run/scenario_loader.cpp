@@ -521,9 +521,12 @@ void read_waves(context& c, const toml::table& root, const std::vector<std::stri
 
 // The coarsest timescale that keeps every edge of the clocks the part uses exact: their periods
 // at the start, and every configured delay, must be whole multiples of it. Anything unknown in
-// advance (jitter, a fractional period) gives 1 ps.
+// advance (jitter, a fractional period, a fan's tachometer) gives 1 ps.
 void choose_timescale(context& c, const toml::table& root) {
     if (c.s.waves.unit_given || !c.clocks_ok) return;
+    for (const input_wiring& w : c.s.inputs)
+        if (w.kind == input_wiring::source_kind::stimulus && sim::stimulus::is_fan(w.stimulus))
+            return;
     std::vector<sim::time_ps> times;
     std::set<std::string> used;
     for (const timer_spec& t : c.s.timers) {
@@ -901,11 +904,24 @@ std::vector<std::string> timer_signal_names(const std::string& timer,
     return v;
 }
 
+namespace {
+// Whether make_source() can run `ref`: not a fan (its tachometer starts low, sim/stimulus/
+// fan_tach.h), and not glitches whose base the file got wrong (reported already, and the scenario
+// is refused once its signals are known).
+bool runnable(const sim::stimulus::source_ref& ref) {
+    if (!ref.spec || sim::stimulus::is_fan(ref)) return false;
+    if (const auto* g = std::get_if<sim::stimulus::glitch_spec>(&ref.spec->settings))
+        return runnable(g->base);
+    return true;
+}
+}  // namespace
+
 std::vector<models::shown_input> scenario::shown_inputs(const std::string& timer) const {
     std::vector<models::shown_input> v;
     for (const input_wiring& w : inputs) {
         if (w.timer != timer || w.kind == input_wiring::source_kind::chain) continue;
         const bool initial = w.kind == input_wiring::source_kind::stimulus &&
+                             runnable(w.stimulus) &&
                              sim::stimulus::make_source(w.stimulus)->initial_level();
         v.push_back({w.input, input_name(w.input), initial});
     }

@@ -13,7 +13,12 @@ struct timer_inputs::tap final : timer_observer {
     unsigned pin = 0;
     bool triggers = false;
     void on_pin(unsigned p, bool level, time_ps at) override {
-        if (!triggers && p == pin) owner->feeds_[feed].queue.push_back({at, level});
+        if (triggers || p != pin) return;
+        feed_state& f = owner->feeds_[feed];
+        if (f.fan)
+            f.fan->drive(level, at);
+        else
+            f.queue.push_back({at, level});
     }
     void on_flags_set(std::uint32_t, time_ps) override {}
     void on_irq(bool, time_ps) override {}
@@ -46,7 +51,7 @@ void timer_inputs::add_producer(timer_core_if& p) {
 void timer_inputs::drive(unsigned input, std::unique_ptr<sim::stimulus::edge_source> source) {
     claim(input);
     if (source->initial_level()) set_initial_input(input, true);
-    feed f;
+    feed_state f;
     f.input = input;
     f.next = source->next_edge(0);
     f.source = std::move(source);
@@ -55,7 +60,7 @@ void timer_inputs::drive(unsigned input, std::unique_ptr<sim::stimulus::edge_sou
 
 timer_observer& timer_inputs::follow_pin(unsigned input, timer_core_if& producer, unsigned pin) {
     claim(input);
-    feed f;
+    feed_state f;
     f.input = input;
     feeds_.push_back(std::move(f));
     auto t = std::make_unique<tap>();
@@ -65,6 +70,22 @@ timer_observer& timer_inputs::follow_pin(unsigned input, timer_core_if& producer
     taps_.push_back(std::move(t));
     add_producer(producer);
     return *taps_.back();
+}
+
+timer_observer& timer_inputs::follow_fan(unsigned input, timer_core_if& producer, unsigned pin,
+                                         std::unique_ptr<sim::stimulus::fan_tach> fan) {
+    timer_observer& o = follow_pin(input, producer, pin);
+    if (fan->initial_level()) set_initial_input(input, true);
+    feeds_.back().fan = std::move(fan);
+    return o;
+}
+
+void timer_inputs::settle_fans(time_ps t) {
+    for (feed_state& f : feeds_) {
+        if (!f.fan) continue;
+        f.fan->known_until(t);
+        if (!f.next) f.next = f.fan->next_edge(f.from);
+    }
 }
 
 timer_observer& timer_inputs::follow_triggers(timer_core_if& producer) {
@@ -91,6 +112,7 @@ void timer_inputs::bring_inputs_to(time_ps t) {
             if (p->next_event(e) && e < h && (first || e > step)) h = e;
         }
         for (timer_core_if* p : producers_) p->advance_to(h);
+        settle_fans(h);
         flush(h);
         if (h >= t) return;
         first = false;
@@ -101,10 +123,10 @@ void timer_inputs::bring_inputs_to(time_ps t) {
 void timer_inputs::flush(time_ps t) {
     if (feeds_.empty() && pulses_.empty()) return;
     for (;;) {
-        feed* best = nullptr;
+        feed_state* best = nullptr;
         time_ps at = t;
-        for (feed& f : feeds_) {
-            const sim::stimulus::edge* head = f.source
+        for (feed_state& f : feeds_) {
+            const sim::stimulus::edge* head = f.source || f.fan
                                                   ? (f.next ? &*f.next : nullptr)
                                                   : (f.queue.empty() ? nullptr : &f.queue.front());
             if (head && head->at <= at && (!best || head->at < at)) {
@@ -123,6 +145,11 @@ void timer_inputs::flush(time_ps t) {
             const sim::stimulus::edge e = *best->next;
             best->next = e.at < sim::max_time_ps ? best->source->next_edge(e.at + 1) : std::nullopt;
             deliver(best->input, e.level, e.at);
+        } else if (best->fan) {
+            const sim::stimulus::edge e = *best->next;
+            best->from = e.at + 1;
+            best->next = best->fan->next_edge(best->from);
+            deliver(best->input, e.level, e.at);
         } else {
             const sim::stimulus::edge e = best->queue.front();
             best->queue.pop_front();
@@ -136,9 +163,10 @@ std::optional<time_ps> timer_inputs::earliest_waiting() const {
     const auto take = [&r](time_ps t) {
         if (!r || t < *r) r = t;
     };
-    for (const feed& f : feeds_) {
+    for (const feed_state& f : feeds_) {
         if (f.source && f.next) take(f.next->at);
-        if (!f.source && !f.queue.empty()) take(f.queue.front().at);
+        if (f.fan) take(f.next ? f.next->at : f.fan->determined_until());
+        if (!f.source && !f.fan && !f.queue.empty()) take(f.queue.front().at);
     }
     if (!pulses_.empty()) take(pulses_.front());
     return r;

@@ -19,6 +19,7 @@
 
 #include "models/timer/timer_types.h"
 #include "sim/stimulus/edge_source.h"
+#include "sim/stimulus/fan_tach.h"
 
 #include <deque>
 #include <memory>
@@ -51,6 +52,12 @@ public:
     // the observer to add to the producer's observers. Throws std::logic_error when the input is
     // driven already.
     timer_observer& follow_pin(unsigned input, timer_core_if& producer, unsigned pin);
+    // Input `input` follows the tachometer of `fan`, which output pin `pin` of `producer` drives:
+    // the fan hears the pin's levels, and its edges reach the input as the pin's levels determine
+    // them. Returns the observer to add to the producer's observers. Throws std::logic_error when
+    // the input is driven already.
+    timer_observer& follow_fan(unsigned input, timer_core_if& producer, unsigned pin,
+                               std::unique_ptr<sim::stimulus::fan_tach> fan);
     // The chained input takes `producer`'s trigger pulses. Returns the observer to add to the
     // producer's observers. Throws std::logic_error when the chained input is fed already.
     timer_observer& follow_triggers(timer_core_if& producer);
@@ -76,24 +83,29 @@ public:
 
 private:
     struct tap;
-    struct feed {
+    struct feed_state {
         unsigned input = 0;
         std::unique_ptr<sim::stimulus::edge_source> source;  // a stimulus, or
+        std::unique_ptr<sim::stimulus::fan_tach> fan;        // a fan on a producer's pin, or
         std::deque<sim::stimulus::edge> queue;               // a loopback's reported edges
-        std::optional<sim::stimulus::edge> next;             // the source's next edge
+        std::optional<sim::stimulus::edge> next;             // the source's or fan's next edge
+        time_ps from = 0;                                    // a fan is asked from here on
     };
     // Delivers every input edge at or before t, bringing producers along.
     void bring_inputs_to(time_ps t);
     // Delivers the waiting edges at or before t, in time order.
     void flush(time_ps t);
-    // The earliest waiting edge (or chained pulse) of all feeds.
+    // Tells every fan that its pin is known up to t, and finds its next edge.
+    void settle_fans(time_ps t);
+    // The earliest waiting edge (or chained pulse) of all feeds; for a fan with no determined
+    // edge, the instant from which its edges are not determined yet.
     std::optional<time_ps> earliest_waiting() const;
     void deliver(unsigned input, bool level, time_ps at);
     void add_producer(timer_core_if& p);
     void claim(unsigned input);
 
     timer_core_if& timer_;
-    std::vector<feed> feeds_;
+    std::vector<feed_state> feeds_;
     std::deque<time_ps> pulses_;  // chained pulses reported by the chain's producer
     bool chained_ = false;
     std::vector<timer_core_if*> producers_;
