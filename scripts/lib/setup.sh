@@ -24,6 +24,9 @@ tickbench_packages=(
     # outside tools the waveform tests check our VCD files with (tests/waves/)
     gtkwave
     sigrok-cli
+    # a one-node batch scheduler for the job-array test of `tickbench sweep` (tests/sweep/)
+    slurm-wlm
+    munge
 )
 
 tickbench_root="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
