@@ -13,6 +13,7 @@
 #include <fstream>
 #include <iterator>
 #include <map>
+#include <sstream>
 #include <tuple>
 
 namespace sim {
@@ -63,9 +64,10 @@ std::string read_text_file(const std::string& path) {
     errno = 0;
     std::ifstream in(path, std::ios::binary);
     if (!in) throw fail(errno ? std::strerror(errno) : "cannot open it");
-    std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    std::ostringstream text;
+    text << in.rdbuf();
     if (in.bad()) throw fail(errno ? std::strerror(errno) : "read error");
-    return text;
+    return text.str();
 }
 
 toml::table read_toml_file(const std::string& path) {
