@@ -11,6 +11,8 @@
 #include "sim/scenario_error.h"
 #include "sim/vcd_writer.h"
 
+#include <systemc>
+
 #include <fcntl.h>
 #include <poll.h>
 #include <signal.h>
@@ -139,6 +141,9 @@ int run_point(const sweep_options& o, const sweep_plan& plan, std::uint64_t poin
         ::dup2(null_fd, STDOUT_FILENO);
         ::dup2(null_fd, STDERR_FILENO);
     }
+    // A firmware failure stops the kernel (platform::set_keep_process): nothing may run after the
+    // outputs were finished, as when a failure ended the process. Set once, before any kernel ran.
+    sc_core::sc_set_stop_mode(sc_core::SC_STOP_IMMEDIATE);
     std::string pending;
     for (;;) {
         std::size_t eol;
@@ -154,6 +159,9 @@ int run_point(const sweep_options& o, const sweep_plan& plan, std::uint64_t poin
         unsigned long long point = 0;
         int keep = 0;
         if (std::sscanf(line.c_str(), "%llu %d", &point, &keep) != 2) _exit(4);
+        // Tells the parent the point started: a point handed to a worker that was already ending
+        // (after a crash's record) goes to another worker instead of being lost.
+        write_all(records, "started\n");
         harness::start_fresh_kernel();
         run_point(o, plan, point, keep != 0, records);
     }
@@ -167,6 +175,7 @@ struct worker {
     std::string data;   // bytes received that do not make a whole line yet
     bool eof = false;
     bool busy = false;
+    bool started = false;  // the worker said it started `point`
     std::uint64_t point = 0;
     bool rerun = false;  // a failing point run again to keep its folder
     std::uint64_t assigned = 0;
@@ -380,6 +389,7 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
             return false;
         }
         w.busy = true;
+        w.started = false;
         w.point = point;
         w.rerun = rerun;
         ++w.assigned;
@@ -445,6 +455,10 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
                 const std::string line = w.data.substr(0, eol);
                 w.data.erase(0, eol + 1);
                 if (!w.busy) continue;
+                if (line == "started") {
+                    w.started = true;
+                    continue;
+                }
                 w.busy = false;
                 point_record r;
                 try {
@@ -467,7 +481,12 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
             ::close(w.records);
             // A point ended by Ctrl-C did not run to its end: it is left out.
             const bool stopped = WIFSIGNALED(status) && WTERMSIG(status) == SIGINT;
-            if (w.busy && !stopped) record_point(w, lost_point(w.point, status));
+            if (w.busy && !w.started && !stopped) {
+                // It ended before it started the point: another worker runs it.
+                returned.emplace_front(w.point, w.rerun);
+            } else if (w.busy && !stopped) {
+                record_point(w, lost_point(w.point, status));
+            }
             workers.erase(workers.begin() + static_cast<std::ptrdiff_t>(i));
         }
         progress.show(finished, failed);

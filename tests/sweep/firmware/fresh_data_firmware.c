@@ -13,8 +13,8 @@ static uint32_t zeroed;
 static uint8_t block[64 * 1024];
 
 void tick_firmware_main(void) {
-    const int fresh = initialised == 0x5eed && zeroed == 0 && block[0] == 0 &&
-                      block[sizeof block - 1] == 0;
+    const int fresh =
+        initialised == 0x5eed && zeroed == 0 && block[0] == 0 && block[sizeof block - 1] == 0;
     initialised = initialised + 1;
     zeroed = zeroed + 1;
     block[0] = 1;
