@@ -4,6 +4,12 @@
 // Firmware is ordinary C or C++ compiled for the host with -fPIC -shared against
 // <tickbench/firmware.h>; its tick_* calls resolve to the running tickbench process at load time.
 // The documented entry is `void tick_firmware_main(void)` (docs/firmware-api.md).
+//
+// The first load of a library in a process keeps a copy of its writable data (initialised data and
+// zeroed data, as the library's constructors left them); restore_data() puts that copy back, so a
+// process that runs the firmware several times (a sweep's points) starts each run from the state
+// a fresh process would have. State the firmware keeps elsewhere (heap blocks, the C library's
+// own state, thread-local data) is not covered.
 
 #include <stdexcept>
 #include <string>
@@ -33,6 +39,8 @@ public:
     // Address of a data or function symbol of the library, or null.
     void* symbol(const std::string& name) const;
     const std::string& path() const { return path_; }
+    // Puts the library's writable data back as it was when the process first loaded it.
+    void restore_data() const;
 
 private:
     std::string path_;

@@ -4,6 +4,7 @@
 #include "harness/trap/trap_engine.h"
 
 #include <spdlog/spdlog.h>
+#include <systemc>
 
 #include <unistd.h>
 #include <algorithm>
@@ -198,6 +199,14 @@ std::string input_name(unsigned input) {
     if (input == models::trigger_pin_input) return "trigger";
     if (input == models::fault_input) return "fault";
     return "input" + std::to_string(input + 1);
+}
+
+void start_fresh_kernel() {
+    // The kernel's current context is a pair of globals; a new context is a kernel that has not
+    // elaborated yet. The old one stays allocated: its modules and stopped threads point into it.
+    auto* fresh = new sc_core::sc_simcontext;
+    sc_core::sc_curr_simcontext = fresh;
+    sc_core::sc_default_global_context = fresh;
 }
 
 platform::platform() = default;
@@ -464,9 +473,16 @@ void platform::run(time_ps duration) {
     }
     const time_ps end = sc_core::sc_time_stamp().value() + duration;
     if (cpu_) cpu_->set_end(end);
+    run_thread_ = std::this_thread::get_id();
     start_watchdog();
     try {
         sc_core::sc_start(sc_core::sc_time::from_value(duration));
+        if (failed_) {
+            // fail() stopped the kernel after finishing the outputs: nothing more to bring along.
+            if (watchdog_) watchdog_.reset();
+            mapped_.reset();
+            return;
+        }
         // Timers nobody watches through the kernel advance on demand: bring every one to the end,
         // in time order across timers so that observers hear changes in order.
         std::vector<models::event_source*> cores;
@@ -477,6 +493,8 @@ void platform::run(time_ps duration) {
         fail(run_outcome::failed, e.what());
     }
     if (watchdog_) watchdog_.reset();
+    // Unmapped so that a later run in this process can map the same windows again.
+    mapped_.reset();
 }
 
 models::timer_module& platform::timer(const std::string& name) {
@@ -521,9 +539,12 @@ std::string platform::describe_address(std::uint64_t address) const {
     return "(unmapped)";
 }
 
+namespace {
+std::atomic<bool> failing{false};
+}  // namespace
+
 void platform::fail(run_outcome outcome, const std::string& message,
                     std::vector<std::string> backtrace) {
-    static std::atomic<bool> failing{false};
     if (failing.exchange(true)) _exit(3);  // a second failure while reporting the first
     failure_report r;
     r.outcome = outcome;
@@ -542,6 +563,21 @@ void platform::fail(run_outcome outcome, const std::string& message,
         } catch (const std::exception& e) {
             std::cerr << "tickbench: while closing outputs: " << e.what() << "\n";
         }
+    }
+    std::cerr.flush();
+    const bool on_firmware_thread =
+        std::this_thread::get_id() == run_thread_ && sc_core::sc_is_running() &&
+        sc_core::sc_get_current_process_handle().valid() &&
+        sc_core::sc_get_current_process_handle().proc_kind() == sc_core::SC_THREAD_PROC_;
+    if (keep_process_ && on_firmware_thread && outcome != run_outcome::crashed &&
+        outcome != run_outcome::aborted) {
+        // The run is over: stop the kernel and leave this thread waiting for good, so that run()
+        // returns on the main stack and the process can run something else.
+        failed_ = true;
+        failing = false;
+        sc_core::sc_stop();
+        sc_core::sc_event never;
+        for (;;) sc_core::wait(never);
     }
     spdlog::shutdown();
     std::cout.flush();

@@ -22,9 +22,15 @@
 #include <memory>
 #include <optional>
 #include <string>
+#include <thread>
 #include <vector>
 
 namespace harness {
+
+// Starts a new simulation kernel in this process: time 0, nothing elaborated, so that another part
+// can be built and run (a sweep runs many points per process this way). Every SystemC object of the
+// kernel before is left behind as it is, never used or freed again; call it between runs only.
+void start_fresh_kernel();
 
 // One timer instance of the part.
 struct timer_spec {
@@ -141,6 +147,13 @@ public:
     // Maps every peripheral window at its real address (no access rights) so unmodified driver code
     // reaches the models through plain pointers (docs/firmware-api.md, "Unmodified drivers").
     void set_map_peripherals(bool on) { map_peripherals_ = on; }
+    // A failure raised on the firmware's thread (a failed firmware check, a hang the cpu counts, a
+    // bus error) ends the run but not the process: the report and the closers run as usual, the
+    // kernel stops, run() returns and failed() is true. Crashes, aborts and the wall-clock hang
+    // watchdog still end the process, since their handlers run outside the firmware's thread.
+    void set_keep_process(bool on) { keep_process_ = on; }
+    // Whether the last run() ended through fail() (only possible with set_keep_process).
+    bool failed() const { return failed_; }
 
     // Starts the clock tree and builds every module (SystemC elaboration). Throws on bad set-up.
     void build();
@@ -194,6 +207,9 @@ private:
     struct mapped;
     std::unique_ptr<mapped> mapped_;
     bool built_ = false;
+    bool keep_process_ = false;
+    bool failed_ = false;
+    std::thread::id run_thread_;
 };
 
 }  // namespace harness

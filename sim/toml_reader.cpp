@@ -12,6 +12,8 @@
 #include <filesystem>
 #include <fstream>
 #include <iterator>
+#include <map>
+#include <sstream>
 #include <tuple>
 
 namespace sim {
@@ -52,7 +54,7 @@ toml::table read_toml_text(std::string_view text, const std::string& file) {
     }
 }
 
-toml::table read_toml_file(const std::string& path) {
+std::string read_text_file(const std::string& path) {
     auto fail = [&path](const std::string& why) {
         return scenario_error(scenario_finding{path, 0, 0, "", "cannot read the file: " + why});
     };
@@ -62,9 +64,22 @@ toml::table read_toml_file(const std::string& path) {
     errno = 0;
     std::ifstream in(path, std::ios::binary);
     if (!in) throw fail(errno ? std::strerror(errno) : "cannot open it");
-    const std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    std::ostringstream text;
+    text << in.rdbuf();
     if (in.bad()) throw fail(errno ? std::strerror(errno) : "read error");
-    return read_toml_text(text, path);
+    return text.str();
+}
+
+toml::table read_toml_file(const std::string& path) {
+    // A sweep reads the same files once per point: the last parse of each file is kept and handed
+    // out again while the file's text is the same, which is what the parse depends on.
+    static std::map<std::string, std::pair<std::string, toml::table>> parsed;
+    std::string text = read_text_file(path);
+    const auto it = parsed.find(path);
+    if (it != parsed.end() && it->second.first == text) return it->second.second;
+    toml::table table = read_toml_text(text, path);
+    parsed[path] = {std::move(text), table};
+    return table;
 }
 
 bool is_plain_name(const std::string& name) {

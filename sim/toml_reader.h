@@ -35,8 +35,11 @@ extern const char* const frequency_words;
 // The rule is_plain_name() applies, for messages.
 extern const char* const plain_name_words;
 
-// Parses the TOML file at `path`; an unreadable file and TOML syntax become scenario_error.
+// Parses the TOML file at `path`; an unreadable file and TOML syntax become scenario_error. The
+// last parse of each path is reused while the file's text is unchanged.
 toml::table read_toml_file(const std::string& path);
+// The whole text of the file at `path`; an unreadable file (or a folder) becomes scenario_error.
+std::string read_text_file(const std::string& path);
 // Parses TOML text; `file` is the name used in messages.
 toml::table read_toml_text(std::string_view text, const std::string& file);
 

@@ -134,6 +134,12 @@ int run(int argc, char** argv) {
         // One value per --vary: the scenario may follow it.
         ->allow_extra_args(false);
     sweep_cmd->add_option("--jobs", sweep_opts.jobs, "Points run at once (default: one per core)");
+    sweep_cmd
+        ->add_option("--points-per-process", sweep_opts.points_per_process,
+                     "Points one process runs before a fresh one takes over (1: a process per "
+                     "point, for firmware whose state outlives its own data)")
+        ->check(CLI::Range(std::uint64_t{1}, std::uint64_t{1} << 32))
+        ->capture_default_str();
     sweep_cmd->add_option("--shard", sweep_opts.shard,
                           "K/N: run only the points whose index modulo N is K-1");
     sweep_cmd

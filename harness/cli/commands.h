@@ -71,6 +71,7 @@ struct sweep_command_options {
     std::string file;
     std::vector<std::string> vary;  // AXIS=VALUES
     unsigned jobs = 0;              // 0: one per core
+    std::uint64_t points_per_process = 256;
     std::optional<std::string> shard;
     std::string waves = "failing";  // failing, none or all
     std::string out_dir = "tickbench-sweep";

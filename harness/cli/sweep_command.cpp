@@ -28,6 +28,7 @@ int run_sweep_command(const sweep_command_options& options, std::ostream& out) {
     for (const std::string& v : options.vary) o.axes.push_back(harness::run::parse_axis(v));
     if (options.shard) o.part = harness::run::parse_shard(*options.shard);
     o.jobs = options.jobs;
+    o.points_per_process = options.points_per_process;
     if (o.jobs == 0) {
         const long cores = ::sysconf(_SC_NPROCESSORS_ONLN);
         o.jobs = cores > 0 ? static_cast<unsigned>(cores) : 1;

@@ -279,11 +279,13 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     // The platform and the run state live until the process ends: a firmware failure exits from
     // inside the kernel, after the closers have used them.
     // Neither is ever destroyed: SystemC modules must not be torn down after the kernel's own
-    // statics, and one process runs one scenario.
+    // statics, nor while their kernel's stopped threads may still refer to them.
     // Held through statics so that they stay reachable: leak checkers see no leak on any path.
-    static platform* const p = new platform();
-    static run_state* const state_ptr = new run_state();
-    run_state& state = *state_ptr;
+    static std::vector<std::pair<platform*, run_state*>>* const kept =
+        new std::vector<std::pair<platform*, run_state*>>();
+    kept->emplace_back(new platform(), new run_state());
+    platform* const p = kept->back().first;
+    run_state& state = *kept->back().second;
     state.out = &out;
     state.out_dir = options.out_dir;
     state.s = load_scenario(path, p->clocks(), options.overrides);
@@ -295,6 +297,8 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
                                   "--duration on the command line"});
     const sim::time_ps duration = *s.run.duration;
     state.firmware = load_firmware(s);
+    // A process that ran the firmware before starts it from its data as first loaded.
+    if (state.firmware) state.firmware->restore_data();
 
     state.write_outputs = options.write_outputs;
     state.on_results = options.on_results;
@@ -317,10 +321,17 @@ run_summary run_scenario(const std::string& path, const run_options& options, st
     spdlog::info("{}: running {} (seed {}), outputs in {}", path, sim::format_time(duration),
                  s.run.seed, state.out_dir);
     stamp_simulated_time(true);
+    p->set_keep_process(options.keep_process);
     p->run(duration);
+    run_summary summary;
+    if (p->failed()) {
+        // The closers finished the outputs when the firmware failed.
+        stamp_simulated_time(false);
+        summary.firmware_failed = true;
+        return summary;
+    }
     const auto results = state.finish(duration);
     stamp_simulated_time(false);
-    run_summary summary;
     summary.checks = results.size();
     for (const auto& r : results) summary.failed += r.passed ? 0 : 1;
     return summary;

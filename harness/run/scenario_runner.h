@@ -32,18 +32,23 @@ struct run_options {
     // Called once with the final results and the failure report, if the firmware failed (then just
     // before the process ends), after the outputs are written.
     std::function<void(const std::vector<sim::check_result>&, const failure_report*)> on_results;
+    // A firmware failure on the firmware's thread ends the run, not the process
+    // (platform::set_keep_process): run_scenario returns with run_summary::firmware_failed set. For
+    // a process that runs one scenario after another, each after harness::start_fresh_kernel().
+    bool keep_process = false;
 };
 
 struct run_summary {
     std::size_t checks = 0;
     std::size_t failed = 0;
-    bool all_passed() const { return failed == 0; }
+    bool firmware_failed = false;  // only with run_options::keep_process
+    bool all_passed() const { return failed == 0 && !firmware_failed; }
 };
 
-// Runs the scenario at `path` (once per process: the kernel elaborates once), writes the outputs
-// and prints the summary on `out`. Throws sim::scenario_error (bad scenario or layout),
-// harness::firmware_load_error, sim::output_error (the output folder or a file cannot be written).
-// Does not return on a firmware failure.
+// Runs the scenario at `path` (once per kernel: call harness::start_fresh_kernel() before running
+// another in the same process), writes the outputs and prints the summary on `out`. Throws
+// sim::scenario_error (bad scenario or layout), harness::firmware_load_error, sim::output_error
+// (the output folder or a file cannot be written). Does not return on a firmware failure.
 run_summary run_scenario(const std::string& path, const run_options& options, std::ostream& out);
 
 // Validates the scenario at `path` without running it: every table, layout and check, the clock

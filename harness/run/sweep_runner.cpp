@@ -11,6 +11,8 @@
 #include "sim/scenario_error.h"
 #include "sim/vcd_writer.h"
 
+#include <systemc>
+
 #include <fcntl.h>
 #include <poll.h>
 #include <signal.h>
@@ -54,18 +56,11 @@ bool write_all(int fd, const std::string& s) {
 
 std::string first_line(const std::string& text) { return text.substr(0, text.find('\n')); }
 
-// The body of a point's process: runs the point and sends its record on `fd`. Never returns.
-[[noreturn]] void run_point(const sweep_options& o, const sweep_plan& plan, std::uint64_t point,
-                            bool keep, int fd) {
-    struct sigaction sa {};
-    sa.sa_handler = SIG_DFL;
-    sigaction(SIGINT, &sa, nullptr);
-    // The parent reports; a point's own messages would only interleave on the terminal.
-    const int null_fd = ::open("/dev/null", O_WRONLY);
-    if (null_fd >= 0) {
-        ::dup2(null_fd, STDOUT_FILENO);
-        ::dup2(null_fd, STDERR_FILENO);
-    }
+// Runs one point in this process and sends its record on `fd`; returns the exit code `tickbench
+// run` gives for it. A firmware failure on the firmware's thread ends the point, not the process;
+// one elsewhere (a crash) sends the record from the closers and ends the process.
+int run_point(const sweep_options& o, const sweep_plan& plan, std::uint64_t point, bool keep,
+              int fd) {
     point_record r;
     r.index = point;
     bool sent = false;
@@ -78,6 +73,7 @@ std::string first_line(const std::string& text) { return text.substr(0, text.fin
     run_options ro;
     ro.out_dir = point_folder(o.out_dir, point);
     ro.write_outputs = keep;
+    ro.keep_process = true;
     ro.overrides = plan.overrides(point, o.base);
     ro.on_results = [&](const std::vector<sim::check_result>& results, const failure_report* f) {
         for (const sim::check_result& c : results) {
@@ -108,7 +104,8 @@ std::string first_line(const std::string& text) { return text.substr(0, text.fin
     };
     try {
         const run_summary s = run_scenario(o.scenario, ro, discard);
-        code = s.all_passed() ? 0 : 1;
+        code = r.exit_code;
+        (void)s;
     } catch (const sim::scenario_error& e) {
         bad_input(e);
     } catch (const sim::clock_config_error& e) {
@@ -126,36 +123,68 @@ std::string first_line(const std::string& text) { return text.substr(0, text.fin
         r.message = first_line(e.what());
     }
     if (!sent) send();
-    ::close(fd);
-    _exit(code);
+    return code;
 }
 
-struct running_point {
+// The body of a worker process: runs the points the parent sends on `commands` ("INDEX KEEP"
+// lines), each on a fresh kernel, and sends their records on `records`; exits when the parent
+// closes `commands`. Never returns.
+[[noreturn]] void run_worker(const sweep_options& o, const sweep_plan& plan, int commands,
+                             int records) {
+    struct sigaction sa {};
+    sa.sa_handler = SIG_DFL;
+    sigaction(SIGINT, &sa, nullptr);
+    sigaction(SIGPIPE, &sa, nullptr);
+    // The parent reports; a point's own messages would only interleave on the terminal.
+    const int null_fd = ::open("/dev/null", O_WRONLY);
+    if (null_fd >= 0) {
+        ::dup2(null_fd, STDOUT_FILENO);
+        ::dup2(null_fd, STDERR_FILENO);
+    }
+    // A firmware failure stops the kernel (platform::set_keep_process): nothing may run after the
+    // outputs were finished, as when a failure ended the process. Set once, before any kernel ran.
+    sc_core::sc_set_stop_mode(sc_core::SC_STOP_IMMEDIATE);
+    std::string pending;
+    for (;;) {
+        std::size_t eol;
+        while ((eol = pending.find('\n')) == std::string::npos) {
+            char buf[256];
+            const ssize_t got = ::read(commands, buf, sizeof buf);
+            if (got < 0 && errno == EINTR) continue;
+            if (got <= 0) _exit(0);
+            pending.append(buf, static_cast<std::size_t>(got));
+        }
+        const std::string line = pending.substr(0, eol);
+        pending.erase(0, eol + 1);
+        unsigned long long point = 0;
+        int keep = 0;
+        if (std::sscanf(line.c_str(), "%llu %d", &point, &keep) != 2) _exit(4);
+        // Tells the parent the point started: a point handed to a worker that was already ending
+        // (after a crash's record) goes to another worker instead of being lost.
+        write_all(records, "started\n");
+        harness::start_fresh_kernel();
+        run_point(o, plan, point, keep != 0, records);
+    }
+}
+
+// A worker process and the point it runs, if any.
+struct worker {
     pid_t pid = 0;
-    int fd = -1;
+    int commands = -1;  // to the worker; closed to let it exit
+    int records = -1;   // from the worker
+    std::string data;   // bytes received that do not make a whole line yet
+    bool eof = false;
+    bool busy = false;
+    bool started = false;  // the worker said it started `point`
     std::uint64_t point = 0;
     bool rerun = false;  // a failing point run again to keep its folder
-    std::string data;
-    bool eof = false;
+    std::uint64_t assigned = 0;
 };
 
-// The record of a point whose process ended: the one it sent, or one saying how it ended.
-point_record finish_point(running_point& c, int status) {
-    if (!c.data.empty() && c.data.back() == '\n') {
-        try {
-            point_record r =
-                parse_record_line(c.data.substr(0, c.data.size() - 1), "a point's record");
-            if (r.index == c.point) {
-                // The process's own exit code is what `tickbench run` gives for the point (a
-                // firmware failure may have a code of its own).
-                if (WIFEXITED(status)) r.exit_code = WEXITSTATUS(status);
-                return r;
-            }
-        } catch (const sweep_error&) {
-        }
-    }
+// The record of a point whose worker ended before sending one: how it ended.
+point_record lost_point(std::uint64_t point, int status) {
     point_record r;
-    r.index = c.point;
+    r.index = point;
     r.verdict = "error";
     r.exit_code = 4;
     r.outcome = "internal-error";
@@ -279,7 +308,9 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
     std::map<std::uint64_t, point_record> pending;
     std::uint64_t next_to_spool = o.part.number - 1;
     std::uint64_t finished = 0;
-    std::vector<running_point> running;
+    std::vector<worker> workers;
+    // Points handed to a worker that was gone already, with whether each is a rerun.
+    std::deque<std::pair<std::uint64_t, bool>> returned;
     std::uint64_t failed = 0;
     const unsigned jobs = o.jobs == 0 ? 1 : o.jobs;
     progress_display progress(o.progress, in_shard);
@@ -290,89 +321,186 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
     sa.sa_handler = on_interrupt;
     sigemptyset(&sa.sa_mask);
     sigaction(SIGINT, &sa, &old_sa);
+    // A worker that died leaves a closed pipe: writing to it must fail, not end the sweep.
+    struct sigaction ignore_pipe {};
+    struct sigaction old_pipe {};
+    ignore_pipe.sa_handler = SIG_IGN;
+    sigemptyset(&ignore_pipe.sa_mask);
+    sigaction(SIGPIPE, &ignore_pipe, &old_pipe);
     std::fflush(stdout);
     out.flush();
 
-    auto start = [&](std::uint64_t point, bool rerun) {
-        int fds[2];
-        if (::pipe(fds) != 0) throw std::runtime_error("cannot make a pipe for a point's result");
-        const bool keep = rerun || o.keep == keep_folders::all;
+    auto spawn = [&] {
+        int to[2];
+        int from[2];
+        if (::pipe(to) != 0) throw std::runtime_error("cannot make a pipe for a point process");
+        if (::pipe(from) != 0) {
+            ::close(to[0]);
+            ::close(to[1]);
+            throw std::runtime_error("cannot make a pipe for a point process");
+        }
         const pid_t pid = ::fork();
         if (pid < 0) {
-            ::close(fds[0]);
-            ::close(fds[1]);
-            throw std::runtime_error("cannot start a process for a point");
+            for (int fd : {to[0], to[1], from[0], from[1]}) ::close(fd);
+            throw std::runtime_error("cannot start a process for points");
         }
         if (pid == 0) {
-            ::close(fds[0]);
-            for (const running_point& c : running) ::close(c.fd);
-            run_point(o, plan, point, keep, fds[1]);
+            ::close(to[1]);
+            ::close(from[0]);
+            for (const worker& w : workers) {
+                if (w.commands >= 0) ::close(w.commands);
+                ::close(w.records);
+            }
+            run_worker(o, plan, to[0], from[1]);
         }
-        ::close(fds[1]);
-        running.push_back(running_point{pid, fds[0], point, rerun, {}, false});
+        ::close(to[0]);
+        ::close(from[1]);
+        worker w;
+        w.pid = pid;
+        w.commands = to[1];
+        w.records = from[0];
+        workers.push_back(std::move(w));
     };
+    // Gives `w` its next point; false when there is none left.
+    auto assign = [&](worker& w) {
+        bool rerun = false;
+        std::uint64_t point = 0;
+        if (!returned.empty()) {
+            point = returned.front().first;
+            rerun = returned.front().second;
+            returned.pop_front();
+        } else if (!reruns.empty()) {
+            rerun = true;
+            point = reruns.front();
+            reruns.pop_front();
+        } else if (next < plan.points()) {
+            point = next;
+            next += o.part.count;
+        } else {
+            return false;
+        }
+        const bool keep = rerun || o.keep == keep_folders::all;
+        const std::string line = std::to_string(point) + (keep ? " 1" : " 0") + "\n";
+        if (!write_all(w.commands, line)) {
+            // The worker is gone (its end shows when its records pipe closes): another runs it.
+            returned.emplace_front(point, rerun);
+            ::close(w.commands);
+            w.commands = -1;
+            return false;
+        }
+        w.busy = true;
+        w.started = false;
+        w.point = point;
+        w.rerun = rerun;
+        ++w.assigned;
+        return true;
+    };
+    auto has_work = [&] { return !returned.empty() || !reruns.empty() || next < plan.points(); };
+    // A finished point's record, whether it came from its worker or stands for a lost one.
+    auto record_point = [&](const worker& w, point_record r) {
+        if (w.rerun) return;
+        if (r.verdict == "fail") {
+            ++failed;
+            if (o.keep == keep_folders::failing) reruns.push_back(r.index);
+        }
+        ++finished;
+        pending.emplace(r.index, std::move(r));
+        for (auto it = pending.begin(); it != pending.end() && it->first == next_to_spool;
+             it = pending.erase(it)) {
+            spool << record_line(plan, it->second) << '\n';
+            next_to_spool += o.part.count;
+        }
+    };
+    const std::uint64_t per_process = o.points_per_process == 0 ? 1 : o.points_per_process;
 
     while (!interrupted) {
-        while (running.size() < jobs && !interrupted) {
-            if (!reruns.empty()) {
-                start(reruns.front(), true);
-                reruns.pop_front();
-            } else if (next < plan.points()) {
-                start(next, false);
-                next += o.part.count;
-            } else {
-                break;
+        for (worker& w : workers) {
+            if (w.busy || w.commands < 0 || w.eof || interrupted) continue;
+            // A worker that has run its share exits and a fresh one takes over: each point
+            // leaves its kernel behind in the process.
+            if (w.assigned >= per_process || !has_work()) {
+                if (w.assigned >= per_process) {
+                    ::close(w.commands);
+                    w.commands = -1;
+                }
+                continue;
             }
+            assign(w);
         }
-        if (running.empty()) break;
+        std::size_t live = 0;
+        for (const worker& w : workers) live += w.commands >= 0 ? 1 : 0;
+        while (live < jobs && has_work() && !interrupted) {
+            spawn();
+            ++live;
+            if (!assign(workers.back())) break;
+        }
+        bool busy = false;
+        for (const worker& w : workers) busy = busy || w.busy;
+        if (!busy && !has_work()) break;
         std::vector<pollfd> fds;
-        for (const running_point& c : running) fds.push_back(pollfd{c.fd, POLLIN, 0});
+        for (const worker& w : workers) fds.push_back(pollfd{w.records, POLLIN, 0});
         const int n = ::poll(fds.data(), fds.size(), 250);
         if (n < 0 && errno != EINTR) throw std::runtime_error("poll failed while running points");
         for (std::size_t i = 0; n > 0 && i < fds.size(); ++i) {
             if ((fds[i].revents & (POLLIN | POLLHUP | POLLERR)) == 0) continue;
+            worker& w = workers[i];
             char buf[4096];
-            const ssize_t got = ::read(fds[i].fd, buf, sizeof buf);
+            const ssize_t got = ::read(w.records, buf, sizeof buf);
             if (got > 0)
-                running[i].data.append(buf, static_cast<std::size_t>(got));
+                w.data.append(buf, static_cast<std::size_t>(got));
             else if (got == 0 || errno != EINTR)
-                running[i].eof = true;
-        }
-        for (std::size_t i = running.size(); i-- > 0;) {
-            running_point& c = running[i];
-            if (!c.eof) continue;
-            int status = 0;
-            while (::waitpid(c.pid, &status, 0) < 0 && errno == EINTR) {
+                w.eof = true;
+            std::size_t eol;
+            while ((eol = w.data.find('\n')) != std::string::npos) {
+                const std::string line = w.data.substr(0, eol);
+                w.data.erase(0, eol + 1);
+                if (!w.busy) continue;
+                if (line == "started") {
+                    w.started = true;
+                    continue;
+                }
+                w.busy = false;
+                point_record r;
+                try {
+                    r = parse_record_line(line, "a point's record");
+                } catch (const sweep_error&) {
+                    r = lost_point(w.point, 0);
+                    r.message = "the point's process sent an unreadable record";
+                }
+                if (r.index != w.point) r = lost_point(w.point, 0);
+                record_point(w, std::move(r));
             }
-            ::close(c.fd);
+        }
+        for (std::size_t i = workers.size(); i-- > 0;) {
+            worker& w = workers[i];
+            if (!w.eof) continue;
+            int status = 0;
+            while (::waitpid(w.pid, &status, 0) < 0 && errno == EINTR) {
+            }
+            if (w.commands >= 0) ::close(w.commands);
+            ::close(w.records);
             // A point ended by Ctrl-C did not run to its end: it is left out.
             const bool stopped = WIFSIGNALED(status) && WTERMSIG(status) == SIGINT;
-            if (!c.rerun && !stopped) {
-                point_record r = finish_point(c, status);
-                if (r.verdict == "fail") {
-                    ++failed;
-                    if (o.keep == keep_folders::failing) reruns.push_back(r.index);
-                }
-                ++finished;
-                pending.emplace(r.index, std::move(r));
-                for (auto it = pending.begin(); it != pending.end() && it->first == next_to_spool;
-                     it = pending.erase(it)) {
-                    spool << record_line(plan, it->second) << '\n';
-                    next_to_spool += o.part.count;
-                }
+            if (w.busy && !w.started && !stopped) {
+                // It ended before it started the point: another worker runs it.
+                returned.emplace_front(w.point, w.rerun);
+            } else if (w.busy && !stopped) {
+                record_point(w, lost_point(w.point, status));
             }
-            running.erase(running.begin() + static_cast<std::ptrdiff_t>(i));
+            workers.erase(workers.begin() + static_cast<std::ptrdiff_t>(i));
         }
         progress.show(finished, failed);
     }
-    for (running_point& c : running) {
-        ::kill(c.pid, SIGKILL);
+    for (worker& w : workers) {
+        if (w.commands >= 0) ::close(w.commands);
+        if (interrupted) ::kill(w.pid, SIGKILL);
         int status = 0;
-        while (::waitpid(c.pid, &status, 0) < 0 && errno == EINTR) {
+        while (::waitpid(w.pid, &status, 0) < 0 && errno == EINTR) {
         }
-        ::close(c.fd);
+        ::close(w.records);
     }
     sigaction(SIGINT, &old_sa, nullptr);
+    sigaction(SIGPIPE, &old_pipe, nullptr);
     progress.stop();
 
     // Points stopped by Ctrl-C leave gaps; those that finished after a gap follow in order.

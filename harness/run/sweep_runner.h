@@ -2,12 +2,17 @@
 // Running a sweep (docs/cli.md, "sweep"): every point of a sweep_plan (or of one shard of it) as
 // its own run of the scenario, `jobs` at a time, and the reports of sweep_report.h.
 //
-// The kernel elaborates once per process, so each point runs in a child forked from this process.
 // The parent reads the scenario and loads the firmware library once (a bad --vary or scenario is
-// reported before any point runs); a child applies its point's overrides, runs, sends its result
-// record through a pipe and exits. A point whose folder is not kept writes no file at all (no
-// waveform, no log); with `waves = failing` a failing point is run once more with its outputs, into
-// DIR/points/INDEX, which therefore holds what `tickbench run` writes for the same point.
+// reported before any point runs), then forks `jobs` worker processes. A worker runs the points the
+// parent hands it one after another in its own process, each on a fresh kernel
+// (harness::start_fresh_kernel) with the firmware's writable data put back as first loaded
+// (firmware_library::restore_data), and sends each point's record through a pipe; after
+// `points_per_process` points it exits and a new worker takes over, since every point leaves its
+// kernel behind. A firmware failure on the firmware's thread ends the point and not the worker; a
+// crash ends the worker after it sent the record. A point whose folder is not kept writes no file
+// at all (no waveform, no log); with `waves = failing` a failing point is run once more with its
+// outputs, into DIR/points/INDEX, which therefore holds what `tickbench run` writes for the same
+// point.
 //
 // Ctrl-C (SIGINT) starts no new point, ends the running children, and the reports written then
 // say they are partial.
@@ -33,6 +38,8 @@ struct sweep_options {
     std::string out_dir = "tickbench-sweep";
     scenario_overrides base;  // --firmware, --duration: the same for every point
     bool progress = false;    // a progress line on stderr
+    // Points a process runs before a fresh one takes over (1: a process per point).
+    std::uint64_t points_per_process = 256;
 };
 
 // Runs the sweep, writes the reports into `out_dir` and prints the summary on `out`. Throws

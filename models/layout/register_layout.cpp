@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <array>
+#include <map>
 #include <sstream>
 #include <tuple>
 #include <utility>
@@ -1231,7 +1232,15 @@ register_layout load_register_layout_text(std::string_view toml_text, const std:
 }
 
 register_layout load_register_layout_file(const std::string& path) {
-    return read_layout(sim::read_toml_file(path), path);
+    // A sweep loads the same layouts once per point: the last layout read from each path is
+    // handed out again while the file's text is the same.
+    static std::map<std::string, std::pair<std::string, register_layout>> loaded;
+    std::string text = sim::read_text_file(path);
+    const auto it = loaded.find(path);
+    if (it != loaded.end() && it->second.first == text) return it->second.second;
+    register_layout layout = read_layout(sim::read_toml_text(text, path), path);
+    loaded[path] = {std::move(text), layout};
+    return layout;
 }
 
 }  // namespace models

@@ -28,6 +28,9 @@ tickbench_packages=(
     # that test's script (tests/report/)
     chromium
     python3
+    # a one-node batch scheduler for the job-array test of `tickbench sweep` (tests/sweep/)
+    slurm-wlm
+    munge
 )
 
 tickbench_root="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"

@@ -1,9 +1,12 @@
 # `tickbench sweep` and `tickbench merge` end to end (docs/cli.md, "sweep"), one MODE per test:
 #   same_as_run  every kept point folder equals what `tickbench run` writes for the same point,
-#                byte for byte, and each point's exit code in sweep.jsonl equals run's
+#                byte for byte (waveform included), and each point's exit code in sweep.jsonl
+#                equals run's; with --jobs 2 and with every point in one process
 #   shards       the shards of a sweep, merged, give the unsharded reports byte for byte; merging
 #                shards of two different sweeps is refused
 #   bad_vary     a bad --vary exits 2 with its message before anything runs
+#   fresh_data   points run one after another in one process each start from the firmware's data
+#                as loaded (tests/sweep/firmware/fresh_data_firmware.c)
 #   outcomes     a failed check gives exit code 1 and the check with its measured values in
 #                sweep.jsonl; a crash gives 3 and the failure's first line; a crash at one point
 #                and a failed check at another gives 3
@@ -70,6 +73,17 @@ if(MODE STREQUAL "same_as_run")
       math(EXPR index "${index} + 1")
     endforeach()
   endforeach()
+  # One process runs every point one after another (the naive read's failed firmware check ends a
+  # point, not the process): the same folders again.
+  tb(CODE 3 ARGS sweep ${common} --vary param.variant=naive,careful --vary start-offset=2..4
+     --waves all --jobs 1 --out ${OUT}/one_process)
+  foreach(index RANGE 5)
+    file(GLOB files RELATIVE ${OUT}/run_${index} ${OUT}/run_${index}/*)
+    foreach(f ${files})
+      same_file(${OUT}/one_process/points/${index}/${f} ${OUT}/run_${index}/${f})
+    endforeach()
+  endforeach()
+  same_file(${OUT}/one_process/sweep.jsonl ${OUT}/sweep/sweep.jsonl)
   # The default keeps only the failing points' folders.
   tb(CODE 3 ARGS sweep ${common} --vary param.variant=naive,careful --vary start-offset=2..4
      --jobs 2 --out ${OUT}/failing)
@@ -168,6 +182,13 @@ elseif(MODE STREQUAL "outcomes")
   # A firmware failure outranks a failed check; the axis is a scenario key (the firmware's ending).
   tb(CODE 3 ARGS sweep ${RUN_SCENARIOS}/pwm_failing_check.toml --waves none --out ${OUT}/both
      "--vary" "firmware.parameters.ending=return,crash")
+elseif(MODE STREQUAL "fresh_data")
+  # The firmware's check fails when it finds its data changed by an earlier point of its process.
+  tb(CODE 0 ARGS sweep ${common} --vary seed=1..6 --jobs 1 --waves none --out ${OUT}/sweep
+     STDOUT out)
+  if(NOT out MATCHES "6 ran: 6 passed, 0 failed")
+    message(FATAL_ERROR "unexpected summary: ${out}")
+  endif()
 else()
   message(FATAL_ERROR "unknown MODE ${MODE}")
 endif()
