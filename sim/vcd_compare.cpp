@@ -29,8 +29,9 @@ bool vcd_signal_comparison::same() const {
 bool vcd_comparison::same() const { return !ends_differ && differing_signals() == 0; }
 
 std::size_t vcd_comparison::differing_signals() const {
-    return static_cast<std::size_t>(std::count_if(
-        signals.begin(), signals.end(), [](const vcd_signal_comparison& s) { return s.differs(); }));
+    return static_cast<std::size_t>(
+        std::count_if(signals.begin(), signals.end(),
+                      [](const vcd_signal_comparison& s) { return s.differs(); }));
 }
 
 namespace {
@@ -66,7 +67,10 @@ public:
         select_signals();
         vcd_change change;
         while (!done_[0] || !done_[1]) {
-            const int s = done_[0] ? 1 : done_[1] ? 0 : readers_[0]->time() <= readers_[1]->time() ? 0 : 1;
+            const int s = done_[0]                                     ? 1
+                          : done_[1]                                   ? 0
+                          : readers_[0]->time() <= readers_[1]->time() ? 0
+                                                                       : 1;
             if (!readers_[s]->next(change)) {
                 done_[s] = true;
                 for (signal_state& st : states_) resolve(st);
@@ -129,11 +133,10 @@ private:
                 (s == 0 ? c.width_a : c.width_b) = readers_[s]->variables()[found->second].width;
             }
             if (!c.in_a && !c.in_b)
-                throw vcd_error("signal \"" + name + "\" is in neither " + readers_[0]->source() +
-                                " nor " + readers_[1]->source() + hint(name, known) +
-                                "; expected full names such as \"" +
-                                (known.empty() ? std::string("timer.channel1") : known.front()) +
-                                "\"");
+                throw vcd_error(
+                    "signal \"" + name + "\" is in neither " + readers_[0]->source() + " nor " +
+                    readers_[1]->source() + hint(name, known) + "; expected full names such as \"" +
+                    (known.empty() ? std::string("timer.channel1") : known.front()) + "\"");
             if (all && options_.only_common && !(c.in_a && c.in_b)) c.counts = false;
             if (c.in_a && c.in_b && c.width_a == c.width_b) {
                 for (int s = 0; s < 2; ++s) slot_of_[s][variable[s]] = states_.size();
@@ -208,8 +211,8 @@ private:
                 qb.pop_front();
                 continue;
             }
-            const bool overfull = qa.size() > options_.max_waiting_edges ||
-                                  qb.size() > options_.max_waiting_edges;
+            const bool overfull =
+                qa.size() > options_.max_waiting_edges || qb.size() > options_.max_waiting_edges;
             const int e = b.at < a.at ? 1 : 0;  // the side whose edge comes first
             const int o = 1 - e;
             const edge& first = st.sides[e].edges.front();

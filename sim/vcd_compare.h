@@ -66,9 +66,9 @@ struct vcd_signal_comparison {
     std::uint32_t width_b = 0;
     std::uint64_t edges_a = 0;  // edges seen in run a
     std::uint64_t edges_b = 0;
-    std::uint64_t differences = 0;      // all of them, kept or not
-    std::vector<vcd_difference> kept;   // the first ones, in the order found
-    bool counts = true;                 // false: only in one run, and only_common asked not to count it
+    std::uint64_t differences = 0;     // all of them, kept or not
+    std::vector<vcd_difference> kept;  // the first ones, in the order found
+    bool counts = true;  // false: only in one run, and only_common asked not to count it
 
     // True when the signal is in both runs with the same width and no difference.
     bool same() const;

@@ -11,7 +11,9 @@ namespace {
 
 constexpr std::size_t buffer_bytes = std::size_t{1} << 16;
 
-bool is_space(char c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'; }
+bool is_space(char c) {
+    return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v';
+}
 
 // A digit of a scalar or vector value, lower-cased, or 0 when `c` is none.
 char value_digit(char c) {
@@ -60,7 +62,8 @@ vcd_reader::vcd_reader(const std::string& path)
     read_header();
 }
 
-vcd_reader::vcd_reader(std::istream& in, std::string source) : in_(&in), source_(std::move(source)) {
+vcd_reader::vcd_reader(std::istream& in, std::string source)
+    : in_(&in), source_(std::move(source)) {
     buffer_.resize(buffer_bytes);
     read_header();
 }
@@ -144,9 +147,11 @@ void vcd_reader::read_var() {
         fail("variable size \"" + size + "\": expected a whole number of bits from 1");
     v.width = static_cast<std::uint32_t>(width);
     v.code = expect_token("the variable's identifier code");
-    if (v.code == "$end") fail("the variable has no identifier code; expected $var TYPE SIZE CODE NAME $end");
+    if (v.code == "$end")
+        fail("the variable has no identifier code; expected $var TYPE SIZE CODE NAME $end");
     const std::string reference = expect_token("the variable's name");
-    if (reference == "$end") fail("the variable has no name; expected $var TYPE SIZE CODE NAME $end");
+    if (reference == "$end")
+        fail("the variable has no name; expected $var TYPE SIZE CODE NAME $end");
     for (const std::string& s : scopes_) v.name += s + ".";
     v.name += reference;
     for (;;) {
@@ -161,8 +166,9 @@ void vcd_reader::read_var() {
 void vcd_reader::read_header() {
     for (;;) {
         if (!read_token())
-            fail("the file ends before $enddefinitions; expected a VCD header (IEEE Std 1364-2005 "
-                 "clause 18)");
+            fail(
+                "the file ends before $enddefinitions; expected a VCD header (IEEE Std 1364-2005 "
+                "clause 18)");
         const std::string keyword = token_;
         if (keyword == "$date" || keyword == "$version" || keyword == "$comment") {
             skip_section(keyword);
@@ -189,7 +195,8 @@ void vcd_reader::read_header() {
                  "$upscope, $var or $enddefinitions");
         }
     }
-    if (unit_ps_ == 0) fail("the header has no $timescale; expected one such as $timescale 1 ps $end");
+    if (unit_ps_ == 0)
+        fail("the header has no $timescale; expected one such as $timescale 1 ps $end");
 }
 
 std::string vcd_reader::extend(const std::string& digits, std::uint32_t width) {
@@ -248,11 +255,11 @@ bool vcd_reader::next(vcd_change& change) {
             std::string digits;
             for (std::size_t i = 1; i < t.size(); ++i) {
                 const char d = value_digit(t[i]);
-                if (d == 0)
-                    fail("vector value \"" + t + "\": expected b and digits 0, 1, x or z");
+                if (d == 0) fail("vector value \"" + t + "\": expected b and digits 0, 1, x or z");
                 digits += d;
             }
-            if (digits.empty()) fail("vector value \"b\" has no digits; expected digits 0, 1, x or z");
+            if (digits.empty())
+                fail("vector value \"b\" has no digits; expected digits 0, 1, x or z");
             queue_change(expect_token("the identifier code after a vector value"), digits, 'b');
         } else if (t[0] == 'r' || t[0] == 'R') {
             if (t.size() == 1) fail("real value \"r\" has no number");

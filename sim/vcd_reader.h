@@ -43,7 +43,8 @@ public:
 
 // One $var of the header.
 struct vcd_variable {
-    std::string name;  // scopes and reference joined with '.', a bit range appended ("top.bus[3:0]")
+    std::string
+        name;  // scopes and reference joined with '.', a bit range appended ("top.bus[3:0]")
     std::string type;  // as declared: wire, reg, real, ...
     std::uint32_t width = 1;
     std::string code;  // identifier code

@@ -21,13 +21,15 @@ std::string waveform_of(const std::string& run) {
     std::error_code ec;
     const fs::file_status status = fs::status(run, ec);
     if (!fs::exists(status))
-        throw sim::vcd_error(run + ": no such folder or file; expected the output folder of a run "
-                                   "(holding waves.vcd) or a VCD file");
+        throw sim::vcd_error(run +
+                             ": no such folder or file; expected the output folder of a run "
+                             "(holding waves.vcd) or a VCD file");
     if (!fs::is_directory(status)) return run;
     const std::string vcd = (fs::path(run) / "waves.vcd").string();
     if (!fs::exists(vcd, ec))
-        throw sim::vcd_error(vcd + ": missing; expected the output folder of a run that wrote its "
-                                   "waveform (a run with [waves] enabled = false writes none)");
+        throw sim::vcd_error(vcd +
+                             ": missing; expected the output folder of a run that wrote its "
+                             "waveform (a run with [waves] enabled = false writes none)");
     return vcd;
 }
 
@@ -83,7 +85,8 @@ void print_signal(std::ostream& out, const sim::vcd_signal_comparison& s) {
     out << s.name << ": " << plural(s.differences, "difference", "differences") << " ("
         << plural(s.edges_a, "edge", "edges") << " in a, " << s.edges_b << " in b)\n";
     for (const sim::vcd_difference& d : s.kept) print_difference(out, d);
-    if (s.differences > s.kept.size()) out << "  ... and " << s.differences - s.kept.size() << " more\n";
+    if (s.differences > s.kept.size())
+        out << "  ... and " << s.differences - s.kept.size() << " more\n";
 }
 
 }  // namespace
@@ -117,8 +120,8 @@ int run_compare_command(const compare_options& options, std::ostream& out) {
         return exit_ok;
     }
     out << "differ: " << c.differing_signals() << " of "
-        << plural(c.signals.size(), "signal", "signals")
-        << (c.ends_differ ? " and the end" : "") << ", " << within << '\n';
+        << plural(c.signals.size(), "signal", "signals") << (c.ends_differ ? " and the end" : "")
+        << ", " << within << '\n';
     return exit_check_failed;
 }
 

@@ -19,7 +19,8 @@ using kind = sim::vcd_difference::kind;
 std::string vcd(const std::vector<std::string>& signals, const std::string& body) {
     std::string text = "$timescale 1 ns $end\n$scope module t $end\n";
     char code = 'a';
-    for (const std::string& s : signals) text += std::string("$var wire 1 ") + code++ + " " + s + " $end\n";
+    for (const std::string& s : signals)
+        text += std::string("$var wire 1 ") + code++ + " " + s + " $end\n";
     return text + "$upscope $end\n$enddefinitions $end\n" + body;
 }
 
@@ -108,8 +109,8 @@ TEST(vcd_compare_test, reports_an_edge_shifted_far_as_shifted) {
 
 TEST(vcd_compare_test, reports_vector_values_that_differ_at_one_time) {
     const std::string h = "$timescale 1 ns $end\n$var wire 4 a v $end\n$enddefinitions $end\n";
-    const sim::vcd_comparison c =
-        compare(h + "#0\nb0 a\n#10\nb101 a\n#20\nb110 a\n", h + "#0\nb0 a\n#10\nb111 a\n#20\nb110 a\n");
+    const sim::vcd_comparison c = compare(h + "#0\nb0 a\n#10\nb101 a\n#20\nb110 a\n",
+                                          h + "#0\nb0 a\n#10\nb111 a\n#20\nb110 a\n");
     ASSERT_EQ(c.signals[0].differences, 1u);
     const sim::vcd_difference& d = c.signals[0].kept[0];
     EXPECT_EQ(d.what, kind::value);

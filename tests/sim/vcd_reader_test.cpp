@@ -35,11 +35,12 @@ std::string error_of(const std::string& text) {
     return "";
 }
 
-const char* const header = "$timescale 1 ns $end\n"
-                           "$scope module pwm $end\n"
-                           "$var wire 1 ! channel1 $end\n"
-                           "$upscope $end\n"
-                           "$enddefinitions $end\n";
+const char* const header =
+    "$timescale 1 ns $end\n"
+    "$scope module pwm $end\n"
+    "$var wire 1 ! channel1 $end\n"
+    "$upscope $end\n"
+    "$enddefinitions $end\n";
 
 // IEEE Std 1364-2005 clause 18 (recalled from memory): header sections, nested scopes, a $var with
 // a bit range, two variables sharing one identifier code.
@@ -163,8 +164,9 @@ TEST(vcd_reader_test, names_file_line_and_what_was_expected_for_malformed_text) 
     EXPECT_EQ(error_of(h + "#10\n#5\n"),
               "t.vcd:7: time \"#5\" goes back from 10 ns; expected times in non-decreasing order");
     EXPECT_NE(error_of(h + "#1x\n").find("t.vcd:6: \"#1x\": expected a time"), std::string::npos);
-    EXPECT_NE(error_of(h + "#0\nq!\n").find("t.vcd:7: \"q!\": expected a time (#N), a value change"),
-              std::string::npos);
+    EXPECT_NE(
+        error_of(h + "#0\nq!\n").find("t.vcd:7: \"q!\": expected a time (#N), a value change"),
+        std::string::npos);
     EXPECT_NE(error_of(h + "#0\nb102 !\n").find("t.vcd:7: vector value \"b102\""),
               std::string::npos);
     EXPECT_NE(error_of("$timescale 3 ns $end\n$enddefinitions $end\n")
