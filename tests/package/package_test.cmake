@@ -1,7 +1,6 @@
 # The package test (tests/package/CMakeLists.txt). Variables: BUILD_DIR (this tree's build),
 # CONSUMER (the consumer project's source), WORK (a folder of the test's own, emptied first),
-# GENERATOR, C_COMPILER, CXX_COMPILER, LAUNCHER (a compiler launcher or empty), FLAGS (compile and
-# link flags the consumer's programs need, or empty).
+# GENERATOR, C_COMPILER, CXX_COMPILER, LAUNCHER (a compiler launcher or empty).
 cmake_minimum_required(VERSION 3.25)
 
 # Runs a command; stops with its output when its exit code is not 0.
@@ -47,9 +46,6 @@ set(configure_args -S "${CONSUMER}" -B "${build}" -G "${GENERATOR}" "-DCMAKE_PRE
 if(LAUNCHER)
   list(APPEND configure_args "-DCMAKE_C_COMPILER_LAUNCHER=${LAUNCHER}"
     "-DCMAKE_CXX_COMPILER_LAUNCHER=${LAUNCHER}")
-endif()
-if(FLAGS)
-  list(APPEND configure_args "-DCMAKE_CXX_FLAGS=${FLAGS}" "-DCMAKE_EXE_LINKER_FLAGS=${FLAGS}")
 endif()
 step("configuring the consumer" ${CMAKE_COMMAND} ${configure_args})
 step("building the consumer" ${CMAKE_COMMAND} --build "${build}" -j 2)
