@@ -15,8 +15,8 @@ void tick_firmware_main(void) {
     tick_write16(PWM_BASE + Q16_LIMIT, 1919);
     tick_write16(PWM_BASE + Q16_MATCH(0), compare);
     tick_write16(PWM_BASE + Q16_SHAPE_AB,
-                 (uint16_t)Q16_SHAPE_BYTE(0, Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) |
-                                                 Q16_SHAPE_MAIN_ENABLE));
+                 (uint16_t)Q16_SHAPE_BYTE(
+                     0, Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) | Q16_SHAPE_MAIN_ENABLE));
     tick_write8(PWM_BASE + Q16_KICK, Q16_KICK_FORCE_RELOAD);
     tick_write16(PWM_BASE + Q16_RUN, Q16_RUN_ENABLE);
     TICK_ASSERT(tick_read16(PWM_BASE + Q16_LIMIT) == 1919);
