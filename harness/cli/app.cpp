@@ -10,6 +10,7 @@
 #include "sim/quantity.h"
 #include "sim/report/report_model.h"
 #include "sim/scenario_error.h"
+#include "sim/vcd_reader.h"
 #include "sim/vcd_writer.h"
 #include "sim/word_hint.h"
 
@@ -198,6 +199,26 @@ int run(int argc, char** argv) {
     CLI::App* report_cmd = app.add_subcommand(
         "report", "Write DIR/report.html again from the report.json a run left in DIR");
     report_cmd->add_option("DIR", report_opts.dir, "The output folder of a run")->required();
+    compare_options compare;
+    CLI::App* compare_cmd = app.add_subcommand(
+        "compare", "Compare the waveforms of two runs edge by edge and list the differences");
+    compare_cmd->add_option("RUN_A", compare.run_a, "The first run's output folder (or a VCD file)")
+        ->required();
+    compare_cmd
+        ->add_option("RUN_B", compare.run_b, "The second run's output folder (or a VCD file)")
+        ->required();
+    compare_cmd
+        ->add_option("--signals", compare.signals,
+                     "NAME,...: compare only these signals (full names such as pwm.channel1)")
+        ->delimiter(',')
+        ->allow_extra_args(false);
+    compare_cmd
+        ->add_option("--tolerance", compare.tolerance,
+                     "Largest time between two edges that still match, e.g. \"5 ns\"")
+        ->capture_default_str();
+    compare_cmd->add_flag(
+        "--common-only", compare.common_only,
+        "Compare only the signals both runs have (others are listed, not counted)");
 
     // An unknown command is named, with the closest one, even when --help follows it.
     if (const std::string word = unknown_command(app, argc, argv); !word.empty()) {
@@ -235,6 +256,7 @@ int run(int argc, char** argv) {
         if (*plan_cmd) return run_plan(plan, std::cout);
         if (*layout_cmd) return run_layout(layout, std::cout);
         if (*report_cmd) return run_report_command(report_opts, std::cout);
+        if (*compare_cmd) return run_compare_command(compare, std::cout);
     } catch (const sim::scenario_error& e) {
         report_error(e.what());
         return exit_bad_input;
@@ -254,6 +276,9 @@ int run(int argc, char** argv) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const harness::run::sweep_error& e) {
+        report_error(e.what());
+        return exit_bad_input;
+    } catch (const sim::vcd_error& e) {
         report_error(e.what());
         return exit_bad_input;
     } catch (const std::exception& e) {

@@ -116,6 +116,19 @@ struct report_options {
 // the run wrote. Throws sim::report_format_error for a missing or unreadable report.json,
 // sim::output_error when report.html cannot be written.
 int run_report_command(const report_options& options, std::ostream& out);
+struct compare_options {
+    std::string run_a;  // an output folder (its waves.vcd) or a VCD file
+    std::string run_b;
+    std::vector<std::string> signals;  // full names; empty: every signal
+    std::string tolerance = "0 ps";    // a time such as "5 ns"
+    bool common_only = false;
+};
+
+// `tickbench compare`: compares the waveforms of two runs edge by edge and prints the
+// differences; returns exit_ok when they match and exit_check_failed when not. Throws
+// sim::vcd_error for a missing or malformed waveform or an unknown signal, sim::quantity_error for
+// a bad tolerance.
+int run_compare_command(const compare_options& options, std::ostream& out);
 
 // The whole command line: parses argv, runs the command, reports errors on stderr prefixed
 // "tickbench: error: " and returns the exit code.

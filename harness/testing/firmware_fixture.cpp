@@ -9,6 +9,8 @@
 #include <cstdio>
 #include <fstream>
 #include <sstream>
+#include <stdexcept>
+#include <utility>
 
 // The firmware linked into the test binary, if any: a weak reference, so a test binary without one
 // still links and run_firmware_main() can say what is missing.
@@ -156,7 +158,7 @@ std::ostream& operator<<(std::ostream& out, const firmware_run& run) {
     return out;
 }
 
-firmware_fixture::firmware_fixture() = default;
+firmware_fixture::firmware_fixture(std::string layout_dir) : layout_dir_(std::move(layout_dir)) {}
 
 void firmware_fixture::add_crystal_clock(const std::string& name, std::uint64_t hz) {
     clock_steps_.push_back([name, hz](sim::clock_tree& tree) {
@@ -191,8 +193,13 @@ timer_spec& firmware_fixture::add_timer(const std::string& name, const std::stri
                                         const std::string& clock, std::uint64_t base) {
     const bool is_path =
         layout.find('/') != std::string::npos || layout.find(".toml") != std::string::npos;
-    const std::string path =
-        is_path ? layout : std::string(TICKBENCH_LAYOUT_DIR) + "/" + layout + ".toml";
+    if (!is_path && layout_dir_.empty())
+        throw std::invalid_argument("add_timer(\"" + name + "\"): layout \"" + layout +
+                                    "\" is a name, and no folder of shipped layouts is known "
+                                    "(TICKBENCH_LAYOUT_DIR, which the CMake target "
+                                    "tickbench::firmware_fixture defines); expected a path to a "
+                                    "layout file");
+    const std::string path = is_path ? layout : layout_dir_ + "/" + layout + ".toml";
     timer_spec t;
     t.name = name;
     t.layout = models::load_register_layout_file(path);

@@ -33,6 +33,13 @@
 #include <string>
 #include <vector>
 
+// The folder of the shipped register layouts that add_timer() finds by name. The CMake target
+// tickbench::firmware_fixture defines it for every file that includes this header: the source
+// tree's models/layouts in a build, share/tickbench/layouts of an installed package.
+#ifndef TICKBENCH_LAYOUT_DIR
+#define TICKBENCH_LAYOUT_DIR ""
+#endif
+
 namespace harness {
 
 // Durations for run_firmware(), in exact picoseconds.
@@ -78,7 +85,10 @@ std::ostream& operator<<(std::ostream& out, const firmware_run& run);
 
 class firmware_fixture : public ::testing::Test {
 protected:
-    firmware_fixture();
+    // Shipped layouts come from TICKBENCH_LAYOUT_DIR as the test's own file sees it.
+    firmware_fixture() : firmware_fixture(TICKBENCH_LAYOUT_DIR) {}
+    // Shipped layouts come from `layout_dir` (empty: add_timer() takes layout paths only).
+    explicit firmware_fixture(std::string layout_dir);
 
     // --- describing the part (kept in the test process, built in each run's child) ---
 
@@ -125,6 +135,7 @@ protected:
     const firmware_run& last_run() const { return last_; }
 
 private:
+    std::string layout_dir_;
     std::vector<std::function<void(sim::clock_tree&)>> clock_steps_;
     std::deque<timer_spec>
         timers_;  // a deque: add_timer() hands out references that must stay valid
