@@ -1,8 +1,8 @@
 #include "harness/platform.h"
 
 #include "harness/firmware_context.h"
-#include "models/clock/clock_bindings.h"
 #include "harness/trap/trap_engine.h"
+#include "models/clock/clock_bindings.h"
 
 #include <spdlog/spdlog.h>
 

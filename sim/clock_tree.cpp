@@ -482,11 +482,19 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
     const time_ps after = at == max_time_ps ? at : at + 1;
     const std::uint64_t next = n.out.tick_at(after);
     auto stopped = [&] { return clock_segment::stopped(next, at == 0 ? 0 : after); };
+    // The first instant whose input edge this node passes: at reset the edge at 0; when the
+    // input's new timeline starts with an edge at `at` (a mux reaching its new input, a PLL
+    // locking), that edge, which no earlier timeline of this node had; otherwise edges after `at`.
+    auto input_from = [&](std::size_t input) {
+        if (at == 0) return time_ps{0};
+        const clock_segment& in = nodes_[input]->out.segment_at(at);
+        return in.is_running() && in.start() == at ? at : after;
+    };
     auto follow = [&](std::size_t input) {
-        const time_ps from = at == 0 ? 0 : after;  // at reset, the edge at 0 passes
+        const time_ps from = input_from(input);
         const clock_segment& in = nodes_[input]->out.segment_at(from);
         if (!in.is_running()) return stopped();
-        return clock_segment::derived(in, in.tick_at(from), next, 1);
+        return clock_segment::derived(in, in.tick_at(from), n.out.tick_at(from), 1);
     };
     auto source = [&](const frequency& f, time_ps jitter, std::uint64_t seed) {
         const clock_segment& old = n.out.segment_at(at);
@@ -530,7 +538,8 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
             return clock_segment::derived(in, j, next, s.factor);
         }
         case clock_kind::boost: {
-            const time_ps from = at == 0 ? 0 : after;
+            const time_ps from = input_from(n.inputs[0]);
+            const std::uint64_t first = n.out.tick_at(from);
             const node& div = *nodes_[n.inputs[0]];
             const clock_segment& d = div.out.segment_at(from);
             if (!d.is_running()) return stopped();
@@ -545,13 +554,13 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
                     const std::uint64_t g = src.tick_at(from);
                     std::uint64_t p = d.source_tick();
                     if (g > p) p += (g - p + step - 1) / step * step;
-                    return clock_segment::derived(src, p, next, step);
+                    return clock_segment::derived(src, p, first, step);
                 }
             }
             // A factor that does not divide the divider's: the multiplied clock starts at the
             // divider's next edge.
             const std::uint64_t k = d.tick_at(from);
-            return clock_segment::running(next, d.time_of(k), d.freq().scaled(s.factor, 1));
+            return clock_segment::running(first, d.time_of(k), d.freq().scaled(s.factor, 1));
         }
         case clock_kind::pll: {
             // The latest disturbance at or before `at` decides whether the PLL has locked yet.

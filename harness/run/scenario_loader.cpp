@@ -321,7 +321,8 @@ void read_peripherals(context& c, const toml::table& root) {
                                 ? std::string()
                                 : "layout " + in_quotes(path) +
                                       " describes a timer; accepted: a layout of another kind "
-                                      "(\"tick_timer\", \"watchdog\", \"slow_counter\", \"clock_control\"); timers "
+                                      "(\"tick_timer\", \"watchdog\", \"slow_counter\", "
+                                      "\"clock_control\"); timers "
                                       "go "
                                       "under [timers]";
                  }) &&

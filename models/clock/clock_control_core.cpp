@@ -222,19 +222,21 @@ void clock_control_core::write_field(std::uint32_t field, std::uint32_t value, t
         case clock_field::pll_multiplier:
         case clock_field::pll_input_divider:
         case clock_field::pll_output_divider: {
+            auto& into = f == clock_field::pll_multiplier      ? s->pll.multiplier
+                         : f == clock_field::pll_input_divider ? s->pll.input_divider
+                                                               : s->pll.output_divider;
+            // A register write rewrites every field of the register; only a change is a request.
+            if (value == into) return;
             if (s->pll.enabled) {
                 refuse(refused_while_running, "pll '" + node + "'" + at + ": " + to_string(f) +
                                                   " written while the PLL runs; stop it first");
                 return;
             }
             if (value == 0) {
-                refuse(refused_out_of_range, "pll '" + node + "'" + at + ": " + to_string(f) +
-                                                 " 0; accepted: 1 or more");
+                refuse(refused_out_of_range,
+                       "pll '" + node + "'" + at + ": " + to_string(f) + " 0; accepted: 1 or more");
                 return;
             }
-            auto& into = f == clock_field::pll_multiplier      ? s->pll.multiplier
-                         : f == clock_field::pll_input_divider ? s->pll.input_divider
-                                                               : s->pll.output_divider;
             into = value;
             return;
         }
@@ -247,8 +249,8 @@ void clock_control_core::write_field(std::uint32_t field, std::uint32_t value, t
                 return;
             }
             if (on && t > sim::max_time_ps - s->slot.start_up) {
-                refuse(refused_out_of_range, "gate '" + node + "'" + at +
-                                                 ": the start-up would end past the time limit");
+                refuse(refused_out_of_range,
+                       "gate '" + node + "'" + at + ": the start-up would end past the time limit");
                 return;
             }
             tree_.set_gate(node, on, on ? t + s->slot.start_up : t);

@@ -90,12 +90,12 @@ private:
     struct slot_state {
         clock_slot slot;
         sim::clock_kind kind = sim::clock_kind::external;
-        sim::pll_params pll;                  // pll: the factors and enable as written
-        std::uint32_t divide = 1;             // divider: the factor as written
-        bool open = true;                     // gate: as written
-        std::size_t source = 0;               // mux: the input requested last
-        std::size_t previous = 0;             // mux: the input before the last switch
-        time_ps switch_at = 0;                // mux: when the last switch takes effect
+        sim::pll_params pll;       // pll: the factors and enable as written
+        std::uint32_t divide = 1;  // divider: the factor as written
+        bool open = true;          // gate: as written
+        std::size_t source = 0;    // mux: the input requested last
+        std::size_t previous = 0;  // mux: the input before the last switch
+        time_ps switch_at = 0;     // mux: when the last switch takes effect
     };
     void refuse(std::uint32_t bit, const std::string& why);
     // Whether some multiplexer selects `node` at t or will once its pending switch is done.

@@ -598,8 +598,9 @@ bool read_clock_node(table_reader& r, const toml::table& t, layout_context& ctx,
     const auto kinds = node_kinds_of(cf);
     if (kinds.empty()) {
         if (t.get("clock") != nullptr) {
-            r.report("clock", std::string("\"") + to_string(cf) +
-                                  "\" belongs to the block, not to a clock; accepted: no clock key");
+            r.report("clock",
+                     std::string("\"") + to_string(cf) +
+                         "\" belongs to the block, not to a clock; accepted: no clock key");
             return false;
         }
     }
@@ -621,6 +622,12 @@ bool read_clock_node(table_reader& r, const toml::table& t, layout_context& ctx,
     if (t.get("start-up") != nullptr) {
         start_up = r.time("start-up");
         if (!start_up) return false;
+        // An oscillator starts in micro- to milliseconds; a second is surely a typo.
+        if (*start_up > sim::ps_per_second) {
+            r.report("start-up", "start-up " + sim::format_time(*start_up) +
+                                     " is out of range; accepted: a time from 0 ps to 1 s");
+            return false;
+        }
     }
     auto& slots = ctx.layout.clock_slots;
     std::uint32_t slot = 0;
@@ -661,8 +668,9 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
     table_reader r(fields.findings(), *t, fields.key_path(item));
     const bool clock_kind = ctx.layout.kind == "clock_control";
     if (clock_kind)
-        r.reject_unknown_keys({"field", "clock", "start-up", "bits", "value_bit", "access", "invert"},
-                              "a clock-control register field");
+        r.reject_unknown_keys(
+            {"field", "clock", "start-up", "bits", "value_bit", "access", "invert"},
+            "a clock-control register field");
     else
         r.reject_unknown_keys(
             {"field", "codes", "channel", "bits", "value_bit", "access", "invert"},
@@ -837,7 +845,8 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
             return;
         }
     }
-    if (clock_kind && clock_slot_of(f.kind_field) != 0) ctx.layout.clock_uses.back().width = f.width;
+    if (clock_kind && clock_slot_of(f.kind_field) != 0)
+        ctx.layout.clock_uses.back().width = f.width;
     out.push_back(f);
     where.push_back(n.source());
 }
@@ -885,8 +894,9 @@ void read_register(sim::findings_list& out, const sim::named_table& entry, layou
             "a whole number from 0 to " + hex(std::uint64_t(max_value)) + " (fits the register)"))
         reg.reset = std::uint32_t(*v);
     if (layout.kind == "clock_control" && reg.reset != 0) {
-        r.report("reset", "a clock-control register reads the clock tree, whose reset state is "
-                          "the scenario's [clocks]; accepted: no reset key (or reset = 0)");
+        r.report("reset",
+                 "a clock-control register reads the clock tree, whose reset state is "
+                 "the scenario's [clocks]; accepted: no reset key (or reset = 0)");
         ok = false;
     }
 
@@ -965,6 +975,12 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
                 top.report("instance", e.what());
             }
         }
+    } else if (layout.kind == "clock_control") {
+        // The block's instance is the scenario's clock tree; its fields name the nodes.
+        if (root.get("instance") != nullptr)
+            top.report("instance",
+                       "a clock-control layout has no [instance]: its fields name the clock nodes "
+                       "they act on; accepted: no [instance] table");
     } else if (kind) {
         read_instance(top, layout.instance);
         if (out.empty()) {

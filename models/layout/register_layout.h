@@ -128,10 +128,10 @@ std::string field_bits(const field_map& f);
 // (check_clock_bindings, models/clock/clock_bindings.h).
 struct clock_use {
     clock_field field = clock_field::ready;
-    std::uint32_t slot = 0;        // 1-based index into register_layout::clock_slots
-    unsigned width = 0;            // bits the field has in its register
-    std::string register_name;     // for messages
-    sim::scenario_finding where;   // file, line, column and key path; message empty
+    std::uint32_t slot = 0;       // 1-based index into register_layout::clock_slots
+    unsigned width = 0;           // bits the field has in its register
+    std::string register_name;    // for messages
+    sim::scenario_finding where;  // file, line, column and key path; message empty
 };
 
 // One register: a named, naturally aligned 8/16/32-bit location of the window.
