@@ -157,14 +157,17 @@ public:
     time_ps set_external(const std::string& input, const frequency& f, time_ps at);
     time_ps set_temperature(const std::string& crystal, std::int64_t celsius, time_ps at);
 
-    // Settings in force at time t, for a clock-control block that reads them back (each throws
-    // clock_config_error for an unknown node or a node of another kind).
+    // Reading settings back (for a clock-control block). Each throws clock_config_error for an
+    // unknown node or a node of another kind.
     // The inputs of a node, in order.
     const std::vector<std::string>& inputs_of(const std::string& name) const;
     // A mux's selected input at t (its index in inputs_of), or none while it switches.
     std::optional<std::size_t> selected_at(const std::string& mux, time_ps t) const;
+    // A divider's factor in force at t.
     std::uint64_t divider_at(const std::string& divider, time_ps t) const;
+    // A PLL's settings in force at t.
     pll_params pll_at(const std::string& pll, time_ps t) const;
+    // Whether a gate is open at t.
     bool gate_at(const std::string& gate, time_ps t) const;
 
     // Forget timeline history before t in every node (bounds memory in long runs).

@@ -15,7 +15,6 @@
 #include "sim/clock_tree.h"
 
 #include <cstdint>
-#include <optional>
 #include <string>
 #include <vector>
 
@@ -97,9 +96,11 @@ private:
         std::size_t previous = 0;  // mux: the input before the last switch
         time_ps switch_at = 0;     // mux: when the last switch takes effect
     };
+    // Sets refusal bit `bit` and keeps `why` for last_refusal().
     void refuse(std::uint32_t bit, const std::string& why);
     // Whether some multiplexer selects `node` at t or will once its pending switch is done.
     bool in_use(const std::string& node, time_ps t) const;
+    // The slot a field number names, or null (the block's own `refused`, or no such slot).
     slot_state* slot_of(std::uint32_t field);
 
     sim::clock_tree& tree_;

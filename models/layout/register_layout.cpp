@@ -1196,6 +1196,12 @@ std::string register_layout::field_name(const field_map& f) const {
     return i < own.size() ? own[i].name : "?";
 }
 
+std::string register_layout::clock_node(const field_map& f) const {
+    if (kind != "clock_control") return {};
+    const std::uint32_t slot = clock_slot_of(f.kind_field);
+    return slot == 0 || slot > clock_slots.size() ? std::string() : clock_slots[slot - 1].node;
+}
+
 bool register_layout::maps_flags(const field_map& f) const {
     if (f.coded()) return false;
     if (kind == "timer") return f.field == timer_field::flags;

@@ -187,6 +187,8 @@ struct register_layout {
     std::vector<std::string> unmapped_field_names() const;
     // The name of the functional field plain field f maps, in this layout's kind.
     std::string field_name(const field_map& f) const;
+    // The clock node a clock-control field acts on ("" for none or another kind).
+    std::string clock_node(const field_map& f) const;
     // Whether plain field f maps the kind's flags field.
     bool maps_flags(const field_map& f) const;
 };

@@ -6,6 +6,7 @@
 #include "examples/parts/demo_timers.h"
 #include "models/clock/clock_bindings.h"
 #include "models/clock/clock_control_core.h"
+#include "models/layout/layout_table.h"
 #include "models/layout/register_file.h"
 #include "models/tick/tick_timer_core.h"
 #include "sim/clock_tree_loader.h"
@@ -105,7 +106,8 @@ struct bench {
     // Programs and starts the PLL at t, the way a driver does.
     void start_pll(std::uint32_t multiplier, time_ps t) {
         write(CK_PLL_FACTORS,
-              CK_PLL_MULTIPLIER(multiplier) | CK_PLL_INPUT_DIVIDER(3) | CK_PLL_OUTPUT_DIVIDER(2), t);
+              CK_PLL_MULTIPLIER(multiplier) | CK_PLL_INPUT_DIVIDER(3) | CK_PLL_OUTPUT_DIVIDER(2),
+              t);
         write(CK_PLL_RUN, CK_PLL_RUN_ENABLE, t);
     }
 };
@@ -126,6 +128,18 @@ TEST(clock_control_test, shipped_layout_names_its_nodes_and_matches_the_demo_hea
     EXPECT_EQ(nodes, (std::vector<std::string>{"sys", "bus", "pll", "timer_a_clk", "timer_b_clk",
                                                "rc_fast", "xtal"}));
     EXPECT_EQ(models::kind_field_names("clock_control").back(), "refused");
+}
+
+TEST(clock_control_test, documented_table_is_the_layout_file) {
+    const std::string doc =
+        tickbench::test_support::read_file(source_dir + "/docs/register-layouts.md");
+    const std::string table = models::layout_table_markdown(shipped());
+    const auto heading = doc.find("### `models/layouts/clock_control.toml`");
+    ASSERT_NE(heading, std::string::npos);
+    const auto next = doc.find("\n## ", heading);
+    EXPECT_NE(doc.substr(heading, next - heading).find("\n" + table), std::string::npos)
+        << "expected table:\n"
+        << table;
 }
 
 TEST(clock_control_test, shipped_layout_binds_to_the_demo_part) {
@@ -192,7 +206,7 @@ offset = 0
 width = 32
 fields = [ { field = "source", clock = "wide", bits = "0..1", access = "read-write" } ]
 )",
-                                              "narrow.toml");
+                                               "narrow.toml");
     const auto bad = models::check_clock_bindings(l, b.tree);
     ASSERT_EQ(bad.size(), 1u);
     EXPECT_EQ(bad[0].text(),
@@ -290,7 +304,7 @@ fields = [
   { field = "ready", clock = "timer_b_clk", bits = 1, access = "read-only" },
 ]
 )",
-                                              "gates.toml");
+                                               "gates.toml");
     b.tree.start();
     ASSERT_TRUE(models::check_clock_bindings(l, b.tree).empty());
     models::clock_control_core core(b.tree, l.clock_slots);
@@ -303,7 +317,8 @@ fields = [
     EXPECT_EQ(v, 1u);
     regs.read(0, 4, v, 25 * us + 125 * ns);
     EXPECT_EQ(v, 3u);
-    EXPECT_EQ(b.tree.domain("timer_b_clk").tick_at(25 * us + 1), b.tree.domain("timer_b_clk").tick_at(0));
+    EXPECT_EQ(b.tree.domain("timer_b_clk").tick_at(25 * us + 1),
+              b.tree.domain("timer_b_clk").tick_at(0));
 }
 
 // A tick timer on the timer clock counting down from the top, read at exact instants.
@@ -321,7 +336,9 @@ struct counter {
         core->write(models::tick_field::enable, 1, t);
     }
     // Edges counted from the start up to t (reads go forward in time, as bus accesses do).
-    std::uint32_t at(time_ps t) { return 0xffff'ffffu - core->read(models::tick_field::current, t); }
+    std::uint32_t at(time_ps t) {
+        return 0xffff'ffffu - core->read(models::tick_field::current, t);
+    }
 };
 
 TEST(clock_control_test, a_counter_follows_the_rc_to_pll_switch_at_the_exact_edge) {
