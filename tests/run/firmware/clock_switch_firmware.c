@@ -42,8 +42,8 @@ void tick_firmware_main(void) {
     const uint32_t bus_divide = (uint32_t)strtoul(tick_param("bus_divide", "2"), NULL, 0);
 
     pwm_period(800);
-    tick_write16(timer + Q16_SHAPE_AB,
-                 Q16_SHAPE_BYTE(0, Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) | Q16_SHAPE_MAIN_ENABLE));
+    tick_write16(timer + Q16_SHAPE_AB, Q16_SHAPE_BYTE(0, Q16_SHAPE_ACTION(DEMO_ACTION_PWM_BELOW) |
+                                                             Q16_SHAPE_MAIN_ENABLE));
     tick_write16(timer + Q16_RUN, Q16_RUN_ENABLE);
     tick_cycles(8000); /* 1 ms on the 8 MHz RC oscillator */
 
