@@ -2,6 +2,7 @@
 
 #include "harness/firmware_context.h"
 #include "harness/trap/trap_engine.h"
+#include "models/clock/clock_bindings.h"
 
 #include <spdlog/spdlog.h>
 #include <systemc>
@@ -139,11 +140,13 @@ struct platform::peripheral_slot {
     std::unique_ptr<models::tick_timer_core> tick;
     std::unique_ptr<models::watchdog_core> dog;
     std::unique_ptr<models::slow_counter_core> slow;
+    std::unique_ptr<models::clock_control_core> clock_control;
     reset_watch dog_watch;
     // The model, whichever kind it is.
     models::event_source* model() const {
         if (tick) return tick.get();
         if (slow) return slow.get();
+        if (clock_control) return clock_control.get();
         return dog.get();
     }
     std::unique_ptr<models::register_file> registers;
@@ -222,11 +225,11 @@ void platform::add_timer(timer_spec spec) {
 void platform::add_peripheral(peripheral_spec spec) {
     if (built_) throw std::logic_error("platform: peripheral added after build()");
     if (spec.layout.kind != "tick_timer" && spec.layout.kind != "watchdog" &&
-        spec.layout.kind != "slow_counter")
-        throw std::invalid_argument(
-            "peripheral '" + spec.name + "': kind \"" + spec.layout.kind +
-            "\" is not one the platform builds as a peripheral; accepted: "
-            "\"tick_timer\", \"watchdog\", \"slow_counter\" (timers are added with add_timer)");
+        spec.layout.kind != "slow_counter" && spec.layout.kind != "clock_control")
+        throw std::invalid_argument("peripheral '" + spec.name + "': kind \"" + spec.layout.kind +
+                                    "\" is not one the platform builds as a peripheral; accepted: "
+                                    "\"tick_timer\", \"watchdog\", \"slow_counter\", "
+                                    "\"clock_control\" (timers are added with add_timer)");
     auto slot = std::make_unique<peripheral_slot>();
     slot->spec = std::move(spec);
     peripherals_.push_back(std::move(slot));
@@ -285,6 +288,13 @@ void platform::build() {
             clocks_.subscribe(p.spec.clock, p.spec.name,
                               [core](sim::time_ps t) { core->clock_changed(t); });
             port = core;
+        } else if (p.spec.layout.kind == "clock_control") {
+            const auto bad = models::check_clock_bindings(p.spec.layout, clocks_);
+            if (!bad.empty()) throw sim::scenario_error(bad);
+            // Its requests change the tree, whose consumers follow on their own.
+            p.clock_control =
+                std::make_unique<models::clock_control_core>(clocks_, p.spec.layout.clock_slots);
+            port = p.clock_control.get();
         } else if (p.spec.layout.kind == "slow_counter") {
             p.slow_irq.irqs = irqs_.get();
             p.slow_irq.line = p.irq.line;
@@ -302,7 +312,8 @@ void platform::build() {
         }
         p.registers = std::make_unique<models::register_file>(p.spec.layout, *port, p.spec.name,
                                                               policy_, p.spec.base);
-        p.registers->apply_reset(0);
+        // A clock-control block's reset state is the tree's, already in force.
+        if (!p.clock_control) p.registers->apply_reset(0);
         if (p.slow) p.slow->settle(0);
         p.target = std::make_unique<models::timer_target>((p.spec.name + "_bus").c_str(),
                                                           *p.registers, p.spec.access_latency);

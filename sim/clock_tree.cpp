@@ -23,6 +23,8 @@ const char* to_string(clock_kind k) {
             return "mux";
         case clock_kind::gate:
             return "gate";
+        case clock_kind::boost:
+            return "boost";
     }
     return "?";
 }
@@ -134,6 +136,13 @@ void clock_tree::add_gate(const std::string& name, const std::string& input, boo
     n.history.back().second.enabled = enabled;
 }
 
+void clock_tree::add_boost(const std::string& name, const std::string& input,
+                           std::uint64_t factor) {
+    node& n = add(name, clock_kind::boost);
+    n.input_names = {input};
+    n.history.back().second.factor = factor;
+}
+
 void clock_tree::subscribe(const std::string& node_name, const std::string& consumer,
                            change_callback on_change, bool needs_running) {
     auto it = by_name_.find(node_name);
@@ -211,6 +220,12 @@ std::vector<frequency> settled(const std::vector<std::size_t>& topo,
             case clock_kind::gate:
                 if (c.enabled) f[id] = f[inputs[id][0]];
                 break;
+            case clock_kind::boost: {
+                const std::size_t in = inputs[id][0];
+                const bool divided = kinds[in] == clock_kind::divider && s[in]->factor > 1;
+                f[id] = divided ? f[in].scaled(c.factor, 1) : f[in];
+                break;
+            }
         }
     }
     return f;
@@ -299,6 +314,9 @@ std::vector<std::string> clock_tree::problems() const {
             case clock_kind::divider:
                 if (s.factor == 0) out.push_back(who + ": divide factor is 0; accepted: 1 or more");
                 break;
+            case clock_kind::boost:
+                if (s.factor == 0) out.push_back(who + ": factor is 0; accepted: 1 or more");
+                break;
             case clock_kind::mux:
                 if (s.selected < 0 || static_cast<std::size_t>(s.selected) >= n->input_names.size())
                     out.push_back(who + ": selected input " + std::to_string(s.selected) +
@@ -310,6 +328,16 @@ std::vector<std::string> clock_tree::problems() const {
         }
     }
     if (!inputs_ok) return out;
+    for (std::size_t i = 0; i < nodes_.size(); ++i) {
+        const node& n = *nodes_[i];
+        if (n.kind != clock_kind::boost) continue;
+        const node& in = *nodes_[inputs[i][0]];
+        if (in.kind != clock_kind::divider)
+            out.push_back("boost '" + n.name + "': input '" + in.name + "' is a " +
+                          to_string(in.kind) +
+                          "; accepted: a divider (the boost multiplies while that divider divides "
+                          "by more than 1)");
+    }
     std::vector<std::size_t> order;
     {
         std::vector<std::size_t> pending(nodes_.size());
@@ -454,11 +482,19 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
     const time_ps after = at == max_time_ps ? at : at + 1;
     const std::uint64_t next = n.out.tick_at(after);
     auto stopped = [&] { return clock_segment::stopped(next, at == 0 ? 0 : after); };
+    // The first instant whose input edge this node passes: at reset the edge at 0; when the
+    // input's new timeline starts with an edge at `at` (a mux reaching its new input, a PLL
+    // locking), that edge, which no earlier timeline of this node had; otherwise edges after `at`.
+    auto input_from = [&](std::size_t input) {
+        if (at == 0) return time_ps{0};
+        const clock_segment& in = nodes_[input]->out.segment_at(at);
+        return in.is_running() && in.start() == at ? at : after;
+    };
     auto follow = [&](std::size_t input) {
-        const time_ps from = at == 0 ? 0 : after;  // at reset, the edge at 0 passes
+        const time_ps from = input_from(input);
         const clock_segment& in = nodes_[input]->out.segment_at(from);
         if (!in.is_running()) return stopped();
-        return clock_segment::derived(in, in.tick_at(from), next, 1);
+        return clock_segment::derived(in, in.tick_at(from), n.out.tick_at(from), 1);
     };
     auto source = [&](const frequency& f, time_ps jitter, std::uint64_t seed) {
         const clock_segment& old = n.out.segment_at(at);
@@ -500,6 +536,31 @@ clock_segment clock_tree::make_segment(std::size_t id, time_ps at) const {
                                  (it - 1)->source_tick_of(last) + (it - 1)->factor());
             }
             return clock_segment::derived(in, j, next, s.factor);
+        }
+        case clock_kind::boost: {
+            const time_ps from = input_from(n.inputs[0]);
+            const std::uint64_t first = n.out.tick_at(from);
+            const node& div = *nodes_[n.inputs[0]];
+            const clock_segment& d = div.out.segment_at(from);
+            if (!d.is_running()) return stopped();
+            const std::uint64_t q = d.factor();
+            if (q <= 1 || s.factor == 1) return follow(n.inputs[0]);
+            if (q % s.factor == 0) {
+                // Every (q / factor)-th edge of the divider's own input, counted from an edge of
+                // the divider: exact to the input's sub-picosecond phase.
+                const std::uint64_t step = q / s.factor;
+                const clock_segment& src = nodes_[div.inputs[0]]->out.segment_at(from);
+                if (src.is_running() && d.source_tick() >= src.first_tick()) {
+                    const std::uint64_t g = src.tick_at(from);
+                    std::uint64_t p = d.source_tick();
+                    if (g > p) p += (g - p + step - 1) / step * step;
+                    return clock_segment::derived(src, p, first, step);
+                }
+            }
+            // A factor that does not divide the divider's: the multiplied clock starts at the
+            // divider's next edge.
+            const std::uint64_t k = d.tick_at(from);
+            return clock_segment::running(first, d.time_of(k), d.freq().scaled(s.factor, 1));
         }
         case clock_kind::pll: {
             // The latest disturbance at or before `at` decides whether the PLL has locked yet.
@@ -692,6 +753,38 @@ time_ps clock_tree::set_temperature(const std::string& crystal, std::int64_t cel
     return e ? e->at : at;
 }
 
+const std::vector<std::string>& clock_tree::inputs_of(const std::string& name) const {
+    return find(name).input_names;
+}
+
+namespace {
+template <typename Node>
+const Node& of_kind(const Node& n, clock_kind expected) {
+    if (n.kind != expected)
+        throw clock_config_error("clock '" + n.name + "' is a " + to_string(n.kind) + ", not a " +
+                                 to_string(expected));
+    return n;
+}
+}  // namespace
+
+std::optional<std::size_t> clock_tree::selected_at(const std::string& mux, time_ps t) const {
+    const std::int64_t s = of_kind(find(mux), clock_kind::mux).at(t).selected;
+    if (s < 0) return std::nullopt;
+    return static_cast<std::size_t>(s);
+}
+
+std::uint64_t clock_tree::divider_at(const std::string& divider, time_ps t) const {
+    return of_kind(find(divider), clock_kind::divider).at(t).factor;
+}
+
+pll_params clock_tree::pll_at(const std::string& pll, time_ps t) const {
+    return of_kind(find(pll), clock_kind::pll).at(t).pll;
+}
+
+bool clock_tree::gate_at(const std::string& gate, time_ps t) const {
+    return of_kind(find(gate), clock_kind::gate).at(t).enabled;
+}
+
 void clock_tree::forget_before(time_ps t) {
     for (auto& n : nodes_) {
         n->out.forget_before(t);
@@ -776,6 +869,13 @@ std::vector<clock_plan_row> clock_tree::plan(time_ps at) const {
             case clock_kind::gate:
                 d << (c.enabled ? "open" : "closed");
                 break;
+            case clock_kind::boost: {
+                const std::size_t in = inputs[id][0];
+                const bool divided = kinds[in] == clock_kind::divider && s[in]->factor > 1;
+                d << "x" << c.factor << " while " << n.input_names[0]
+                  << " divides by more than 1 (now x" << (divided ? c.factor : 1) << ")";
+                break;
+            }
         }
         r.settings = d.str();
         rows.push_back(std::move(r));

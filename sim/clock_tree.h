@@ -31,8 +31,8 @@ public:
     using std::runtime_error::runtime_error;
 };
 
-enum class clock_kind { crystal, rc_oscillator, external, pll, divider, mux, gate };
-// "crystal", "rc-oscillator", "external", "pll", "divider", "mux", "gate".
+enum class clock_kind { crystal, rc_oscillator, external, pll, divider, mux, gate, boost };
+// "crystal", "rc-oscillator", "external", "pll", "divider", "mux", "gate", "boost".
 const char* to_string(clock_kind k);
 
 // A quartz crystal oscillator. Its frequency is nominal offset by `offset_ppb` plus a parabolic
@@ -116,6 +116,10 @@ public:
     void add_mux(const std::string& name, const std::vector<std::string>& inputs,
                  std::size_t selected);
     void add_gate(const std::string& name, const std::string& input, bool enabled);
+    // A boost: its input, which must be a divider, multiplied by `factor` while that divider
+    // divides by more than 1, and passed unchanged while it divides by 1 (the clock of timers on a
+    // divided bus; docs/scenario.md, "Clock tree").
+    void add_boost(const std::string& name, const std::string& input, std::uint64_t factor);
 
     // A consumer (a peripheral, a probe) listening to a node. With needs_running, the node must be
     // running when the run starts. The callback may be empty (the consumer only reads the domain).
@@ -152,6 +156,19 @@ public:
     time_ps set_trim(const std::string& rc, std::int64_t trim, time_ps at);
     time_ps set_external(const std::string& input, const frequency& f, time_ps at);
     time_ps set_temperature(const std::string& crystal, std::int64_t celsius, time_ps at);
+
+    // Reading settings back (for a clock-control block). Each throws clock_config_error for an
+    // unknown node or a node of another kind.
+    // The inputs of a node, in order.
+    const std::vector<std::string>& inputs_of(const std::string& name) const;
+    // A mux's selected input at t (its index in inputs_of), or none while it switches.
+    std::optional<std::size_t> selected_at(const std::string& mux, time_ps t) const;
+    // A divider's factor in force at t.
+    std::uint64_t divider_at(const std::string& divider, time_ps t) const;
+    // A PLL's settings in force at t.
+    pll_params pll_at(const std::string& pll, time_ps t) const;
+    // Whether a gate is open at t.
+    bool gate_at(const std::string& gate, time_ps t) const;
 
     // Forget timeline history before t in every node (bounds memory in long runs).
     void forget_before(time_ps t);

@@ -161,7 +161,7 @@ std::optional<std::pair<std::int64_t, std::int64_t>> int_pair(table_reader& r,
 
 constexpr clock_kind all_kinds[] = {
     clock_kind::crystal, clock_kind::rc_oscillator, clock_kind::external, clock_kind::pll,
-    clock_kind::divider, clock_kind::mux,           clock_kind::gate};
+    clock_kind::divider, clock_kind::mux,           clock_kind::gate,     clock_kind::boost};
 
 std::vector<std::string> keys_of(clock_kind k) {
     switch (k) {
@@ -182,6 +182,8 @@ std::vector<std::string> keys_of(clock_kind k) {
             return {"kind", "inputs", "select"};
         case clock_kind::gate:
             return {"kind", "input", "enabled"};
+        case clock_kind::boost:
+            return {"kind", "input", "factor"};
     }
     return {};
 }
@@ -286,6 +288,13 @@ bool read_node(table_reader& r, const std::string& name, const toml::table& t, n
             take("enabled", r.boolean("enabled"), spec.enabled);
             break;
         }
+        case clock_kind::boost: {
+            if (auto in = clock_name(r, "input", true); need(in)) spec.inputs.push_back(*in);
+            std::int64_t f = 2;
+            take("factor", r.integer("factor", 1, max_ratio_factor, false), f);
+            spec.factor = static_cast<std::uint64_t>(f);
+            break;
+        }
     }
     return ok;
 }
@@ -379,6 +388,9 @@ void load_clocks(const toml::table& root, const std::string& file, clock_tree& t
                 break;
             case clock_kind::gate:
                 tree.add_gate(s.name, s.inputs[0].name, s.enabled);
+                break;
+            case clock_kind::boost:
+                tree.add_boost(s.name, s.inputs[0].name, s.factor);
                 break;
             case clock_kind::mux: {
                 std::vector<std::string> names;

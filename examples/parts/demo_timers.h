@@ -206,4 +206,31 @@
 #define SC_STATUS_ALARM 0x02u /* write 1 to clear */
 #define SC_WRITE_LATENCY 3u   /* slow edges from a write to its effect */
 
+/* ---- clock_control: the clock-control block over the demo part's clock tree, slot 11 at
+ * 0x5000_2C00 (models/layouts/clock_control.toml, docs/clock-control.md). A refused request sets a
+ * bit of CK_REFUSALS (write 1 to clear) and keeps the old setting. ---- */
+#define CK_SYSTEM_SOURCE 0x00u
+#define CK_SOURCE_RC_FAST 0u /* the system clock's inputs, in the order of the mux "sys" */
+#define CK_SOURCE_PLL 1u
+#define CK_SOURCE_NOW(reg) (((reg) >> 4) & 3u) /* the input followed now */
+#define CK_BUS_DIVIDE 0x04u                    /* the bus divider's factor, 1..255 */
+#define CK_PLL_FACTORS 0x08u                   /* written while the PLL is stopped */
+#define CK_PLL_MULTIPLIER(m) ((unsigned)(m))
+#define CK_PLL_INPUT_DIVIDER(d) ((unsigned)(d) << 8)
+#define CK_PLL_OUTPUT_DIVIDER(d) ((unsigned)(d) << 12)
+#define CK_PLL_RUN 0x0cu
+#define CK_PLL_RUN_ENABLE 0x001u
+#define CK_PLL_RUN_READY 0x100u /* rises one lock time after the enable */
+#define CK_TIMER_GATES 0x10u
+#define CK_GATE_TIMER_A 0x1u
+#define CK_GATE_TIMER_B 0x2u
+#define CK_REFUSALS 0x14u
+#define CK_REFUSED_NOT_READY 0x1u     /* selected a stopped input (PLL not locked...) */
+#define CK_REFUSED_OUT_OF_RANGE 0x2u  /* a value the clock rules forbid (VCO range...) */
+#define CK_REFUSED_IN_USE 0x4u        /* stopped a clock the system clock runs from */
+#define CK_REFUSED_WHILE_RUNNING 0x8u /* PLL factors written while it runs */
+#define CK_OSCILLATORS 0x18u
+#define CK_OSC_RC_FAST_READY 0x1u
+#define CK_OSC_XTAL_READY 0x2u
+
 #endif

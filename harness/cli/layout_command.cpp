@@ -28,6 +28,8 @@ int run_layout(const layout_options& options, std::ostream& out) {
     else if (layout.kind == "slow_counter")
         out << layout.slow.counter_bits << "-bit counter, write latency "
             << layout.slow.write_latency << " slow edges";
+    else if (layout.kind == "clock_control")
+        out << layout.clock_slots.size() << " clock nodes";
     else
         out << c.counter_bits << "-bit counter, " << c.channels << " channels";
     out << ", " << layout.registers.size() << " registers, " << layout.codes.size()

@@ -11,6 +11,7 @@
 
 #include "harness/run/scenario_inputs.h"
 
+#include "models/clock/clock_bindings.h"
 #include "models/layout/register_layout.h"
 #include "sim/checks/check_spec_text.h"
 #include "sim/checks/condition.h"
@@ -320,11 +321,21 @@ void read_peripherals(context& c, const toml::table& root) {
                                 ? std::string()
                                 : "layout " + in_quotes(path) +
                                       " describes a timer; accepted: a layout of another kind "
-                                      "(\"tick_timer\", \"watchdog\", \"slow_counter\"); timers go "
+                                      "(\"tick_timer\", \"watchdog\", \"slow_counter\", "
+                                      "\"clock_control\"); timers "
+                                      "go "
                                       "under [timers]";
                  }) &&
              ok;
         ok = read_window(r, spec, ok);
+        if (ok && spec.layout.kind == "clock_control") {
+            // The layout names nodes of this scenario's tree; a mismatch is the layout file's.
+            const auto bad = models::check_clock_bindings(spec.layout, c.tree);
+            if (!bad.empty()) {
+                c.out.add_foreign(bad);
+                ok = false;
+            }
+        }
         if (auto e = r.boolean("reset-expected")) {
             spec.reset_expected = *e;
             if (ok && spec.layout.kind != "watchdog") {

@@ -45,6 +45,7 @@ std::string describe_fields(const register_map& reg, const register_layout& layo
         if (layout.kind == "timer" &&
             (table ? table->sets_channel_field() : is_channel_field(f.field)))
             out += "[" + std::to_string(f.channel) + "]";
+        if (const std::string node = layout.clock_node(f); !node.empty()) out += " of " + node;
         if (f.value_bit != 0)
             out +=
                 (f.width == 1 ? " value bit " : " value bits ") + bit_range(f.value_bit, f.width);
@@ -114,6 +115,7 @@ std::string layout_json(const register_layout& layout) {
             if (layout.kind == "timer" &&
                 (table ? table->sets_channel_field() : is_channel_field(f.field)))
                 j["channel"] = f.channel;
+            if (const std::string node = layout.clock_node(f); !node.empty()) j["clock"] = node;
             if (!table) j["value_bit"] = f.value_bit;
             j["access"] = to_string(f.access);
             if (!table) j["invert"] = f.invert;

@@ -143,7 +143,20 @@ std::vector<own_field> own_fields(const register_layout& l) {
             out.push_back({to_string(f), width, f == slow_field::flags});
         }
     }
+    if (l.kind == "clock_control") {
+        for (std::uint32_t i = 0; i < clock_field_count; ++i) {
+            const auto f = static_cast<clock_field>(i);
+            out.push_back({to_string(f), value_width(f), f == clock_field::refused});
+        }
+    }
     return out;
+}
+
+// The index in own_fields() of a field number: a clock-control field's number carries its node's
+// slot as well.
+std::uint32_t own_index(const register_layout& l, std::uint32_t kind_field) {
+    return l.kind == "clock_control" ? static_cast<std::uint32_t>(clock_field_of(kind_field))
+                                     : kind_field;
 }
 
 void read_watchdog_instance(table_reader& top, watchdog_config& cfg) {
@@ -578,6 +591,67 @@ void check_raw_values(table_reader& r, const field_map& f, const std::string& fi
     }
 }
 
+// Reads the `clock` and `start-up` keys of a clock-control field whose functional field is already
+// in f.kind_field (as a bare clock_field), and numbers the field with its node's slot.
+bool read_clock_node(table_reader& r, const toml::table& t, layout_context& ctx,
+                     const register_map& reg, field_map& f) {
+    const clock_field cf = clock_field_of(f.kind_field);
+    const auto kinds = node_kinds_of(cf);
+    if (kinds.empty()) {
+        if (t.get("clock") != nullptr) {
+            r.report("clock",
+                     std::string("\"") + to_string(cf) +
+                         "\" belongs to the block, not to a clock; accepted: no clock key");
+            return false;
+        }
+    }
+    if (t.get("start-up") != nullptr && cf != clock_field::open) {
+        r.report("start-up", std::string("only an \"open\" field starts a clock; accepted: no "
+                                         "start-up key on a \"") +
+                                 to_string(cf) + "\" field");
+        return false;
+    }
+    if (kinds.empty()) return true;
+    const toml::node* n = r.get("clock", true, "the name of a node of the scenario's clock tree");
+    if (n == nullptr) return false;
+    if (!n->is_string() || n->as_string()->get().empty()) {
+        r.wrong(*n, "clock", "the name of a node of the scenario's clock tree");
+        return false;
+    }
+    const std::string node = n->as_string()->get();
+    std::optional<sim::time_ps> start_up;
+    if (t.get("start-up") != nullptr) {
+        start_up = r.time("start-up");
+        if (!start_up) return false;
+        // An oscillator starts in micro- to milliseconds; a second is surely a typo.
+        if (*start_up > sim::ps_per_second) {
+            r.report("start-up", "start-up " + sim::format_time(*start_up) +
+                                     " is out of range; accepted: a time from 0 ps to 1 s");
+            return false;
+        }
+    }
+    auto& slots = ctx.layout.clock_slots;
+    std::uint32_t slot = 0;
+    for (std::size_t i = 0; i < slots.size(); ++i)
+        if (slots[i].node == node) slot = std::uint32_t(i + 1);
+    if (slot == 0) {
+        slots.push_back({node, 0});
+        slot = std::uint32_t(slots.size());
+    }
+    if (start_up) slots[slot - 1].start_up = *start_up;
+    f.kind_field = clock_field_number(cf, slot);
+    clock_use use;
+    use.field = cf;
+    use.slot = slot;
+    use.register_name = reg.name;
+    use.where.file = ctx.layout.file;
+    use.where.line = n->source().begin.line;
+    use.where.column = n->source().begin.column;
+    use.where.key = r.key_path("clock");
+    ctx.layout.clock_uses.push_back(use);
+    return true;
+}
+
 // Reads entry `index` of the register's `fields` array (`fields` reads the register's table).
 void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
                 const register_map& reg, std::vector<field_map>& out,
@@ -593,8 +667,15 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
         return;
     }
     table_reader r(fields.findings(), *t, fields.key_path(item));
-    r.reject_unknown_keys({"field", "codes", "channel", "bits", "value_bit", "access", "invert"},
-                          "a register field");
+    const bool clock_kind = ctx.layout.kind == "clock_control";
+    if (clock_kind)
+        r.reject_unknown_keys(
+            {"field", "clock", "start-up", "bits", "value_bit", "access", "invert"},
+            "a clock-control register field");
+    else
+        r.reject_unknown_keys(
+            {"field", "codes", "channel", "bits", "value_bit", "access", "invert"},
+            "a register field");
     bool ok = true;
     field_map f;
 
@@ -653,6 +734,7 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
         ok = false;
     }
 
+    if (ok && clock_kind) ok = read_clock_node(r, *t, ctx, reg, f);
     if (ok && !timer_kind) {
         ok = read_channel(r, *t, false,
                           "a \"" + ctx.layout.kind + "\" layout has no per-channel fields", cfg,
@@ -726,8 +808,8 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
 
     if (!ok) return;
     if (!timer_kind) {
-        const own_field o =
-            own_fields(ctx.layout)[f.kind_field];  // a copy: the list is a temporary
+        const own_field o = own_fields(
+            ctx.layout)[own_index(ctx.layout, f.kind_field)];  // a copy: the list is a temporary
         if (f.value_bit + f.width > o.width) {
             r.report(t->get("value_bit") ? "value_bit" : "bits",
                      "the field holds value bits " + bit_range(f.value_bit, f.width) + " but \"" +
@@ -764,6 +846,8 @@ void read_field(table_reader& fields, std::size_t index, layout_context& ctx,
             return;
         }
     }
+    if (clock_kind && clock_slot_of(f.kind_field) != 0)
+        ctx.layout.clock_uses.back().width = f.width;
     out.push_back(f);
     where.push_back(n.source());
 }
@@ -810,6 +894,12 @@ void read_register(sim::findings_list& out, const sim::named_table& entry, layou
             "reset", 0, max_value, false,
             "a whole number from 0 to " + hex(std::uint64_t(max_value)) + " (fits the register)"))
         reg.reset = std::uint32_t(*v);
+    if (layout.kind == "clock_control" && reg.reset != 0) {
+        r.report("reset",
+                 "a clock-control register reads the clock tree, whose reset state is "
+                 "the scenario's [clocks]; accepted: no reset key (or reset = 0)");
+        ok = false;
+    }
 
     const auto* fields =
         r.get("fields", true, "an array of fields (an empty array for a spare register)");
@@ -886,6 +976,12 @@ register_layout read_layout(const toml::table& root, const std::string& file) {
                 top.report("instance", e.what());
             }
         }
+    } else if (layout.kind == "clock_control") {
+        // The block's instance is the scenario's clock tree; its fields name the nodes.
+        if (root.get("instance") != nullptr)
+            top.report("instance",
+                       "a clock-control layout has no [instance]: its fields name the clock nodes "
+                       "they act on; accepted: no [instance] table");
     } else if (kind) {
         read_instance(top, layout.instance);
         if (out.empty()) {
@@ -1097,14 +1193,22 @@ nearest_register register_layout::nearest(std::uint64_t offset) const {
 std::string register_layout::field_name(const field_map& f) const {
     if (kind == "timer") return to_string(f.field);
     const auto own = own_fields(*this);
-    return f.kind_field < own.size() ? own[f.kind_field].name : "?";
+    const std::uint32_t i = own_index(*this, f.kind_field);
+    return i < own.size() ? own[i].name : "?";
+}
+
+std::string register_layout::clock_node(const field_map& f) const {
+    if (kind != "clock_control") return {};
+    const std::uint32_t slot = clock_slot_of(f.kind_field);
+    return slot == 0 || slot > clock_slots.size() ? std::string() : clock_slots[slot - 1].node;
 }
 
 bool register_layout::maps_flags(const field_map& f) const {
     if (f.coded()) return false;
     if (kind == "timer") return f.field == timer_field::flags;
     const auto own = own_fields(*this);
-    return f.kind_field < own.size() && own[f.kind_field].flags;
+    const std::uint32_t i = own_index(*this, f.kind_field);
+    return i < own.size() && own[i].flags;
 }
 
 std::vector<std::string> register_layout::unmapped_field_names() const {
@@ -1119,7 +1223,7 @@ std::vector<std::string> register_layout::unmapped_field_names() const {
     for (std::uint32_t i = 0; i < own.size(); ++i) {
         bool found = false;
         for (const auto& r : registers)
-            for (const auto& m : r.fields) found = found || m.kind_field == i;
+            for (const auto& m : r.fields) found = found || own_index(*this, m.kind_field) == i;
         if (!found) out.push_back(own[i].name);
     }
     return out;
@@ -1127,7 +1231,7 @@ std::vector<std::string> register_layout::unmapped_field_names() const {
 
 const std::vector<std::string>& peripheral_kinds() {
     static const std::vector<std::string> kinds = {"timer", "tick_timer", "watchdog",
-                                                   "slow_counter"};
+                                                   "slow_counter", "clock_control"};
     return kinds;
 }
 

@@ -19,6 +19,7 @@
 // accepted, reading through the TOML reader every loader shares (sim/toml_reader.h). That reader
 // and its TOML library stay in the .cpp: this header is cheap to include.
 
+#include "models/clock/clock_control_core.h"
 #include "models/slow/slow_counter_core.h"
 #include "models/tick/tick_timer_core.h"
 #include "models/timer/timer_types.h"
@@ -122,6 +123,17 @@ struct field_map {
 // "+", low raw bits first ("3+1..2").
 std::string field_bits(const field_map& f);
 
+// A clock-control field that names a node of the clock tree: kept with the place of its `clock`
+// key, so that a node the scenario's tree lacks, or of the wrong kind, is reported there
+// (check_clock_bindings, models/clock/clock_bindings.h).
+struct clock_use {
+    clock_field field = clock_field::ready;
+    std::uint32_t slot = 0;       // 1-based index into register_layout::clock_slots
+    unsigned width = 0;           // bits the field has in its register
+    std::string register_name;    // for messages
+    sim::scenario_finding where;  // file, line, column and key path; message empty
+};
+
 // One register: a named, naturally aligned 8/16/32-bit location of the window.
 struct register_map {
     std::string name;
@@ -153,6 +165,9 @@ struct register_layout {
     tick_config tick;        // kind "tick_timer": what the tick timer instance has
     watchdog_config watchdog;  // kind "watchdog": what the watchdog instance has
     slow_config slow;          // kind "slow_counter": what the slow-clock counter instance has
+    // Kind "clock_control": the nodes its fields name, one slot per node, and every use.
+    std::vector<clock_slot> clock_slots;
+    std::vector<clock_use> clock_uses;
     std::vector<register_map> registers;
     std::vector<code_table> codes;  // value tables, in file order
 
@@ -172,11 +187,14 @@ struct register_layout {
     std::vector<std::string> unmapped_field_names() const;
     // The name of the functional field plain field f maps, in this layout's kind.
     std::string field_name(const field_map& f) const;
+    // The clock node a clock-control field acts on ("" for none or another kind).
+    std::string clock_node(const field_map& f) const;
     // Whether plain field f maps the kind's flags field.
     bool maps_flags(const field_map& f) const;
 };
 
-// The peripheral kinds a layout may name: "timer", "tick_timer", "watchdog", "slow_counter".
+// The peripheral kinds a layout may name: "timer", "tick_timer", "watchdog", "slow_counter",
+// "clock_control".
 const std::vector<std::string>& peripheral_kinds();
 // The functional field names of kind `kind`, in field-number order (empty for an unknown kind).
 std::vector<std::string> kind_field_names(std::string_view kind);

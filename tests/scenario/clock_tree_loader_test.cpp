@@ -35,13 +35,14 @@ TEST(clock_tree_loader_test, demo_part_gives_exact_frequencies) {
     sim::clock_tree tree;
     sim::load_clock_tree_file(demo_part, tree);
     const auto f = frequencies(tree);
-    ASSERT_EQ(f.size(), 10u);
+    ASSERT_EQ(f.size(), 11u);
     EXPECT_EQ(f.at("xtal"), sim::frequency::hz(12'000'000));
     // 12 MHz / 3 x 48 / 2.
     EXPECT_EQ(f.at("pll"), sim::frequency::hz(96'000'000));
     EXPECT_EQ(f.at("sys"), sim::frequency::hz(96'000'000));
-    // sys / 3.
-    EXPECT_EQ(f.at("bus"), sim::frequency::hz(32'000'000));
+    // sys / 6, and the timers' boost doubles it while the bus divider is above 1.
+    EXPECT_EQ(f.at("bus"), sim::frequency::hz(16'000'000));
+    EXPECT_EQ(f.at("timers"), sim::frequency::hz(32'000'000));
     EXPECT_EQ(f.at("timer_a_clk"), sim::frequency::hz(32'000'000));
     EXPECT_EQ(f.at("timer_b_clk"), sim::frequency::hz(32'000'000));
     // +0.6 % deviation, trim -6 x 0.1 %: back to nominal.
@@ -64,7 +65,7 @@ TEST(clock_tree_loader_test, demo_part_plan_is_valid_json) {
     sim::load_clock_tree_file(demo_part, tree);
     const nlohmann::json plan = nlohmann::json::parse(sim::clock_plan_json(tree.plan(0)));
     ASSERT_TRUE(plan.at("clocks").is_array());
-    ASSERT_EQ(plan.at("clocks").size(), 10u);
+    ASSERT_EQ(plan.at("clocks").size(), 11u);
     bool found = false;
     for (const auto& c : plan.at("clocks"))
         if (c.at("name") == "pll") {
