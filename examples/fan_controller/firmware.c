@@ -32,8 +32,8 @@
 #define TICK_HZ 1000u
 #define DEAD_TIME_TICKS 96u                           /* 1 us at 96 MHz */
 #define TACH_PRESCALER (FAN_CLOCK_HZ / 1000000u - 1u) /* the tach timer counts 1 MHz */
-/* A 4-wire fan's tachometer gives 2 pulses per revolution: published 4-wire fan PWM
- * specification (from memory). */
+/* A 4-wire fan's tachometer gives 2 pulses per revolution: Intel, "4-Wire Pulse Width Modulation
+ * (PWM) Controlled Fans" specification (from memory). */
 #define PULSES_PER_REV 2u
 #define US_PER_MINUTE 60000000u
 /* Duties in hundredths of a percent. The controller keeps fan 1 between 20 % and 90 % (demo
