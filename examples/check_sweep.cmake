@@ -1,11 +1,14 @@
-# One counter-extension sweep: runs `tickbench sweep` over both read variants at the start offsets
-# OFFSETS and compares the summary's per-variant lines with the section [OFFSETS] of EXPECTED
-# (expected_sweep.txt). Inputs: TICKBENCH, SCENARIO, FIRMWARE, OFFSETS, EXPECTED, OUT.
+# One example sweep: runs `tickbench sweep` over the firmware's variants and the values VALUES of
+# the axis AXIS, and compares the summary's per-variant lines with the section [VALUES] of EXPECTED
+# (the example's expected_sweep.txt). Inputs: TICKBENCH, SCENARIO, FIRMWARE, VARIANTS (the values
+# of param.variant, comma-separated), AXIS, VALUES, EXPECTED, OUT, and optional SWEEP_ARGS (more
+# `sweep` options separated by "|", e.g. "--duration|800 us").
+string(REPLACE "|" ";" extra_args "${SWEEP_ARGS}")
 execute_process(
-  COMMAND ${TICKBENCH} sweep ${SCENARIO} --firmware ${FIRMWARE} --duration "800 us"
-          --vary param.variant=naive,careful --vary start-offset=${OFFSETS} --out ${OUT}
+  COMMAND ${TICKBENCH} sweep ${SCENARIO} --firmware ${FIRMWARE} ${extra_args}
+          --vary param.variant=${VARIANTS} --vary ${AXIS}=${VALUES} --out ${OUT}
   RESULT_VARIABLE code OUTPUT_VARIABLE out ERROR_VARIABLE err)
-# The naive variant's firmware check fails somewhere in every section: exit code 3.
+# Each example's naive variant fails its firmware check somewhere in every section: exit code 3.
 if(NOT code EQUAL 3)
   message(FATAL_ERROR "tickbench sweep exited ${code}, expected 3:\n${out}\n${err}")
 endif()
@@ -16,7 +19,7 @@ set(expected "")
 set(inside FALSE)
 foreach(line IN LISTS expected_lines)
   if(line MATCHES "^\\[(.*)\\]$")
-    if(CMAKE_MATCH_1 STREQUAL OFFSETS)
+    if(CMAKE_MATCH_1 STREQUAL VALUES)
       set(inside TRUE)
     else()
       set(inside FALSE)
@@ -27,9 +30,9 @@ foreach(line IN LISTS expected_lines)
 endforeach()
 string(STRIP "${expected}" expected)
 if(expected STREQUAL "")
-  message(FATAL_ERROR "${EXPECTED} has no section [${OFFSETS}]")
+  message(FATAL_ERROR "${EXPECTED} has no section [${VALUES}]")
 endif()
 if(NOT actual STREQUAL expected)
-  message(FATAL_ERROR "sweep over ${OFFSETS} differs from ${EXPECTED}\nexpected:\n${expected}\n"
-                      "actual:\n${actual}")
+  message(FATAL_ERROR "sweep over ${AXIS}=${VALUES} differs from ${EXPECTED}\nexpected:\n"
+                      "${expected}\nactual:\n${actual}")
 endif()
