@@ -361,6 +361,38 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
         w.records = from[0];
         workers.push_back(std::move(w));
     };
+    // A finished point's record, whether it came from its worker or stands for a lost one.
+    auto record_point = [&](const worker& w, point_record r) {
+        if (w.rerun) return;
+        if (r.verdict == "fail") {
+            ++failed;
+            if (o.keep == keep_folders::failing) reruns.push_back(r.index);
+        }
+        ++finished;
+        pending.emplace(r.index, std::move(r));
+        for (auto it = pending.begin(); it != pending.end() && it->first == next_to_spool;
+             it = pending.erase(it)) {
+            spool << record_line(plan, it->second) << '\n';
+            next_to_spool += o.part.count;
+        }
+    };
+    // A point whose worker ended before starting it goes to another worker, a bounded number of
+    // times: workers that keep ending before any point (killed from outside, out of memory) must
+    // end the sweep with the point recorded as lost, not hand it round for ever.
+    constexpr unsigned max_hand_backs = 3;
+    std::map<std::uint64_t, unsigned> hand_backs;
+    auto give_back = [&](std::uint64_t point, bool rerun, int status) {
+        if (++hand_backs[point] <= max_hand_backs) {
+            returned.emplace_front(point, rerun);
+            return;
+        }
+        worker stand_in;
+        stand_in.rerun = rerun;
+        point_record r = lost_point(point, status);
+        r.message += "; " + std::to_string(max_hand_backs + 1) +
+                     " processes in a row ended before starting it";
+        record_point(stand_in, std::move(r));
+    };
     // Gives `w` its next point; false when there is none left.
     auto assign = [&](worker& w) {
         bool rerun = false;
@@ -383,7 +415,7 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
         const std::string line = std::to_string(point) + (keep ? " 1" : " 0") + "\n";
         if (!write_all(w.commands, line)) {
             // The worker is gone (its end shows when its records pipe closes): another runs it.
-            returned.emplace_front(point, rerun);
+            give_back(point, rerun, 0);
             ::close(w.commands);
             w.commands = -1;
             return false;
@@ -396,21 +428,6 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
         return true;
     };
     auto has_work = [&] { return !returned.empty() || !reruns.empty() || next < plan.points(); };
-    // A finished point's record, whether it came from its worker or stands for a lost one.
-    auto record_point = [&](const worker& w, point_record r) {
-        if (w.rerun) return;
-        if (r.verdict == "fail") {
-            ++failed;
-            if (o.keep == keep_folders::failing) reruns.push_back(r.index);
-        }
-        ++finished;
-        pending.emplace(r.index, std::move(r));
-        for (auto it = pending.begin(); it != pending.end() && it->first == next_to_spool;
-             it = pending.erase(it)) {
-            spool << record_line(plan, it->second) << '\n';
-            next_to_spool += o.part.count;
-        }
-    };
     const std::uint64_t per_process = o.points_per_process == 0 ? 1 : o.points_per_process;
 
     while (!interrupted) {
@@ -483,7 +500,7 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
             const bool stopped = WIFSIGNALED(status) && WTERMSIG(status) == SIGINT;
             if (w.busy && !w.started && !stopped) {
                 // It ended before it started the point: another worker runs it.
-                returned.emplace_front(w.point, w.rerun);
+                give_back(w.point, w.rerun, status);
             } else if (w.busy && !stopped) {
                 record_point(w, lost_point(w.point, status));
             }
