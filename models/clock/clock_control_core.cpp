@@ -1,7 +1,10 @@
 #include "models/clock/clock_control_core.h"
 
 #include <limits>
+#include <set>
 #include <stdexcept>
+#include <string>
+#include <vector>
 
 namespace models {
 
@@ -113,12 +116,30 @@ void clock_control_core::refuse(std::uint32_t bit, const std::string& why) {
 }
 
 bool clock_control_core::in_use(const std::string& node, time_ps t) const {
-    for (const std::string& name : tree_.node_names()) {
-        if (tree_.kind(name) != sim::clock_kind::mux) continue;
-        const auto& inputs = tree_.inputs_of(name);
-        for (time_ps when : {t, sim::max_time_ps}) {
+    // A node is in use while a mux selects it or anything made from it (a divider or gate on the
+    // PLL's output, say): walk up from each mux's selected input through the nodes it is made
+    // from, through a mux on the way by its own selection only.
+    for (time_ps when : {t, sim::max_time_ps}) {
+        for (const std::string& name : tree_.node_names()) {
+            if (tree_.kind(name) != sim::clock_kind::mux) continue;
             const auto s = tree_.selected_at(name, when);
-            if (s && *s < inputs.size() && inputs[*s] == node) return true;
+            const auto& inputs = tree_.inputs_of(name);
+            if (!s || *s >= inputs.size()) continue;
+            std::vector<std::string> todo{inputs[*s]};
+            std::set<std::string> seen;
+            while (!todo.empty()) {
+                const std::string n = todo.back();
+                todo.pop_back();
+                if (n == node) return true;
+                if (!seen.insert(n).second) continue;
+                const auto& up = tree_.inputs_of(n);
+                if (tree_.kind(n) == sim::clock_kind::mux) {
+                    const auto sel = tree_.selected_at(n, when);
+                    if (sel && *sel < up.size()) todo.push_back(up[*sel]);
+                } else {
+                    todo.insert(todo.end(), up.begin(), up.end());
+                }
+            }
         }
     }
     return false;

@@ -98,7 +98,8 @@ private:
     };
     // Sets refusal bit `bit` and keeps `why` for last_refusal().
     void refuse(std::uint32_t bit, const std::string& why);
-    // Whether some multiplexer selects `node` at t or will once its pending switch is done.
+    // Whether some multiplexer selects `node`, or a node made from it, at t or will once its
+    // pending switch is done.
     bool in_use(const std::string& node, time_ps t) const;
     // The slot a field number names, or null (the block's own `refused`, or no such slot).
     slot_state* slot_of(std::uint32_t field);

@@ -394,3 +394,25 @@ TEST(clock_control_test, a_counter_follows_a_bus_divider_change_through_the_boos
 }
 
 }  // namespace
+
+TEST(clock_control_test, a_pll_that_a_mux_selects_through_a_divider_is_in_use_too) {
+    // The test part with a divider between the PLL and the system mux: the mux selects the divider,
+    // so stopping the PLL would stop the system clock just the same.
+    std::string clocks = test_tree;
+    const std::string direct = "inputs = [\"rc_fast\", \"pll\"]";
+    clocks.replace(clocks.find(direct), direct.size(), "inputs = [\"rc_fast\", \"pll_half\"]");
+    clocks += "\n[clocks.pll_half]\nkind = \"divider\"\ninput = \"pll\"\nfactor = 2\n";
+    bench b(clocks);
+    b.start();
+    b.start_pll(50, 10 * us);
+    // Stopping it while the mux still selects the RC is allowed, and so is starting it again.
+    b.write(CK_PLL_RUN, 0, 70 * us);
+    EXPECT_EQ(b.read(CK_REFUSALS, 70 * us), 0u);
+    b.write(CK_PLL_RUN, CK_PLL_RUN_ENABLE, 80 * us);
+    b.write(CK_SYSTEM_SOURCE, CK_SOURCE_PLL, 200 * us);
+    EXPECT_EQ(b.read(CK_REFUSALS, 200 * us), 0u);
+    b.write(CK_PLL_RUN, 0, 210 * us);
+    EXPECT_EQ(b.read(CK_REFUSALS, 210 * us), CK_REFUSED_IN_USE) << b.core->last_refusal();
+    EXPECT_EQ(b.read(CK_PLL_RUN, 210 * us), CK_PLL_RUN_ENABLE | CK_PLL_RUN_READY);
+    EXPECT_EQ(b.tree.domain("sys").freq_at(220 * us), frequency::hz(50'000'000));
+}
