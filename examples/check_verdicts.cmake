@@ -2,11 +2,7 @@
 # (lines "verdict<TAB>check name"; `#` starts a comment). Fails on any difference, on a missing or
 # extra check, or when the exit code disagrees with the verdicts (0 all pass, 1 some fail).
 # Optional ARGS: more options for `tickbench run`, separated by "|" ("--param|rearm_after_us=500").
-# Optional PARAM: one firmware parameter NAME=VALUE for the run (`--param`).
 string(REPLACE "|" ";" extra_args "${ARGS}")
-if(DEFINED PARAM)
-  list(APPEND extra_args --param ${PARAM})
-endif()
 execute_process(
   COMMAND ${TICKBENCH} run ${SCENARIO} --firmware ${FIRMWARE} --out ${OUT} ${extra_args}
   RESULT_VARIABLE code OUTPUT_VARIABLE out ERROR_VARIABLE err)
