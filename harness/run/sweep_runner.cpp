@@ -362,8 +362,9 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
         workers.push_back(std::move(w));
     };
     // A finished point's record, whether it came from its worker or stands for a lost one.
-    auto record_point = [&](const worker& w, point_record r) {
-        if (w.rerun) return;
+    // A rerun (a failing point run again to keep its folder) records nothing new.
+    auto record_point = [&](bool rerun, point_record r) {
+        if (rerun) return;
         if (r.verdict == "fail") {
             ++failed;
             if (o.keep == keep_folders::failing) reruns.push_back(r.index);
@@ -386,12 +387,10 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
             returned.emplace_front(point, rerun);
             return;
         }
-        worker stand_in;
-        stand_in.rerun = rerun;
         point_record r = lost_point(point, status);
         r.message += "; " + std::to_string(max_hand_backs + 1) +
                      " processes in a row ended before starting it";
-        record_point(stand_in, std::move(r));
+        record_point(rerun, std::move(r));
     };
     // Gives `w` its next point; false when there is none left.
     auto assign = [&](worker& w) {
@@ -485,7 +484,7 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
                     r.message = "the point's process sent an unreadable record";
                 }
                 if (r.index != w.point) r = lost_point(w.point, 0);
-                record_point(w, std::move(r));
+                record_point(w.rerun, std::move(r));
             }
         }
         for (std::size_t i = workers.size(); i-- > 0;) {
@@ -502,7 +501,7 @@ sweep_totals run_sweep(const sweep_options& o, std::ostream& out) {
                 // It ended before it started the point: another worker runs it.
                 give_back(w.point, w.rerun, status);
             } else if (w.busy && !stopped) {
-                record_point(w, lost_point(w.point, status));
+                record_point(w.rerun, lost_point(w.point, status));
             }
             workers.erase(workers.begin() + static_cast<std::ptrdiff_t>(i));
         }
